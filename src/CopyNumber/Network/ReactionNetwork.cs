@@ -1,0 +1,97 @@
+using CopyNumber.Kinetics;
+
+namespace CopyNumber.Network;
+
+/// <summary>
+/// A compiled reaction network: topology (N) kept apart from kinetics (propensities and rate laws),
+/// as in dx/dt = N·v. Immutable and shared by every simulator thread.
+/// </summary>
+public sealed class ReactionNetwork
+{
+    /// <summary>Creates a network; normally done by the network compiler.</summary>
+    public ReactionNetwork(
+        string name,
+        string sourceFile,
+        double size,
+        IReadOnlyList<string> species,
+        IReadOnlyList<long> initialCounts,
+        IReadOnlyList<string> parameters,
+        IReadOnlyList<double> initialParameterValues,
+        IReadOnlyList<Reaction> reactions,
+        Stoichiometry stoichiometry,
+        DependencyGraph dependencies,
+        Propensities propensities,
+        RateEquations rateEquations,
+        IReadOnlyList<Readout> readouts,
+        IReadOnlyList<ScheduledChange> schedule)
+    {
+        Name = name;
+        SourceFile = sourceFile;
+        Size = size;
+        Species = species.ToArray();
+        InitialCounts = initialCounts.ToArray();
+        Parameters = parameters.ToArray();
+        InitialParameterValues = initialParameterValues.ToArray();
+        Reactions = reactions.ToArray();
+        Stoichiometry = stoichiometry;
+        Dependencies = dependencies;
+        Propensities = propensities;
+        RateEquations = rateEquations;
+        Readouts = readouts.ToArray();
+        Schedule = schedule.OrderBy(s => s.Time).ToArray(); // OrderBy is stable: file order within a time
+    }
+
+    /// <summary>The model's name (its file name without extension).</summary>
+    public string Name { get; }
+
+    /// <summary>The model file as given.</summary>
+    public string SourceFile { get; }
+
+    /// <summary>System size Ω; concentration = count / Ω.</summary>
+    public double Size { get; }
+
+    /// <summary>Species names, in declaration order; every species-indexed array follows this order.</summary>
+    public IReadOnlyList<string> Species { get; }
+
+    /// <summary>Initial copy numbers.</summary>
+    public IReadOnlyList<long> InitialCounts { get; }
+
+    /// <summary>Parameter names, in declaration order.</summary>
+    public IReadOnlyList<string> Parameters { get; }
+
+    /// <summary>Parameter values at time 0.</summary>
+    public IReadOnlyList<double> InitialParameterValues { get; }
+
+    /// <summary>Reactions (columns of N), reversible lines split into two.</summary>
+    public IReadOnlyList<Reaction> Reactions { get; }
+
+    /// <summary>N, dense and sparse.</summary>
+    public Stoichiometry Stoichiometry { get; }
+
+    /// <summary>Which propensities change when each reaction fires.</summary>
+    public DependencyGraph Dependencies { get; }
+
+    /// <summary>Stochastic propensities a(x).</summary>
+    public Propensities Propensities { get; }
+
+    /// <summary>Deterministic rates v(x), N·v and the exact Jacobian.</summary>
+    public RateEquations RateEquations { get; }
+
+    /// <summary>Derived quantities.</summary>
+    public IReadOnlyList<Readout> Readouts { get; }
+
+    /// <summary>Timed changes, sorted by time (file order within a time).</summary>
+    public IReadOnlyList<ScheduledChange> Schedule { get; }
+
+    /// <summary>Index of a species by name, or −1.</summary>
+    public int SpeciesIndex(string name) => IndexOf(Species, name);
+
+    /// <summary>Index of a parameter by name, or −1.</summary>
+    public int ParameterIndex(string name) => IndexOf(Parameters, name);
+
+    private static int IndexOf(IReadOnlyList<string> names, string name)
+    {
+        for (var i = 0; i < names.Count; i++) if (names[i] == name) return i;
+        return -1;
+    }
+}

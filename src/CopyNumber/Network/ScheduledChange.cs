@@ -1,0 +1,34 @@
+using CopyNumber.Kinetics;
+using CopyNumber.Language;
+
+namespace CopyNumber.Network;
+
+/// <summary>What a schedule line changes.</summary>
+public enum ScheduleTarget
+{
+    /// <summary>A species count.</summary>
+    Species,
+    /// <summary>A parameter value (mass-action constants are recomputed).</summary>
+    Parameter,
+}
+
+/// <summary>
+/// A change applied exactly at <see cref="Time"/> by every simulator and by the rate equations. Lines
+/// at equal times apply in file order. On a stochastic state a species' new value is rounded to the
+/// nearest integer; a negative result stops the run with an error.
+/// </summary>
+/// <param name="Time">When, in model time units.</param>
+/// <param name="Target">Species or parameter.</param>
+/// <param name="TargetIndex">Index into species or parameters.</param>
+/// <param name="TargetName">Name, for messages.</param>
+/// <param name="Operation">Set, add or subtract.</param>
+/// <param name="OnCounts">The value expression on a stochastic state.</param>
+/// <param name="OnState">The value expression on a rate-equation state.</param>
+public sealed record ScheduledChange(
+    double Time,
+    ScheduleTarget Target,
+    int TargetIndex,
+    string TargetName,
+    ScheduleOperation Operation,
+    CountLaw OnCounts,
+    StateLaw OnState);
