@@ -1,1 +1,9 @@
-return 0;
+using System.CommandLine;
+using CopyNumber.Cli;
+using CopyNumber.Cli.Commands;
+
+var root = new RootCommand("CopyNumber: exact and approximate stochastic simulation of low-copy-number reaction networks, set against their rate equations.");
+root.Subcommands.Add(InspectCommand.Create());
+root.Subcommands.Add(SolveCommand.Create());
+
+return CommandRunner.Run(root, args);

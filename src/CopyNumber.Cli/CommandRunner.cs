@@ -1,0 +1,67 @@
+using System.CommandLine;
+using CopyNumber.Language;
+
+namespace CopyNumber.Cli;
+
+/// <summary>
+/// The one place that turns failures into messages and exit codes: parse errors and bad arguments give 2,
+/// a failed run gives 1, and no stack trace ever reaches the user.
+/// </summary>
+internal static class CommandRunner
+{
+    public static int Run(RootCommand root, string[] args, TextWriter? output = null, TextWriter? error = null)
+    {
+        output ??= Console.Out;
+        error ??= Console.Error;
+        ParseResult parsed;
+        try
+        {
+            parsed = root.Parse(args);
+        }
+        catch (Exception e)
+        {
+            error.WriteLine($"error: cannot read the arguments: {e.Message}");
+            return ExitCodes.BadInput;
+        }
+        if (parsed.Errors.Count > 0)
+        {
+            foreach (var problem in parsed.Errors) error.WriteLine($"error: {problem.Message}");
+            error.WriteLine("Run with --help to see the commands and their options.");
+            return ExitCodes.BadInput;
+        }
+        try
+        {
+            return parsed.Invoke(new InvocationConfiguration { Output = output, Error = error, EnableDefaultExceptionHandler = false });
+        }
+        catch (ModelInputException e)
+        {
+            foreach (var d in e.Diagnostics) error.WriteLine(d.Format());
+            error.WriteLine(e.Diagnostics.Count == 1 ? "1 error" : $"{e.Diagnostics.Count} errors");
+            return ExitCodes.BadInput;
+        }
+        catch (UserInputException e)
+        {
+            error.WriteLine($"error: {e.Message}");
+            return ExitCodes.BadInput;
+        }
+        catch (OperationCanceledException)
+        {
+            error.WriteLine("interrupted");
+            return ExitCodes.Interrupted;
+        }
+        catch (Exception e)
+        {
+            error.WriteLine($"error: {Describe(e)}");
+            return ExitCodes.RunFailed;
+        }
+    }
+
+    private static string Describe(Exception e) =>
+        e is AggregateException { InnerExceptions.Count: 1 } a ? Describe(a.InnerExceptions[0]) : e.Message;
+}
+
+/// <summary>Carries a model's diagnostics to the one place that prints them.</summary>
+internal sealed class ModelInputException(IReadOnlyList<Diagnostic> diagnostics) : Exception("the model has errors")
+{
+    public IReadOnlyList<Diagnostic> Diagnostics { get; } = diagnostics;
+}

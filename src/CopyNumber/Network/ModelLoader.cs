@@ -1,0 +1,45 @@
+using CopyNumber.Language;
+
+namespace CopyNumber.Network;
+
+/// <summary>A model read from disk: its text (for provenance), syntax tree and compiled network.</summary>
+/// <param name="Path">The path as the user gave it.</param>
+/// <param name="Text">The file's full text.</param>
+/// <param name="Syntax">The parsed, checked model.</param>
+/// <param name="Network">The compiled network.</param>
+public sealed record LoadedModel(string Path, string Text, ModelSyntax Syntax, ReactionNetwork Network);
+
+/// <summary>The result of loading a model: the model, or every diagnostic that stopped it.</summary>
+public sealed record LoadOutcome(LoadedModel? Model, IReadOnlyList<Diagnostic> Diagnostics);
+
+/// <summary>Text → syntax → compiled network in one call, for the commands that start from a file.</summary>
+public static class ModelLoader
+{
+    /// <summary>Reads, parses, checks and compiles a model file. Never throws for bad input.</summary>
+    public static LoadOutcome Load(string path, CompileOptions? options = null)
+    {
+        string text;
+        try
+        {
+            text = File.ReadAllText(path);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException or ArgumentException or NotSupportedException)
+        {
+            var why = e is FileNotFoundException or DirectoryNotFoundException ? "no such file" : e.Message;
+            return new LoadOutcome(null, [new Diagnostic(path, new SourcePosition(1, 1), $"cannot read the model file: {why}", "")]);
+        }
+        return LoadText(text, path, options);
+    }
+
+    /// <summary>Parses, checks and compiles model text; <paramref name="file"/> names it in messages.</summary>
+    public static LoadOutcome LoadText(string text, string file, CompileOptions? options = null)
+    {
+        var parsed = ModelSource.Parse(text, file);
+        if (parsed.Model is null || parsed.Diagnostics.Count > 0)
+            return new LoadOutcome(null, parsed.Diagnostics);
+        var compiled = NetworkCompiler.Compile(parsed.Model, options);
+        if (compiled.Network is null || compiled.Diagnostics.Count > 0)
+            return new LoadOutcome(null, compiled.Diagnostics);
+        return new LoadOutcome(new LoadedModel(file, text, parsed.Model, compiled.Network), []);
+    }
+}

@@ -1,0 +1,92 @@
+using System.Text.Json;
+using System.Text.Json.Serialization;
+
+namespace CopyNumber.Network;
+
+/// <summary>
+/// Everything <c>copynumber inspect</c> reports about a compiled network, as plain data. Its JSON field
+/// names (snake_case) are a stable interface documented in docs/inspect-json.md.
+/// </summary>
+public sealed record NetworkDescription(
+    [property: JsonPropertyName("model")] string Model,
+    [property: JsonPropertyName("size")] double Size,
+    [property: JsonPropertyName("species")] IReadOnlyList<SpeciesDescription> Species,
+    [property: JsonPropertyName("parameters")] IReadOnlyList<ParameterDescription> Parameters,
+    [property: JsonPropertyName("reactions")] IReadOnlyList<ReactionDescription> Reactions,
+    [property: JsonPropertyName("stoichiometry")] IReadOnlyList<IReadOnlyList<long>> Stoichiometry,
+    [property: JsonPropertyName("rank")] int Rank,
+    [property: JsonPropertyName("conservation_laws")] IReadOnlyList<ConservationLawDescription> ConservationLaws,
+    [property: JsonPropertyName("dependent_species")] IReadOnlyList<string> DependentSpecies,
+    [property: JsonPropertyName("unchanged_species")] IReadOnlyList<string> UnchangedSpecies,
+    [property: JsonPropertyName("readouts")] IReadOnlyList<ReadoutDescription> Readouts,
+    [property: JsonPropertyName("schedule")] IReadOnlyList<ScheduleDescription> Schedule)
+{
+    /// <summary>Gathers the description of a network, including the exact structure of N.</summary>
+    public static NetworkDescription Of(ReactionNetwork network)
+    {
+        var structure = StoichiometricStructure.Analyze(network.Stoichiometry, network.InitialCounts);
+        var n = network.Stoichiometry;
+        var rows = Enumerable.Range(0, n.SpeciesCount)
+            .Select(i => (IReadOnlyList<long>)Enumerable.Range(0, n.ReactionCount).Select(j => n[i, j]).ToArray())
+            .ToArray();
+        string Side(IReadOnlyList<(int Species, long Coefficient)> side) => side.Count == 0
+            ? "0"
+            : string.Join(" + ", side.Select(t => t.Coefficient == 1 ? network.Species[t.Species] : $"{t.Coefficient} {network.Species[t.Species]}"));
+        return new NetworkDescription(
+            network.Name,
+            network.Size,
+            network.Species.Select((s, i) => new SpeciesDescription(s, network.InitialCounts[i])).ToArray(),
+            network.Parameters.Select((p, i) => new ParameterDescription(p, network.InitialParameterValues[i])).ToArray(),
+            network.Reactions.Select(r => new ReactionDescription(
+                r.Name, $"{Side(r.Reactants)} -> {Side(r.Products)}", r.Law == Language.LawKind.Mass ? "mass" : "rate", r.LawText)).ToArray(),
+            rows,
+            structure.Rank,
+            structure.ConservationLaws.Select(l => new ConservationLawDescription(
+                l.Describe(network.Species),
+                network.Species.Select((s, i) => (s, l.Coefficients[i])).Where(p => p.Item2 != 0).ToDictionary(p => p.s, p => p.Item2),
+                l.Total)).ToArray(),
+            structure.DependentSpecies.Select(i => network.Species[i]).ToArray(),
+            structure.UnchangedSpecies.Select(i => network.Species[i]).ToArray(),
+            network.Readouts.Select(r => new ReadoutDescription(r.Name, r.Text, r.IsCount)).ToArray(),
+            network.Schedule.Select(s => new ScheduleDescription(s.Time, s.TargetName, s.Operation switch
+            {
+                Language.ScheduleOperation.Set => "set",
+                Language.ScheduleOperation.Add => "add",
+                _ => "subtract",
+            })).ToArray());
+    }
+
+    /// <summary>The description as indented JSON.</summary>
+    public string ToJson() => JsonSerializer.Serialize(this, new JsonSerializerOptions { WriteIndented = true });
+}
+
+/// <summary>A species and its initial copy number.</summary>
+public sealed record SpeciesDescription([property: JsonPropertyName("name")] string Name, [property: JsonPropertyName("initial")] long Initial);
+
+/// <summary>A parameter and its value at time 0.</summary>
+public sealed record ParameterDescription([property: JsonPropertyName("name")] string Name, [property: JsonPropertyName("value")] double Value);
+
+/// <summary>A reaction: its equation, its law kind (<c>mass</c> or <c>rate</c>) and the law as text.</summary>
+public sealed record ReactionDescription(
+    [property: JsonPropertyName("name")] string Name,
+    [property: JsonPropertyName("equation")] string Equation,
+    [property: JsonPropertyName("law")] string Law,
+    [property: JsonPropertyName("expression")] string Expression);
+
+/// <summary>A conservation law as text, its coefficients by species and its conserved total.</summary>
+public sealed record ConservationLawDescription(
+    [property: JsonPropertyName("text")] string Text,
+    [property: JsonPropertyName("coefficients")] IReadOnlyDictionary<string, long> Coefficients,
+    [property: JsonPropertyName("total")] long Total);
+
+/// <summary>A readout, its expression and whether it is a count (gets exact histograms).</summary>
+public sealed record ReadoutDescription(
+    [property: JsonPropertyName("name")] string Name,
+    [property: JsonPropertyName("expression")] string Expression,
+    [property: JsonPropertyName("is_count")] bool IsCount);
+
+/// <summary>A scheduled change: when, what, and how (<c>set</c>, <c>add</c>, <c>subtract</c>).</summary>
+public sealed record ScheduleDescription(
+    [property: JsonPropertyName("time")] double Time,
+    [property: JsonPropertyName("target")] string Target,
+    [property: JsonPropertyName("operation")] string Operation);
