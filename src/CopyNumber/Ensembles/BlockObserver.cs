@@ -1,0 +1,48 @@
+using CopyNumber.Network;
+using CopyNumber.Stochastic;
+
+namespace CopyNumber.Ensembles;
+
+/// <summary>Copies each recorded state of the current replicate into its slot of the block, with readouts evaluated.</summary>
+internal sealed class BlockObserver : ITrajectoryObserver
+{
+    private readonly int _species;
+    private readonly Readout[] _countReadouts;
+    private readonly Readout[] _realReadouts;
+    private readonly double[] _parameters;
+    private ReplicateBlock _block = null!;
+    private int _slot;
+
+    public BlockObserver(ReactionNetwork network)
+    {
+        _species = network.Species.Count;
+        _countReadouts = network.Readouts.Where(r => r.IsCount).ToArray();
+        _realReadouts = network.Readouts.Where(r => !r.IsCount).ToArray();
+        // Readouts see the parameters' initial values; a schedule that changes a parameter does not change a readout.
+        _parameters = network.InitialParameterValues.ToArray();
+    }
+
+    public void Begin(ReplicateBlock block, int slot)
+    {
+        _block = block;
+        _slot = slot;
+        block.RecordedPoints[slot] = 0;
+    }
+
+    public void Record(int gridIndex, double time, long[] counts)
+    {
+        var block = _block;
+        var baseIndex = ((long)_slot * block.GridPoints + gridIndex) * block.CountStride;
+        var target = block.Counts;
+        for (var i = 0; i < _species; i++) target[baseIndex + i] = counts[i];
+        for (var r = 0; r < _countReadouts.Length; r++)
+            target[baseIndex + _species + r] = (long)Math.Round(_countReadouts[r].OnCounts(counts, _parameters));
+        if (_realReadouts.Length > 0)
+        {
+            var realBase = ((long)_slot * block.GridPoints + gridIndex) * block.RealStride;
+            for (var r = 0; r < _realReadouts.Length; r++)
+                block.Reals[realBase + r] = _realReadouts[r].OnCounts(counts, _parameters);
+        }
+        block.RecordedPoints[_slot] = gridIndex + 1;
+    }
+}

@@ -1,0 +1,38 @@
+using CopyNumber.Network;
+using CopyNumber.Stochastic;
+
+namespace CopyNumber.Ensembles;
+
+/// <summary>What an ensemble run does. Replicate r always uses the stream (Seed, r), whatever the threads.</summary>
+public sealed record EnsembleOptions
+{
+    /// <summary>Recording times.</summary>
+    public required TimeGrid Grid { get; init; }
+
+    /// <summary>Number of replicates in the whole run (all shards together).</summary>
+    public required long Replicates { get; init; }
+
+    /// <summary>Run seed; replicate r's generator is <see cref="Randomness.ReplicateStreams.For"/>(Seed, r).</summary>
+    public required ulong Seed { get; init; }
+
+    /// <summary>Which simulator.</summary>
+    public SimulationMethod Method { get; init; } = SimulationMethod.Direct;
+
+    /// <summary>Simulator settings (ε for tau-leaping, event limit per replicate).</summary>
+    public SimulatorOptions Simulator { get; init; } = new();
+
+    /// <summary>Worker threads (≥ 1).</summary>
+    public int Threads { get; init; } = Environment.ProcessorCount;
+
+    /// <summary>The first this many replicates have their paths handed to the path sink, in replicate order.</summary>
+    public long PathReplicates { get; init; }
+
+    /// <summary>
+    /// Replicates are handed out in blocks of this many; a block is the unit that is finished or, on
+    /// interruption, dropped whole, so the finished replicates are always a known set of blocks.
+    /// </summary>
+    public int BlockSize { get; init; } = 64;
+
+    /// <summary>Blocks already finished by an earlier, interrupted run; they are skipped.</summary>
+    public IReadOnlySet<long> SkipBlocks { get; init; } = new HashSet<long>();
+}
