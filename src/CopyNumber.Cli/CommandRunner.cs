@@ -31,7 +31,7 @@ internal static class CommandRunner
         }
         try
         {
-            return parsed.Invoke(new InvocationConfiguration { Output = output, Error = error, EnableDefaultExceptionHandler = false });
+            return parsed.Invoke(new InvocationConfiguration { Output = output, Error = error, EnableDefaultExceptionHandler = false, ProcessTerminationTimeout = null });
         }
         catch (ModelInputException e)
         {

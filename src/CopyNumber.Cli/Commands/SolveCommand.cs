@@ -44,7 +44,7 @@ internal static class SolveCommand
                     ["rtol"] = Invariant(options.RelativeTolerance),
                     ["atol"] = Invariant(options.AbsoluteTolerance),
                 };
-                DeterministicTable.Write(path, solution, Provenance.For(loaded.Path, loaded.Text, arguments));
+                DeterministicTable.Write(path, solution, Provenance.For(loaded.Path, loaded.Text, arguments, DateTimeOffset.UtcNow));
             }
             writer.Write(Render(solution));
             if (path is not null) writer.WriteLine($"wrote {path}");
