@@ -1,0 +1,38 @@
+using System.Globalization;
+
+namespace CopyNumber.Ensembles;
+
+/// <summary>Writes and reads sets of block indices compactly as ranges, e.g. "0-41,43,45-60".</summary>
+public static class BlockRanges
+{
+    /// <summary>The sorted indices as comma-separated ranges.</summary>
+    public static string Format(IReadOnlyList<long> sorted)
+    {
+        var parts = new List<string>();
+        for (var i = 0; i < sorted.Count;)
+        {
+            var start = sorted[i];
+            var end = start;
+            while (i + 1 < sorted.Count && sorted[i + 1] == end + 1) end = sorted[++i];
+            i++;
+            parts.Add(start == end ? start.ToString(CultureInfo.InvariantCulture) : $"{start}-{end}");
+        }
+        return string.Join(",", parts);
+    }
+
+    /// <summary>Reads what <see cref="Format"/> wrote.</summary>
+    /// <exception cref="FormatException">The text is not a list of ranges.</exception>
+    public static HashSet<long> Parse(string text)
+    {
+        var set = new HashSet<long>();
+        foreach (var part in text.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+        {
+            var dash = part.IndexOf('-');
+            var start = long.Parse(dash < 0 ? part : part[..dash], CultureInfo.InvariantCulture);
+            var end = dash < 0 ? start : long.Parse(part[(dash + 1)..], CultureInfo.InvariantCulture);
+            if (end < start) throw new FormatException($"range '{part}' runs backwards");
+            for (var b = start; b <= end; b++) set.Add(b);
+        }
+        return set;
+    }
+}
