@@ -37,7 +37,9 @@ public static class ModelLoader
         var parsed = ModelSource.Parse(text, file);
         if (parsed.Model is null || parsed.Diagnostics.Count > 0)
             return new LoadOutcome(null, parsed.Diagnostics);
-        var compiled = NetworkCompiler.Compile(parsed.Model, options);
+        // The compiler quotes source lines in its diagnostics when it has them.
+        var lines = text.Split('\n').Select(l => l.TrimEnd('\r')).ToArray();
+        var compiled = NetworkCompiler.Compile(parsed.Model, (options ?? new CompileOptions()) with { SourceLines = lines });
         if (compiled.Network is null || compiled.Diagnostics.Count > 0)
             return new LoadOutcome(null, compiled.Diagnostics);
         return new LoadOutcome(new LoadedModel(file, text, parsed.Model, compiled.Network), []);
