@@ -131,7 +131,7 @@ internal static class SimulateCommand
             if (q.IsCount)
             {
                 var s = DistributionSummary.From(result.Histogram(last, countIndex++));
-                table.Add(q.Name, Numbers.Format(s.Mean, 5), Numbers.Format(s.StandardError, 2), Numbers.Format(deterministic, 5), Numbers.Format(s.Fano, 3), Numbers.Format(s.PZero, 3));
+                table.Add(q.Name, Numbers.Format(s.Mean, 5), Numbers.Format(s.StandardError, 2), Numbers.Format(deterministic, 5), Numbers.Format(s.FanoFactor, 3), Numbers.Format(s.ZeroFraction, 3));
             }
             else
             {

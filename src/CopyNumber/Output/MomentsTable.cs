@@ -50,15 +50,15 @@ public static class MomentsTable
                     {
                         var s = DistributionSummary.From(result.Histogram(k, countIndex++));
                         replicates[row] = s.Replicates;
-                        values = [s.Mean, s.Variance, s.StandardError, s.Fano, s.Cv2, s.Min, s.Q05, s.Q25, s.Median, s.Q75, s.Q95, s.Max, s.PZero];
+                        values = [s.Mean, s.Variance, s.StandardError, s.FanoFactor, s.SquaredCoefficientOfVariation, s.Minimum, s.Quantile05, s.Quantile25, s.Median, s.Quantile75, s.Quantile95, s.Maximum, s.ZeroFraction];
                     }
                     else
                     {
                         var m = result.Moments(k, realIndex++);
                         replicates[row] = m.Count;
                         var se = m.Count > 0 ? Math.Sqrt(m.Variance / m.Count) : double.NaN;
-                        values = [m.Mean, m.Variance, se, m.Variance / m.Mean, m.Variance / (m.Mean * m.Mean), m.Min,
-                            double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, m.Max, double.NaN];
+                        values = [m.Mean, m.Variance, se, m.Variance / m.Mean, m.Variance / (m.Mean * m.Mean), m.Minimum,
+                            double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, m.Maximum, double.NaN];
                     }
                     for (var c = 0; c < values.Length; c++) stats[c][row] = values[c];
                     stats[13][row] = deterministicColumn[q] >= 0 ? deterministic!.Values[k, deterministicColumn[q]] : double.NaN;
