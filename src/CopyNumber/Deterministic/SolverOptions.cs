@@ -13,8 +13,8 @@ public enum SolverKind
 
 /// <summary>
 /// Accuracy and effort settings of <see cref="OdeIntegrator"/> and <see cref="RateEquationSolver"/>. A step
-/// is accepted when the root-mean-square over components of err_i / (AbsoluteTolerance + RelativeTolerance·|y_i|)
-/// is at most 1, so both tolerances are local (per step); global errors are typically a small multiple.
+/// is accepted when the root-mean-square over components of err_i / (AbsoluteTolerance + RelativeTolerance·max(|y_i|, |ŷ_i|))
+/// (old and new value) is at most 1, so both tolerances are local (per step); global errors are typically a small multiple.
 /// </summary>
 /// <param name="Kind">The integrator to use.</param>
 /// <param name="RelativeTolerance">Relative local error tolerance, dimensionless, 0 ≤ value &lt; 1.</param>

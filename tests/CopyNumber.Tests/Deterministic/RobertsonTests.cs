@@ -30,9 +30,10 @@ public class RobertsonTests
     [Fact]
     public void StiffSolverKeepsTheLinearInvariant()
     {
-        // y₁ + y₂ + y₃ is constant (the right-hand sides sum to zero); Rosenbrock methods with the exact
-        // Jacobian conserve linear invariants up to round-off (Hairer, Lubich & Wanner, Geometric Numerical
-        // Integration, Sect. IV.1, for Runge–Kutta-type methods; common practice).
+        // y₁ + y₂ + y₃ is constant: wᵀf = 0 for w = (1, 1, 1), hence wᵀJ = 0, and every Rosenbrock stage
+        // E·u_i = f(…) + Σ(c_ij/h)u_j then gives wᵀu_i = 0, so the method conserves it up to round-off (the
+        // Rosenbrock analogue of Hairer, Lubich & Wanner, Geometric Numerical Integration, Thm. IV.1.5 for
+        // Runge–Kutta methods; common practice).
         var y = SolveToForty(SolverKind.Stiff, out _);
         Assert.True(Math.Abs(y[0] + y[1] + y[2] - 1) < 1e-12, $"sum = {y[0] + y[1] + y[2]:R}");
     }

@@ -4,8 +4,8 @@ namespace CopyNumber.Tests.Deterministic;
 
 /// <summary>
 /// Robertson's chemical kinetics (Robertson 1966, "The solution of a set of reaction rate equations", in
-/// Numerical Analysis: An Introduction, ed. Walsh, Academic Press; stated as eq. IV.1.4 in Hairer &amp;
-/// Wanner, Solving ODEs II): y₁' = −0.04y₁ + 10⁴y₂y₃, y₂' = 0.04y₁ − 10⁴y₂y₃ − 3·10⁷y₂², y₃' = 3·10⁷y₂².
+/// Numerical Analysis: An Introduction, ed. Walsh, Academic Press; as stated in Hairer &amp; Wanner,
+/// Solving ODEs II, Sect. IV.1): y₁' = −0.04y₁ + 10⁴y₂y₃, y₂' = 0.04y₁ − 10⁴y₂y₃ − 3·10⁷y₂², y₃' = 3·10⁷y₂².
 /// </summary>
 internal sealed class RobertsonSystem : IOdeSystem
 {
