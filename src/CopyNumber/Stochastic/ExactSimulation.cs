@@ -1,0 +1,86 @@
+using System.Runtime.CompilerServices;
+using CopyNumber.Network;
+using CopyNumber.Randomness;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// The replicate loop shared by the exact methods. Grid times need no stop: the state is constant between
+/// events, so the recorder is handed it before each event that passes grid times. Schedule times are
+/// stops: the method advances to the stop, discarding the pending event, the changes are applied and the
+/// method adjusts its pending event times to the new propensities.
+/// </summary>
+internal abstract class ExactSimulation : IStochasticSimulator
+{
+    private readonly ScheduleCursor _schedule;
+    private readonly GridRecorder _recorder = new();
+    private readonly long _maxEvents;
+
+    protected ExactSimulation(SimulatorState state, long maxEvents)
+    {
+        State = state;
+        _schedule = new ScheduleCursor(state.Network);
+        _maxEvents = maxEvents;
+    }
+
+    protected SimulatorState State { get; }
+
+    public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
+    {
+        State.StartReplicate(_schedule, _recorder, grid, observer);
+        var time = 0.0;
+        var events = 0L;
+        Begin(ref rng, time);
+        while (true)
+        {
+            var scheduled = _schedule.NextTime;
+            var horizon = Math.Min(scheduled, grid.Until);
+            var end = Advance(ref rng, ref time, horizon, _recorder, ref events, _maxEvents);
+            if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true);
+            if (scheduled <= grid.Until)
+            {
+                _schedule.ApplyDue(time, State);
+                AfterSchedule(time);
+                continue;
+            }
+            _recorder.RecordThrough(grid.Until, State.Counts);
+            return new ReplicateResult(events, events, false);
+        }
+    }
+
+    /// <summary>Evaluates every propensity from the (reset) state and sets up the pending event(s).</summary>
+    protected abstract void Begin(ref Xoshiro256StarStar rng, double time);
+
+    /// <summary>
+    /// Fires events until the next would fall after <paramref name="horizon"/> (then time becomes the
+    /// horizon and the grid points before it are recorded) or the event limit is reached.
+    /// </summary>
+    protected abstract SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, GridRecorder recorder, ref long events, long maxEvents);
+
+    /// <summary>Brings propensities and pending events up to date after schedule changes at <paramref name="time"/>.</summary>
+    protected abstract void AfterSchedule(double time);
+
+    /// <summary>True when the event due at <paramref name="next"/> must not fire: it lies beyond the horizon, or the limit is reached.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private protected static bool StopsBefore(double next, double horizon, long fired, long maxEvents, out SegmentEnd end)
+    {
+        if (next > horizon)
+        {
+            end = SegmentEnd.Horizon;
+            return true;
+        }
+        end = SegmentEnd.EventLimit;
+        return fired >= maxEvents;
+    }
+
+    /// <summary>Ends a segment: at the horizon, time moves to it and the grid points before it are recorded.</summary>
+    private protected static SegmentEnd Finish(SegmentEnd end, ref double time, double horizon, GridRecorder recorder, long[] counts)
+    {
+        if (end == SegmentEnd.Horizon)
+        {
+            time = horizon;
+            recorder.RecordBefore(horizon, counts);
+        }
+        return end;
+    }
+}

@@ -1,0 +1,30 @@
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// Holds the propensities a_j and their total a0 and picks reaction j with probability a_j/a0, as the
+/// direct method needs (Gillespie 1977, J. Phys. Chem. 81:2340). Implemented by structs so the generic
+/// simulator is compiled for each one and the calls inline.
+/// </summary>
+internal interface IReactionSelection<TSelf> where TSelf : struct, IReactionSelection<TSelf>
+{
+    /// <summary>A selection over <paramref name="reactions"/> reactions, all propensities 0.</summary>
+    static abstract TSelf Create(int reactions);
+
+    /// <summary>a0, the sum of all propensities.</summary>
+    double Total { get; }
+
+    /// <summary>Sets a_j (a finite value ≥ 0).</summary>
+    void Set(int reaction, double propensity);
+
+    /// <summary>
+    /// The reaction j whose cumulative interval [Σ_{k&lt;j} a_k, Σ_{k≤j} a_k) holds <paramref name="point"/>,
+    /// for 0 ≤ point &lt; <see cref="Total"/>; never a reaction with a_j = 0, even under round-off.
+    /// </summary>
+    int Select(double point);
+
+    /// <summary>Called once per event after the updates: a place to stop round-off drift in the total.</summary>
+    void EndEvent();
+
+    /// <summary>Recomputes the total exactly from the stored propensities.</summary>
+    void Resum();
+}

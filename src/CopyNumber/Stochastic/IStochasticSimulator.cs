@@ -1,0 +1,23 @@
+using CopyNumber.Network;
+using CopyNumber.Randomness;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// A stochastic simulator bound to one network. Holds per-thread mutable state, so use one instance per
+/// thread; an instance runs any number of replicates one after the other, and every buffer is allocated
+/// when it is created.
+/// </summary>
+public interface IStochasticSimulator
+{
+    /// <summary>
+    /// Runs one replicate from the network's initial state and parameter values over <paramref name="grid"/>,
+    /// drawing every random number from <paramref name="rng"/>, and hands the state at each grid time to
+    /// <paramref name="observer"/>. Schedule changes apply exactly at their times.
+    /// </summary>
+    /// <exception cref="SimulationFailureException">
+    /// A propensity was negative, NaN or infinite, a firing or a schedule change made a count negative, or a
+    /// schedule value was not finite. The message names the reaction or species, the time and the state.
+    /// </exception>
+    ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer);
+}

@@ -1,0 +1,132 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+using CopyNumber.Network;
+using CopyNumber.Randomness;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// The next reaction method of Gibson &amp; Bruck (2000, J. Phys. Chem. A 104:1876): every reaction holds an
+/// absolute putative firing time τ_j in an indexed priority queue; the earliest fires. Exact, with one
+/// exponential number per event.
+/// </summary>
+/// <remarks>
+/// After reaction μ fires at t, μ draws a new time t + E/a_μ, and every other reaction whose propensity
+/// changed keeps its random number by rescaling, τ_new = (a_old/a_new)(τ_old − t) + t. When a propensity
+/// falls to 0 its unused unit-rate exponential a_old(τ_old − t) is stored and τ = ∞; when it becomes
+/// positive again the stored amount gives τ = t + stored/a_new (the paper's treatment of a_old = 0).
+/// A schedule change is handled the same way at its time, for every reaction whose propensity it changed;
+/// the pending times all lie after it, so the rescaling is exact.
+/// </remarks>
+internal sealed class NextReactionMethod : ExactSimulation
+{
+    private readonly ReactionEffects _effects;
+    private readonly IndexedPriorityQueue _queue;
+    private readonly double[] _propensity;
+    private readonly double[] _parked;   // unit-rate exponential kept while a_j = 0
+    private readonly double[] _initialTimes;
+
+    public NextReactionMethod(ReactionNetwork network, SimulatorOptions options)
+        : base(new SimulatorState(network), options.MaxEvents)
+    {
+        _effects = new ReactionEffects(network, includeFired: true);
+        var m = State.ReactionCount;
+        _queue = new IndexedPriorityQueue(m);
+        _propensity = new double[m];
+        _parked = new double[m];
+        _initialTimes = new double[m];
+    }
+
+    protected override void Begin(ref Xoshiro256StarStar rng, double time)
+    {
+        for (var j = 0; j < _propensity.Length; j++)
+        {
+            var a = State.Evaluate(j, time);
+            var unit = rng.NextExponential();
+            _propensity[j] = a;
+            if (a > 0.0) _initialTimes[j] = time + unit / a;
+            else
+            {
+                _parked[j] = unit;
+                _initialTimes[j] = double.PositiveInfinity;
+            }
+        }
+        _queue.Build(_initialTimes);
+    }
+
+    protected override void AfterSchedule(double time)
+    {
+        for (var j = 0; j < _propensity.Length; j++)
+        {
+            var a = State.Evaluate(j, time);
+            if (a != _propensity[j]) Rescale(j, a, time);
+        }
+    }
+
+    protected override SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, GridRecorder recorder, ref long events, long maxEvents)
+    {
+        var state = State;
+        var effects = _effects;
+        var counts = state.Counts;
+        var queue = _queue;
+        ref var count0 = ref MemoryMarshal.GetArrayDataReference(counts);
+        ref var term0 = ref MemoryMarshal.GetArrayDataReference(state.Terms);
+        ref var propensity0 = ref MemoryMarshal.GetArrayDataReference(_propensity);
+        var random = rng;
+        var t = time;
+        var fired = events;
+        var nextGrid = recorder.NextTime;
+        SegmentEnd end;
+        while (true)
+        {
+            var next = queue.TopKey;
+            if (StopsBefore(next, horizon, fired, maxEvents, out end)) break;
+            if (nextGrid < next) nextGrid = recorder.RecordBefore(next, counts);
+            t = next;
+            var mu = queue.Top;
+            effects.Fire(mu, ref count0, state, t);
+            foreach (var k in effects.DependentsOf(mu))
+            {
+                var a = PropensityTerm.Evaluate(ref Unsafe.Add(ref term0, k), ref count0, k, state);
+                if (!PropensityTerm.IsUsable(a)) state.ThrowBadPropensity(k, a, t);
+                if (k == mu)
+                {
+                    Unsafe.Add(ref propensity0, k) = a;
+                    if (a > 0.0) queue.Update(k, t + random.NextExponential() / a);
+                    else
+                    {
+                        _parked[k] = random.NextExponential();
+                        queue.Update(k, double.PositiveInfinity);
+                    }
+                }
+                else if (a != Unsafe.Add(ref propensity0, k)) Rescale(k, a, t);
+            }
+            fired++;
+        }
+        rng = random;
+        events = fired;
+        time = t;
+        return Finish(end, ref time, horizon, recorder, counts);
+    }
+
+    /// <summary>Moves reaction k's putative time to its new propensity, reusing its random number.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private void Rescale(int k, double a, double t)
+    {
+        var old = _propensity[k];
+        _propensity[k] = a;
+        double tau;
+        if (old > 0.0)
+        {
+            var remaining = _queue.Key(k) - t;
+            if (a > 0.0) tau = t + old / a * remaining;
+            else
+            {
+                _parked[k] = old * remaining;
+                tau = double.PositiveInfinity;
+            }
+        }
+        else tau = t + _parked[k] / a;
+        _queue.Update(k, tau);
+    }
+}

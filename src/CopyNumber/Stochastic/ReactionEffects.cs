@@ -1,0 +1,124 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+using CopyNumber.Kinetics;
+using CopyNumber.Network;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// What one firing of each reaction does, flattened for the inner loops: the count changes (the sparse
+/// column of N) and the reactions whose propensities must then be recomputed (the dependency graph's
+/// rows; Gibson &amp; Bruck 2000). Every index is checked here once, so the loops may skip bounds checks.
+/// </summary>
+internal sealed class ReactionEffects
+{
+    /// <param name="network">The network.</param>
+    /// <param name="includeFired">
+    /// Also list each reaction among its own dependents even when it reads none of the species it changes
+    /// (the next reaction method must redraw the fired reaction's time in any case).
+    /// </param>
+    public ReactionEffects(ReactionNetwork network, bool includeFired)
+    {
+        var n = network.Stoichiometry;
+        var species = n.SpeciesCount;
+        var reactions = n.ReactionCount;
+        ChangeStart = new int[reactions + 1];
+        DependentStart = new int[reactions + 1];
+        MayMakeNegative = new bool[reactions];
+        var changeSpecies = new List<int>();
+        var changeAmount = new List<long>();
+        var dependents = new List<int>();
+        for (var j = 0; j < reactions; j++)
+        {
+            ChangeStart[j] = changeSpecies.Count;
+            var changed = n.ChangedSpecies(j);
+            var amounts = n.Changes(j);
+            for (var e = 0; e < changed.Length; e++)
+            {
+                if ((uint)changed[e] >= (uint)species) throw new ArgumentException($"reaction {j} changes species index {changed[e]}, outside the network's {species} species");
+                changeSpecies.Add(changed[e]);
+                changeAmount.Add(amounts[e]);
+                // Mass action never over-consumes: its propensity is 0 without the reactants and a net loss
+                // never exceeds the reactant coefficient. A rate law carries no such guarantee.
+                if (amounts[e] < 0 && network.Propensities.Form(j) == PropensityForm.RateLaw) MayMakeNegative[j] = true;
+            }
+
+            DependentStart[j] = dependents.Count;
+            var affected = network.Dependencies.Affected(j);
+            var selfListed = false;
+            foreach (var k in affected)
+            {
+                if ((uint)k >= (uint)reactions) throw new ArgumentException($"the dependency graph lists reaction index {k}, outside the network's {reactions} reactions");
+                if (includeFired && !selfListed && k > j) { dependents.Add(j); selfListed = true; }
+                if (k == j) selfListed = true;
+                dependents.Add(k);
+            }
+            if (includeFired && !selfListed) dependents.Add(j);
+        }
+        ChangeStart[reactions] = changeSpecies.Count;
+        DependentStart[reactions] = dependents.Count;
+        ChangeSpecies = changeSpecies.ToArray();
+        ChangeAmount = changeAmount.ToArray();
+        Dependents = dependents.ToArray();
+    }
+
+    /// <summary>Reaction j's count changes are entries ChangeStart[j] .. ChangeStart[j+1]−1.</summary>
+    public int[] ChangeStart { get; }
+    public int[] ChangeSpecies { get; }
+    public long[] ChangeAmount { get; }
+
+    /// <summary>Reaction j's dependents are entries DependentStart[j] .. DependentStart[j+1]−1, sorted.</summary>
+    public int[] DependentStart { get; }
+    public int[] Dependents { get; }
+
+    /// <summary>True for rate-law reactions that consume a species: their firing must be checked.</summary>
+    public bool[] MayMakeNegative { get; }
+
+    /// <summary>
+    /// One firing of <paramref name="reaction"/> on the counts whose element 0 is <paramref name="count0"/>,
+    /// checked when a rate law could have over-consumed. For the inner loops: no bounds checks.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void Fire(int reaction, ref long count0, SimulatorState state, double time)
+    {
+        ref var start0 = ref MemoryMarshal.GetArrayDataReference(ChangeStart);
+        ref var species0 = ref MemoryMarshal.GetArrayDataReference(ChangeSpecies);
+        ref var amount0 = ref MemoryMarshal.GetArrayDataReference(ChangeAmount);
+        var end = Unsafe.Add(ref start0, reaction + 1);
+        for (var e = Unsafe.Add(ref start0, reaction); e < end; e++)
+            Unsafe.Add(ref count0, Unsafe.Add(ref species0, e)) += Unsafe.Add(ref amount0, e);
+        if (Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(MayMakeNegative), reaction)) CheckFiring(reaction, state, time);
+    }
+
+    /// <summary>The reactions to re-evaluate after <paramref name="reaction"/> fires (sorted); no bounds checks.</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public ReadOnlySpan<int> DependentsOf(int reaction)
+    {
+        ref var start0 = ref MemoryMarshal.GetArrayDataReference(DependentStart);
+        var start = Unsafe.Add(ref start0, reaction);
+        return MemoryMarshal.CreateReadOnlySpan(ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(Dependents), start), Unsafe.Add(ref start0, reaction + 1) - start);
+    }
+
+    /// <summary>Applies <paramref name="firings"/> firings of <paramref name="reaction"/> to <paramref name="counts"/>.</summary>
+    public void Apply(int reaction, long[] counts, long firings)
+    {
+        for (var e = ChangeStart[reaction]; e < ChangeStart[reaction + 1]; e++)
+            counts[ChangeSpecies[e]] += firings * ChangeAmount[e];
+    }
+
+    /// <summary>The first species of <paramref name="reaction"/>'s changes that is negative in <paramref name="counts"/>, or −1.</summary>
+    public int FirstNegative(int reaction, long[] counts)
+    {
+        for (var e = ChangeStart[reaction]; e < ChangeStart[reaction + 1]; e++)
+            if (counts[ChangeSpecies[e]] < 0) return ChangeSpecies[e];
+        return -1;
+    }
+
+    /// <summary>Stops the run when <paramref name="reaction"/>'s firing has just made one of its species negative.</summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    public void CheckFiring(int reaction, SimulatorState state, double time)
+    {
+        var species = FirstNegative(reaction, state.Counts);
+        if (species >= 0) state.ThrowFiringMadeNegative(reaction, species, time);
+    }
+}

@@ -1,0 +1,10 @@
+namespace CopyNumber.Stochastic;
+
+/// <summary>What one replicate did.</summary>
+/// <param name="Events">Reaction firings executed (for tau-leaping, the sum of all firings in all leaps and exact steps).</param>
+/// <param name="Steps">Simulator steps: equal to <paramref name="Events"/> for the exact methods; leaps plus exact steps for tau-leaping.</param>
+/// <param name="HitEventLimit">
+/// True when the replicate stopped before the end of the grid because it reached
+/// <see cref="SimulatorOptions.MaxEvents"/>; only the grid points before its last event were recorded.
+/// </param>
+public readonly record struct ReplicateResult(long Events, long Steps, bool HitEventLimit);

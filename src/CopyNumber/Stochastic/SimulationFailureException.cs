@@ -1,0 +1,53 @@
+using System.Globalization;
+using System.Text;
+using CopyNumber.Network;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// A replicate could not go on: its message is written for the model's author and names the reaction or
+/// species, the model time and the state.
+/// </summary>
+public sealed class SimulationFailureException : Exception
+{
+    /// <summary>Creates the exception with a user-facing message.</summary>
+    /// <param name="message">One sentence saying what went wrong, without a trailing full stop.</param>
+    /// <param name="time">Model time at which the run stopped.</param>
+    public SimulationFailureException(string message, double time) : base(message)
+    {
+        Time = time;
+    }
+
+    /// <summary>Model time at which the run stopped.</summary>
+    public double Time { get; }
+
+    internal static SimulationFailureException BadPropensity(ReactionNetwork network, int reaction, double value, double time, long[] counts) =>
+        new($"reaction '{network.Reactions[reaction].Name}' has propensity {Number(value)} at time {Number(time)}; " +
+            $"a propensity must be a finite number of at least 0 (state: {State(network, counts)})", time);
+
+    internal static SimulationFailureException FiringMadeNegative(ReactionNetwork network, int reaction, int species, double time, long[] counts) =>
+        new($"reaction '{network.Reactions[reaction].Name}' fired at time {Number(time)} and made species '{network.Species[species]}' negative; " +
+            $"its rate law must be 0 whenever there are too few '{network.Species[species]}' to consume (state after firing: {State(network, counts)})", time);
+
+    internal static SimulationFailureException ScheduleNotFinite(ScheduledChange change, double value) =>
+        new($"at time {Number(change.Time)} the schedule computes {Number(value)} for '{change.TargetName}', which is not a usable finite number", change.Time);
+
+    internal static SimulationFailureException ScheduleMadeNegative(ScheduledChange change, long result) =>
+        new($"at time {Number(change.Time)} the schedule makes species '{change.TargetName}' {result}; copy numbers cannot be negative", change.Time);
+
+    private static string Number(double value) => value.ToString("G", CultureInfo.InvariantCulture);
+
+    /// <summary>The first species as name=count; enough to locate the problem without flooding the terminal.</summary>
+    private static string State(ReactionNetwork network, long[] counts)
+    {
+        const int shown = 12;
+        var text = new StringBuilder();
+        for (var i = 0; i < counts.Length && i < shown; i++)
+        {
+            if (i > 0) text.Append(", ");
+            text.Append(network.Species[i]).Append('=').Append(counts[i].ToString(CultureInfo.InvariantCulture));
+        }
+        if (counts.Length > shown) text.Append(", … (").Append(counts.Length - shown).Append(" more)");
+        return text.ToString();
+    }
+}

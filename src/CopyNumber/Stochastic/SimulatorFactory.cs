@@ -1,0 +1,34 @@
+using CopyNumber.Network;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>Creates the simulator for a method.</summary>
+public static class SimulatorFactory
+{
+    /// <summary>
+    /// Above this many reactions the direct method (and tau-leaping's exact steps) select the next reaction
+    /// from a sum tree in O(log M) instead of walking the M propensities.
+    /// </summary>
+    public const int LinearSelectionLimit = 64;
+
+    /// <summary>
+    /// A simulator for <paramref name="network"/>, with all its buffers allocated. Use one per thread.
+    /// </summary>
+    /// <exception cref="ArgumentOutOfRangeException">An option is out of range (the message says which and why).</exception>
+    public static IStochasticSimulator Create(SimulationMethod method, ReactionNetwork network, SimulatorOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        ArgumentNullException.ThrowIfNull(options);
+        options.Validate();
+        var large = network.Stoichiometry.ReactionCount > LinearSelectionLimit;
+        return method switch
+        {
+            SimulationMethod.Direct when large => new DirectMethod<SumTreeSelection>(network, options),
+            SimulationMethod.Direct => new DirectMethod<LinearSelection>(network, options),
+            SimulationMethod.NextReaction => new NextReactionMethod(network, options),
+            SimulationMethod.TauLeap when large => new TauLeaping<SumTreeSelection>(network, options),
+            SimulationMethod.TauLeap => new TauLeaping<LinearSelection>(network, options),
+            _ => throw new ArgumentOutOfRangeException(nameof(method), method, "unknown simulation method"),
+        };
+    }
+}

@@ -1,0 +1,29 @@
+namespace CopyNumber.Stochastic;
+
+/// <summary>Settings shared by the stochastic simulators.</summary>
+/// <param name="Epsilon">
+/// Tau-leaping's error-control parameter ε (dimensionless, 0 &lt; ε &lt; 1): a leap may change each
+/// propensity by about the fraction ε (Cao, Gillespie &amp; Petzold 2006). Ignored by the exact methods.
+/// </param>
+/// <param name="MaxEvents">
+/// Most reaction firings one replicate may execute (≥ 0). A replicate that needs more stops early with
+/// <see cref="ReplicateResult.HitEventLimit"/> set; the grid points after its last event are not recorded.
+/// </param>
+/// <param name="CriticalThreshold">
+/// Tau-leaping's n_c (≥ 0): a reaction that can fire fewer than this many times before exhausting a
+/// species it consumes is critical and fires at most once per leap (Cao, Gillespie &amp; Petzold 2005,
+/// J. Chem. Phys. 123:054104). Ignored by the exact methods.
+/// </param>
+public sealed record SimulatorOptions(double Epsilon = 0.03, long MaxEvents = long.MaxValue, int CriticalThreshold = 10)
+{
+    /// <summary>Throws <see cref="ArgumentOutOfRangeException"/> with a readable message when a setting is out of range.</summary>
+    public void Validate()
+    {
+        if (!(Epsilon > 0 && Epsilon < 1))
+            throw new ArgumentOutOfRangeException(nameof(Epsilon), Epsilon, "the tau-leaping error parameter epsilon must lie strictly between 0 and 1");
+        if (MaxEvents < 0)
+            throw new ArgumentOutOfRangeException(nameof(MaxEvents), MaxEvents, "the event limit per replicate cannot be negative");
+        if (CriticalThreshold < 0)
+            throw new ArgumentOutOfRangeException(nameof(CriticalThreshold), CriticalThreshold, "the critical-reaction threshold cannot be negative");
+    }
+}

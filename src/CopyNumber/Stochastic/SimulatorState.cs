@@ -1,0 +1,103 @@
+using System.Diagnostics.CodeAnalysis;
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+using CopyNumber.Kinetics;
+using CopyNumber.Network;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// One simulator's mutable state: copy numbers, parameter values, stochastic constants c_j and the
+/// propensity terms built from them. Owned by one thread; the network it reads is shared and immutable.
+/// </summary>
+internal sealed class SimulatorState
+{
+    private readonly ReactionNetwork _network;
+    private readonly Propensities _propensities;
+
+    public SimulatorState(ReactionNetwork network)
+    {
+        _network = network;
+        _propensities = network.Propensities;
+        var species = network.Stoichiometry.SpeciesCount;
+        var reactions = network.Stoichiometry.ReactionCount;
+        if (network.Species.Count != species || network.InitialCounts.Count != species)
+            throw new ArgumentException("the network's species list, initial counts and N disagree on the number of species", nameof(network));
+        if (_propensities.Count != reactions || network.Reactions.Count != reactions)
+            throw new ArgumentException("the network's reactions, propensities and N disagree on the number of reactions", nameof(network));
+        if (network.Parameters.Count != network.InitialParameterValues.Count)
+            throw new ArgumentException("the network's parameter names and values disagree in number", nameof(network));
+        Counts = new long[species];
+        Parameters = new double[network.Parameters.Count];
+        Constants = new double[reactions];
+        Terms = new PropensityTerm[reactions];
+        for (var j = 0; j < reactions; j++)
+        {
+            var form = _propensities.Form(j);
+            var reactants = _propensities.Reactants(j);
+            Terms[j].Form = form;
+            if (form is PropensityForm.Unimolecular or PropensityForm.Bimolecular or PropensityForm.Homodimer)
+                Terms[j].SpeciesA = CheckedSpecies(reactants[0].Species, species);
+            if (form is PropensityForm.Bimolecular)
+                Terms[j].SpeciesB = CheckedSpecies(reactants[1].Species, species);
+        }
+    }
+
+    public ReactionNetwork Network => _network;
+    public long[] Counts { get; }
+    public double[] Parameters { get; }
+    public double[] Constants { get; }
+    public PropensityTerm[] Terms { get; }
+    public int SpeciesCount => Counts.Length;
+    public int ReactionCount => Terms.Length;
+
+    /// <summary>Back to the network's initial counts and parameter values, constants recomputed.</summary>
+    public void Reset()
+    {
+        for (var i = 0; i < Counts.Length; i++) Counts[i] = _network.InitialCounts[i];
+        for (var p = 0; p < Parameters.Length; p++) Parameters[p] = _network.InitialParameterValues[p];
+        RefreshConstants();
+    }
+
+    /// <summary>
+    /// Starts a replicate at t = 0: initial state, the schedule's changes due at t ≤ 0 applied, nothing
+    /// recorded yet.
+    /// </summary>
+    public void StartReplicate(ScheduleCursor schedule, GridRecorder recorder, TimeGrid grid, ITrajectoryObserver observer)
+    {
+        Reset();
+        schedule.Start(grid.Until);
+        schedule.ApplyDue(0.0, this);
+        recorder.Start(grid, observer);
+    }
+
+    /// <summary>Recomputes c_j from the current parameters; call after a parameter changes.</summary>
+    public void RefreshConstants()
+    {
+        _propensities.ComputeConstants(Parameters, Constants);
+        for (var j = 0; j < Terms.Length; j++) Terms[j].Constant = Constants[j];
+    }
+
+    /// <summary>The general mass-action product or a rate law, kept out of line so the common forms stay small.</summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    public double EvaluateGeneral(int reaction) => _propensities.Evaluate(reaction, Counts, Constants, Parameters);
+
+    /// <summary>a_j at the current state, stopping the run when the value is unusable.</summary>
+    public double Evaluate(int reaction, double time)
+    {
+        var a = PropensityTerm.Evaluate(ref Terms[reaction], ref MemoryMarshal.GetArrayDataReference(Counts), reaction, this);
+        if (!PropensityTerm.IsUsable(a)) ThrowBadPropensity(reaction, a, time);
+        return a;
+    }
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowBadPropensity(int reaction, double value, double time) =>
+        throw SimulationFailureException.BadPropensity(_network, reaction, value, time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowFiringMadeNegative(int reaction, int species, double time) =>
+        throw SimulationFailureException.FiringMadeNegative(_network, reaction, species, time, Counts);
+
+    private static int CheckedSpecies(int index, int species) =>
+        (uint)index < (uint)species ? index : throw new ArgumentException($"a propensity reads species index {index}, outside the network's {species} species");
+}

@@ -1,0 +1,68 @@
+using System.Numerics;
+using System.Runtime.CompilerServices;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// Selection in O(log M) for large networks: a complete binary tree whose leaves are the propensities and
+/// whose inner nodes hold the sums of their children; selecting descends from the root, updating a
+/// propensity recomputes the sums on its path (common practice). Each inner node is recomputed as the
+/// sum of its two children, never updated by differences, so the total cannot drift.
+/// </summary>
+internal struct SumTreeSelection : IReactionSelection<SumTreeSelection>
+{
+    // Node 1 is the root; node i has children 2i and 2i+1; leaf of reaction j is node _leaves + j.
+    private double[] _nodes;
+    private int _leaves;
+
+    public static SumTreeSelection Create(int reactions)
+    {
+        var leaves = (int)BitOperations.RoundUpToPowerOf2((uint)Math.Max(reactions, 1));
+        return new SumTreeSelection { _nodes = new double[2 * leaves], _leaves = leaves };
+    }
+
+    public readonly double Total
+    {
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        get => _nodes[1];
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly void Set(int reaction, double propensity)
+    {
+        var nodes = _nodes;
+        var i = _leaves + reaction;
+        nodes[i] = propensity;
+        for (i >>= 1; i >= 1; i >>= 1) nodes[i] = nodes[2 * i] + nodes[2 * i + 1];
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly int Select(double point)
+    {
+        var nodes = _nodes;
+        var i = 1;
+        while (i < _leaves)
+        {
+            var left = nodes[2 * i];
+            // Going right only into a subtree with a positive sum keeps every node visited positive, so
+            // the leaf reached has a_j > 0 however the subtraction rounds.
+            if (point < left || !(nodes[2 * i + 1] > 0.0)) i = 2 * i;
+            else
+            {
+                point -= left;
+                i = 2 * i + 1;
+            }
+        }
+        return i - _leaves;
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly void EndEvent()
+    {
+    }
+
+    public readonly void Resum()
+    {
+        for (var i = _leaves - 1; i >= 1; i--) _nodes[i] = _nodes[2 * i] + _nodes[2 * i + 1];
+    }
+}

@@ -1,0 +1,180 @@
+using CopyNumber.Network;
+using CopyNumber.Randomness;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// Adaptive explicit tau-leaping: the leap size of Cao, Gillespie &amp; Petzold (2006, J. Chem. Phys.
+/// 124:044109) with the critical reactions of Cao, Gillespie &amp; Petzold (2005, J. Chem. Phys.
+/// 123:054104). Approximate; the error is controlled by ε.
+/// </summary>
+/// <remarks>
+/// Each step, in the state x at time t:
+/// 1. propensities a_j and a0; the critical reactions (a_j &gt; 0, fewer than n_c firings left) and a0c;
+/// 2. τ' from the non-critical reactions (<see cref="LeapStepSize"/>);
+/// 3. if τ' &lt; 10/a0 a leap would gain little: up to 100 steps of the direct method instead;
+/// 4. otherwise τ'' ~ Exp(a0c); the leap is τ = min(τ', τ'', time to the next stop). Non-critical
+///    reactions fire Poisson(a_j τ) times; when τ'' is the minimum one critical reaction, chosen with
+///    probability a_j/a0c, fires once; otherwise none does;
+/// 5. a leap that would make a count negative is rejected and tried again from step 3 with τ' = τ/2.
+/// Grid and schedule times are stops: a leap that reaches one is cut there, so the state recorded at a
+/// grid time is the state at that time. Counts are never negative.
+/// </remarks>
+internal sealed class TauLeaping<TSelection> : IStochasticSimulator
+    where TSelection : struct, IReactionSelection<TSelection>
+{
+    // Cao, Gillespie & Petzold (2006), §IV: exact steps when τ' is below a few (they use 10) times 1/a0,
+    // and then 100 of them before trying to leap again.
+    private const double ExactStepFactor = 10.0;
+    private const int ExactStepBurst = 100;
+
+    private readonly SimulatorState _state;
+    private readonly ReactionEffects _effects;
+    private readonly DirectMethod<TSelection> _exact;
+    private readonly ScheduleCursor _schedule;
+    private readonly GridRecorder _recorder = new();
+    private readonly CriticalReactions _critical;
+    private readonly LeapStepSize _stepSize;
+    private readonly PoissonDraw _poisson;
+    private readonly long _maxEvents;
+    private readonly double[] _propensity;
+    private readonly long[] _firings;
+    private readonly long[] _trial;
+
+    public TauLeaping(ReactionNetwork network, SimulatorOptions options) : this(network, options, PoissonSampler.Sample)
+    {
+    }
+
+    /// <summary>Tau-leaping with the given Poisson variates (tests may supply their own).</summary>
+    internal TauLeaping(ReactionNetwork network, SimulatorOptions options, PoissonDraw poisson)
+    {
+        _state = new SimulatorState(network);
+        _effects = new ReactionEffects(network, includeFired: false);
+        _exact = new DirectMethod<TSelection>(_state, _effects, options.MaxEvents);
+        _schedule = new ScheduleCursor(network);
+        _critical = new CriticalReactions(_effects, options.CriticalThreshold);
+        _stepSize = new LeapStepSize(network, _effects, options.Epsilon);
+        _poisson = poisson;
+        _maxEvents = options.MaxEvents;
+        _propensity = new double[_state.ReactionCount];
+        _firings = new long[_state.ReactionCount];
+        _trial = new long[_state.SpeciesCount];
+    }
+
+    public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
+    {
+        var counts = _state.Counts;
+        _state.StartReplicate(_schedule, _recorder, grid, observer);
+        var t = 0.0;
+        var events = 0L;
+        var steps = 0L;
+        while (true)
+        {
+            var stop = Math.Min(_recorder.NextTime, _schedule.NextTime);
+            if (t >= stop)
+            {
+                if (_schedule.NextTime <= t) _schedule.ApplyDue(t, _state);
+                _recorder.RecordThrough(t, counts);
+                if (_recorder.Finished) return new ReplicateResult(events, steps, false);
+                continue;
+            }
+            var a0 = EvaluateAll(t);
+            if (!(a0 > 0.0))
+            {
+                t = stop;
+                continue;
+            }
+            var a0c = _critical.Classify(counts, _propensity);
+            var tauPrime = _stepSize.Select(counts, _propensity, _critical.IsCritical);
+            if (!Step(ref rng, ref t, stop, a0, a0c, tauPrime, ref events, ref steps))
+                return new ReplicateResult(events, steps, true);
+        }
+    }
+
+    /// <summary>One leap, or a burst of exact steps; false when the event limit stopped the replicate.</summary>
+    private bool Step(ref Xoshiro256StarStar rng, ref double t, double stop, double a0, double a0c, double tauPrime, ref long events, ref long steps)
+    {
+        var counts = _state.Counts;
+        var critical = _critical.IsCritical;
+        while (true)
+        {
+            if (tauPrime < ExactStepFactor / a0)
+            {
+                _exact.Refresh(t);
+                var before = events;
+                var end = _exact.Advance(ref rng, ref t, stop, ExactStepBurst, _recorder, ref events, _maxEvents);
+                steps += events - before;
+                return end != SegmentEnd.EventLimit;
+            }
+
+            var remaining = stop - t;
+            var tauCritical = a0c > 0.0 ? rng.NextExponential() / a0c : double.PositiveInfinity;
+            var criticalFires = tauCritical <= tauPrime && tauCritical <= remaining;
+            var reachesStop = !criticalFires && tauPrime >= remaining;
+            var tau = criticalFires ? tauCritical : Math.Min(tauPrime, remaining);
+
+            var firings = 0L;
+            for (var j = 0; j < _firings.Length; j++)
+            {
+                var k = !critical[j] && _propensity[j] > 0.0 ? _poisson(ref rng, _propensity[j] * tau) : 0L;
+                _firings[j] = k;
+                firings += k;
+            }
+            if (criticalFires)
+            {
+                _firings[PickCritical(rng.NextDouble() * a0c)]++;
+                firings++;
+            }
+
+            Array.Copy(counts, _trial, counts.Length);
+            for (var j = 0; j < _firings.Length; j++)
+                if (_firings[j] != 0) _effects.Apply(j, _trial, _firings[j]);
+            if (AnyNegative(_trial))
+            {
+                tauPrime = tau / 2;
+                continue;
+            }
+            if (firings > _maxEvents - events) return false;
+
+            Array.Copy(_trial, counts, counts.Length);
+            t = reachesStop ? stop : Math.Min(t + tau, stop);
+            events += firings;
+            steps++;
+            return true;
+        }
+    }
+
+    private double EvaluateAll(double time)
+    {
+        var total = 0.0;
+        for (var j = 0; j < _propensity.Length; j++)
+        {
+            var a = _state.Evaluate(j, time);
+            _propensity[j] = a;
+            total += a;
+        }
+        return total;
+    }
+
+    /// <summary>The critical reaction whose cumulative interval holds <paramref name="point"/> ∈ [0, a0c).</summary>
+    private int PickCritical(double point)
+    {
+        var critical = _critical.IsCritical;
+        var last = -1;
+        for (var j = 0; j < _propensity.Length; j++)
+        {
+            if (!critical[j]) continue;
+            last = j;
+            point -= _propensity[j];
+            if (point < 0.0) return j;
+        }
+        return last;
+    }
+
+    private static bool AnyNegative(long[] counts)
+    {
+        foreach (var x in counts)
+            if (x < 0) return true;
+        return false;
+    }
+}
