@@ -72,7 +72,9 @@ internal static class SolveCommand
         for (var k = 0; k < count; k += step)
             table.Add(Row(solution, k));
         if ((count - 1) % step != 0) table.Add(Row(solution, count - 1));
-        return table.ToString() + $"{solution.Statistics}\n";
+        var stats = solution.Statistics;
+        return table + $"solver: {stats.MethodsUsed}; {stats.Steps} steps ({stats.RejectedSteps} rejected), {stats.FunctionEvaluations} rate evaluations"
+            + (stats.StiffnessDetected ? ", stiffness detected" : "") + "\n";
     }
 
     private static string[] Row(DeterministicSolution solution, int k) =>

@@ -31,12 +31,13 @@ internal sealed class TextTable(params string[] headers)
                 if (c > 0) text.Append("  ");
                 text.Append(rightAligned[c] ? cell.PadLeft(widths[c]) : cell.PadRight(widths[c]));
             }
+            while (text.Length > 0 && text[^1] == ' ') text.Length--;
             text.Append('\n');
         }
         Line(headers);
         text.Append(string.Join("  ", widths.Select(w => new string('-', w)))).Append('\n');
         foreach (var row in _rows) Line(row);
-        return text.ToString().Replace(" \n", "\n").TrimEnd(' ');
+        return text.ToString();
     }
 
     private static bool LooksNumeric(string cell) =>
