@@ -1,0 +1,86 @@
+using System.Text.Json;
+
+namespace CopyNumber.Tests.Cli;
+
+public class InspectTests
+{
+    public static TheoryData<string> Scenarios()
+    {
+        var data = new TheoryData<string>();
+        foreach (var path in CliRun.AllScenarios()) data.Add(Path.GetFileName(path));
+        return data;
+    }
+
+    [Theory]
+    [MemberData(nameof(Scenarios))]
+    public void Every_bundled_scenario_prints_N_its_rank_and_its_conservation_laws(string scenario)
+    {
+        var run = CliRun.Of("inspect", CliRun.Scenario(scenario));
+        Assert.Equal(0, run.ExitCode);
+        Assert.Contains("stoichiometric matrix N", run.Output);
+        Assert.Contains("rank of N:", run.Output);
+        Assert.Contains("conservation laws", run.Output);
+        Assert.Equal("", run.Error);
+    }
+
+    [Fact]
+    public void The_promoter_model_has_the_gene_copy_law_worked_out_by_hand()
+    {
+        // By hand from the model: promoter_on and promoter_off only move one gene copy between g_off and
+        // g_on, and no other reaction touches either, so g_off + g_on is conserved at its initial value 1;
+        // mRNA and protein have a source and a sink each, so rank N = 4 species − 1 law = 3.
+        var run = CliRun.Of("inspect", CliRun.Scenario("promoter_switch.cnet"));
+        Assert.Contains("g_off + g_on = 1", run.Output);
+        Assert.Contains("rank of N: 3 of 4 species", run.Output);
+        var matrixRow = run.Output.Split('\n').Single(l => l.StartsWith("mrna ", StringComparison.Ordinal) && l.Contains('-'));
+        // Columns: promoter_on, promoter_off, transcription, translation, mrna_decay, protein_decay.
+        Assert.Equal(["mrna", "0", "0", "1", "0", "-1", "0"], matrixRow.Split(' ', StringSplitOptions.RemoveEmptyEntries));
+    }
+
+    [Fact]
+    public void Json_output_has_the_documented_field_names_and_N_by_rows()
+    {
+        var run = CliRun.Of("inspect", CliRun.Scenario("promoter_switch.cnet"), "--json");
+        Assert.Equal(0, run.ExitCode);
+        using var json = JsonDocument.Parse(run.Output);
+        var root = json.RootElement;
+        foreach (var field in new[] { "model", "size", "species", "parameters", "reactions", "stoichiometry", "rank", "conservation_laws", "dependent_species", "unchanged_species", "readouts", "schedule" })
+            Assert.True(root.TryGetProperty(field, out _), $"missing field {field}");
+        Assert.Equal(3, root.GetProperty("rank").GetInt32());
+        var n = root.GetProperty("stoichiometry");
+        Assert.Equal(4, n.GetArrayLength());
+        Assert.Equal(6, n[0].GetArrayLength());
+        // protein row, by hand: made by translation, removed by protein_decay.
+        Assert.Equal([0L, 0, 0, 1, 0, -1], n[3].EnumerateArray().Select(e => e.GetInt64()).ToArray());
+        var law = root.GetProperty("conservation_laws")[0];
+        Assert.Equal(1, law.GetProperty("total").GetInt64());
+        Assert.Equal(1, law.GetProperty("coefficients").GetProperty("g_off").GetInt64());
+    }
+
+    [Fact]
+    public void A_model_with_errors_gives_exit_code_2_with_located_messages_and_no_stack_trace()
+    {
+        var path = Path.Combine(Path.GetTempPath(), $"copynumber-bad-{Guid.NewGuid():N}.cnet");
+        File.WriteAllText(path, "species\n  A = 10\nreactions\n  decay: A -> 0 mass kk\n");
+        try
+        {
+            var run = CliRun.Of("inspect", path);
+            Assert.Equal(2, run.ExitCode);
+            Assert.Contains($"{path}:4:", run.Error);
+            Assert.Contains("error:", run.Error);
+            Assert.DoesNotContain("   at ", run.Error);
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
+
+    [Fact]
+    public void A_missing_model_file_is_bad_input()
+    {
+        var run = CliRun.Of("inspect", "/nonexistent/model.cnet");
+        Assert.Equal(2, run.ExitCode);
+        Assert.Contains("cannot read the model file", run.Error);
+    }
+}
