@@ -24,6 +24,14 @@ internal sealed record CliRun(int ExitCode, string Output, string Error)
         throw new FileNotFoundException("scenario not found above the test binary", name);
     }
 
+    /// <summary>The bundled scenario file names, for theories over every scenario.</summary>
+    public static TheoryData<string> ScenarioNames()
+    {
+        var data = new TheoryData<string>();
+        foreach (var path in AllScenarios()) data.Add(Path.GetFileName(path));
+        return data;
+    }
+
     public static IEnumerable<string> AllScenarios()
     {
         var folder = Path.GetDirectoryName(Scenario("promoter_switch.cnet"))!;

@@ -4,15 +4,8 @@ namespace CopyNumber.Tests.Cli;
 
 public class InspectTests
 {
-    public static TheoryData<string> Scenarios()
-    {
-        var data = new TheoryData<string>();
-        foreach (var path in CliRun.AllScenarios()) data.Add(Path.GetFileName(path));
-        return data;
-    }
-
     [Theory]
-    [MemberData(nameof(Scenarios))]
+    [MemberData(nameof(CliRun.ScenarioNames), MemberType = typeof(CliRun))]
     public void Every_bundled_scenario_prints_N_its_rank_and_its_conservation_laws(string scenario)
     {
         var run = CliRun.Of("inspect", CliRun.Scenario(scenario));

@@ -32,15 +32,8 @@ public class SolveTests
         Assert.True(table.KeyValues.ContainsKey("copynumber.model_sha256"));
     }
 
-    public static TheoryData<string> Scenarios()
-    {
-        var data = new TheoryData<string>();
-        foreach (var path in CliRun.AllScenarios()) data.Add(Path.GetFileName(path));
-        return data;
-    }
-
     [Theory]
-    [MemberData(nameof(Scenarios))]
+    [MemberData(nameof(CliRun.ScenarioNames), MemberType = typeof(CliRun))]
     public void Every_conservation_law_holds_to_1e_9_along_the_rate_equation_solution_of_every_scenario(string scenario)
     {
         // cᵀN = 0 implies d(cᵀx)/dt = cᵀN·v = 0 for any rates v, so every law must hold along any solution
