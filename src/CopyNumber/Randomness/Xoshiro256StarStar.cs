@@ -25,6 +25,19 @@ public struct Xoshiro256StarStar
         _s3 = SplitMix64(ref x);
     }
 
+    /// <summary>
+    /// A generator in the given raw state, so that tests can start from the states published with the
+    /// algorithm. The all-zero state is a fixed point and is refused.
+    /// </summary>
+    internal Xoshiro256StarStar(ulong s0, ulong s1, ulong s2, ulong s3)
+    {
+        if ((s0 | s1 | s2 | s3) == 0) throw new ArgumentException("the all-zero state of xoshiro256** never leaves zero");
+        _s0 = s0;
+        _s1 = s1;
+        _s2 = s2;
+        _s3 = s3;
+    }
+
     /// <summary>The next 64 random bits.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public ulong NextUInt64()
