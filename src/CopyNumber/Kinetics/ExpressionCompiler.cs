@@ -1,0 +1,125 @@
+using System.Reflection;
+using CopyNumber.Language;
+using CopyNumber.Network;
+using System.Linq.Expressions;
+
+namespace CopyNumber.Kinetics;
+
+/// <summary>
+/// Compiles a model expression to a delegate with System.Linq.Expressions: species and parameters
+/// become array reads (parameters are read at every call, so a schedule can change them), <c>size</c>
+/// and numbers become constants, and functions become direct calls. Nothing is interpreted at run
+/// time and the delegate captures no per-call state, so calling it allocates nothing.
+/// </summary>
+public static class ExpressionCompiler
+{
+    private static readonly MethodInfo PowerMethod =
+        typeof(LawFunctions).GetMethod(nameof(LawFunctions.Power), BindingFlags.Public | BindingFlags.Static)!;
+
+    /// <summary>The expression on integer copy numbers, for the stochastic simulators.</summary>
+    /// <param name="expression">The expression; readout names are expanded.</param>
+    /// <param name="scope">What its names mean.</param>
+    /// <exception cref="ModelException">A name, function or operator the compiler does not know.</exception>
+    public static CountLaw CompileCountLaw(Expr expression, ExpressionScope scope)
+    {
+        var counts = Expression.Parameter(typeof(long[]), "counts");
+        var parameters = Expression.Parameter(typeof(double[]), "parameters");
+        var body = new TreeBuilder(scope, parameters,
+                i => Expression.Convert(Expression.ArrayIndex(counts, Expression.Constant(i)), typeof(double)))
+            .Build(scope.Expand(expression));
+        return Expression.Lambda<CountLaw>(body, counts, parameters).Compile();
+    }
+
+    /// <summary>The expression on a real-valued state in copy-number units, for the rate equations.</summary>
+    /// <param name="expression">The expression; readout names are expanded.</param>
+    /// <param name="scope">What its names mean.</param>
+    /// <exception cref="ModelException">A name, function or operator the compiler does not know.</exception>
+    public static StateLaw CompileStateLaw(Expr expression, ExpressionScope scope)
+    {
+        var state = Expression.Parameter(typeof(double[]), "state");
+        var parameters = Expression.Parameter(typeof(double[]), "parameters");
+        var body = new TreeBuilder(scope, parameters,
+                i => Expression.ArrayIndex(state, Expression.Constant(i)))
+            .Build(scope.Expand(expression));
+        return Expression.Lambda<StateLaw>(body, state, parameters).Compile();
+    }
+
+    /// <summary>The method of a call's function, or a user-facing error at the call.</summary>
+    internal static MethodInfo FunctionMethod(CallExpr call)
+    {
+        try
+        {
+            return LawFunctions.Method(call.Function, call.Arguments.Count);
+        }
+        catch (ArgumentException e)
+        {
+            throw new ModelException(call.Position, e.Message);
+        }
+    }
+
+    private sealed class TreeBuilder(ExpressionScope scope, ParameterExpression parameters, Func<int, Expression> readSpecies)
+    {
+        public Expression Build(Expr expression) => expression switch
+        {
+            NumberExpr number => Expression.Constant(number.Value),
+            NameExpr name => Name(name),
+            NegateExpr negate => Expression.Negate(Build(negate.Operand)),
+            BinaryExpr { Operator: '^' } power => Power(power.Left, power.Right),
+            BinaryExpr binary => Binary(binary),
+            CallExpr { Function: "pow", Arguments.Count: 2 } pow => Power(pow.Arguments[0], pow.Arguments[1]),
+            CallExpr call => Call(call),
+            _ => throw new ModelException(expression.Position, "unsupported expression"),
+        };
+
+        private Expression Name(NameExpr name)
+        {
+            var species = scope.SpeciesIndex(name.Name);
+            if (species >= 0) return readSpecies(species);
+            var parameter = scope.ParameterIndex(name.Name);
+            if (parameter >= 0) return Expression.ArrayIndex(parameters, Expression.Constant(parameter));
+            if (name.Name == ExpressionScope.SizeName) return Expression.Constant(scope.Size);
+            throw new ModelException(name.Position, $"'{name.Name}' is not a species, a parameter or size");
+        }
+
+        private Expression Binary(BinaryExpr binary)
+        {
+            var left = Build(binary.Left);
+            var right = Build(binary.Right);
+            return binary.Operator switch
+            {
+                '+' => Expression.Add(left, right),
+                '-' => Expression.Subtract(left, right),
+                '*' => Expression.Multiply(left, right),
+                '/' => Expression.Divide(left, right),
+                _ => throw new ModelException(binary.Position, $"unknown operator '{binary.Operator}'"),
+            };
+        }
+
+        // A small non-negative integer exponent becomes repeated multiplication of the base, held in a
+        // local so it is evaluated once; any other exponent calls LawFunctions.Power, which is Math.Pow
+        // except for integer values known only at run time (then it also multiplies).
+        private Expression Power(Expr baseExpr, Expr exponentExpr)
+        {
+            var baseValue = Build(baseExpr);
+            if (!ConstantEvaluation.TryNumber(exponentExpr, out var n) || !LawFunctions.IsUnrolledExponent(n))
+                return Expression.Call(PowerMethod, baseValue, Build(exponentExpr));
+            if (n == 0) return Expression.Constant(1.0);
+            if (n == 1) return baseValue;
+            var local = Expression.Variable(typeof(double), "power_base");
+            Expression product = local;
+            for (var q = 1; q < (int)n; q++) product = Expression.Multiply(product, local);
+            return Expression.Block(typeof(double), [local], Expression.Assign(local, baseValue), product);
+        }
+
+        private Expression Call(CallExpr call)
+        {
+            var method = FunctionMethod(call);
+            var arguments = call.Arguments.Select(Build).ToArray();
+            if (method.GetParameters().Length == arguments.Length) return Expression.Call(method, arguments);
+            // min and max of more than two arguments: pairwise from the left
+            var folded = arguments[0];
+            for (var a = 1; a < arguments.Length; a++) folded = Expression.Call(method, folded, arguments[a]);
+            return folded;
+        }
+    }
+}

@@ -1,0 +1,119 @@
+using CopyNumber.Language;
+using CopyNumber.Network;
+
+namespace CopyNumber.Kinetics;
+
+/// <summary>
+/// What the names of a model's expressions mean: species and parameters by index, the system size Ω as
+/// a constant, and readouts as their own expressions (inlined wherever they are used). A compile-time
+/// object: it caches expanded readouts and is not for concurrent use.
+/// </summary>
+public sealed class ExpressionScope
+{
+    /// <summary>The reserved name of the system size Ω.</summary>
+    public const string SizeName = "size";
+
+    private readonly Dictionary<string, int> _species;
+    private readonly Dictionary<string, int> _parameters;
+    private readonly Dictionary<string, Expr> _readouts;
+    private readonly Dictionary<string, Expr> _expandedReadouts = new();
+
+    /// <summary>Creates a scope.</summary>
+    /// <param name="species">Species names; a species' index is its position here.</param>
+    /// <param name="parameters">Parameter names; a parameter's index is its position here.</param>
+    /// <param name="size">The value <c>size</c> stands for (Ω, dimensionless).</param>
+    /// <param name="readouts">Readout names and their expressions, or null for none.</param>
+    public ExpressionScope(IReadOnlyList<string> species, IReadOnlyList<string> parameters, double size,
+        IReadOnlyDictionary<string, Expr>? readouts = null)
+    {
+        _species = Indexed(species);
+        _parameters = Indexed(parameters);
+        _readouts = readouts?.ToDictionary() ?? new Dictionary<string, Expr>();
+        Size = size;
+    }
+
+    /// <summary>The value of <c>size</c>.</summary>
+    public double Size { get; }
+
+    /// <summary>The index of a species, or −1.</summary>
+    public int SpeciesIndex(string name) => _species.GetValueOrDefault(name, -1);
+
+    /// <summary>The index of a parameter, or −1.</summary>
+    public int ParameterIndex(string name) => _parameters.GetValueOrDefault(name, -1);
+
+    /// <summary>
+    /// The expression with every readout name replaced by the readout's own (expanded) expression.
+    /// Subtrees without readouts are shared with the input.
+    /// </summary>
+    /// <exception cref="ModelException">A readout refers to itself, directly or through others.</exception>
+    public Expr Expand(Expr expression) => ExpandWithin(expression, new HashSet<string>());
+
+    /// <summary>The species an expression reads (readouts expanded), in increasing index order.</summary>
+    public IReadOnlyList<int> SpeciesRead(Expr expression) =>
+        Names(Expand(expression)).Select(n => SpeciesIndex(n.Name)).Where(i => i >= 0).Distinct().Order().ToArray();
+
+    /// <summary>Every name occurrence in an expression, left to right, readouts not expanded.</summary>
+    public static IEnumerable<NameExpr> Names(Expr expression)
+    {
+        switch (expression)
+        {
+            case NameExpr name:
+                yield return name;
+                break;
+            case NegateExpr negate:
+                foreach (var n in Names(negate.Operand)) yield return n;
+                break;
+            case BinaryExpr binary:
+                foreach (var n in Names(binary.Left)) yield return n;
+                foreach (var n in Names(binary.Right)) yield return n;
+                break;
+            case CallExpr call:
+                foreach (var n in call.Arguments.SelectMany(Names)) yield return n;
+                break;
+        }
+    }
+
+    private Expr ExpandWithin(Expr expression, HashSet<string> expanding)
+    {
+        switch (expression)
+        {
+            case NameExpr name when _readouts.TryGetValue(name.Name, out var definition):
+            {
+                if (_expandedReadouts.TryGetValue(name.Name, out var done)) return done;
+                if (!expanding.Add(name.Name))
+                    throw new ModelException(name.Position, $"readout '{name.Name}' is defined in terms of itself");
+                var expanded = ExpandWithin(definition, expanding);
+                expanding.Remove(name.Name);
+                _expandedReadouts[name.Name] = expanded;
+                return expanded;
+            }
+            case NegateExpr negate:
+            {
+                var operand = ExpandWithin(negate.Operand, expanding);
+                return ReferenceEquals(operand, negate.Operand) ? negate : negate with { Operand = operand };
+            }
+            case BinaryExpr binary:
+            {
+                var left = ExpandWithin(binary.Left, expanding);
+                var right = ExpandWithin(binary.Right, expanding);
+                return ReferenceEquals(left, binary.Left) && ReferenceEquals(right, binary.Right)
+                    ? binary : binary with { Left = left, Right = right };
+            }
+            case CallExpr call:
+            {
+                var arguments = call.Arguments.Select(a => ExpandWithin(a, expanding)).ToArray();
+                return arguments.Zip(call.Arguments).All(p => ReferenceEquals(p.First, p.Second))
+                    ? call : call with { Arguments = arguments };
+            }
+            default:
+                return expression;
+        }
+    }
+
+    private static Dictionary<string, int> Indexed(IReadOnlyList<string> names)
+    {
+        var map = new Dictionary<string, int>(names.Count);
+        for (var i = 0; i < names.Count; i++) map.TryAdd(names[i], i);
+        return map;
+    }
+}
