@@ -1,0 +1,45 @@
+namespace CopyNumber.Language;
+
+/// <summary>
+/// Evaluates an expression whose names all have known values (numbers, parameters, <c>size</c>), so the
+/// checker can catch a negative schedule time or a parameter that is not a finite number before any
+/// run. Recursion is bounded by the parser's limits on nesting and expression length.
+/// </summary>
+internal static class ConstantEvaluator
+{
+    /// <summary>The value of <paramref name="expr"/>, or null when some name has no known value.</summary>
+    public static double? Evaluate(Expr expr, Func<string, double?> valueOf) => expr switch
+    {
+        NumberExpr number => number.Value,
+        NameExpr name => valueOf(name.Name),
+        NegateExpr negate => -Evaluate(negate.Operand, valueOf),
+        BinaryExpr binary => Evaluate(binary.Left, valueOf) is { } left && Evaluate(binary.Right, valueOf) is { } right
+            ? binary.Operator switch
+            {
+                '+' => left + right,
+                '-' => left - right,
+                '*' => left * right,
+                '/' => left / right,
+                _ => Math.Pow(left, right),
+            }
+            : null,
+        CallExpr call => EvaluateCall(call, valueOf),
+        _ => null,
+    };
+
+    private static double? EvaluateCall(CallExpr call, Func<string, double?> valueOf)
+    {
+        if (!BuiltinFunctions.Arity.TryGetValue(call.Function, out var arity) || arity != call.Arguments.Count) return null;
+        Span<double> arguments = stackalloc double[arity];
+        for (var i = 0; i < arity; i++)
+        {
+            if (Evaluate(call.Arguments[i], valueOf) is not { } value) return null;
+            arguments[i] = value;
+        }
+        return BuiltinFunctions.Apply(call.Function, arguments);
+    }
+
+    /// <summary>"NaN", "infinity" or "-infinity", for messages.</summary>
+    public static string DescribeNonFinite(double value) =>
+        double.IsNaN(value) ? "not a number (NaN)" : value > 0 ? "infinite" : "minus infinity";
+}

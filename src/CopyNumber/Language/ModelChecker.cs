@@ -1,0 +1,347 @@
+namespace CopyNumber.Language;
+
+/// <summary>
+/// Checks what the parser read against the rules that span lines: every name is declared once and
+/// not reserved, each expression uses only the names its position allows, schedule targets exist,
+/// constants that can be worked out before a run are finite (and non-negative where they must be),
+/// and the model has species and reactions. Reports go to the bag; nothing is thrown.
+/// </summary>
+internal sealed class ModelChecker
+{
+    private enum Kind { Species, Parameter, Readout }
+
+    private sealed record Declared(Kind Kind, int Order, SourcePosition Position);
+
+    /// <summary>Where an expression stands, which decides the names it may use.</summary>
+    private enum Place { Parameter, MassConstant, RateLaw, ScheduleTime, ScheduleValue, Readout }
+
+    /// <summary>Names that can never be declared.</summary>
+    public static readonly IReadOnlySet<string> Reserved = new HashSet<string>(StringComparer.Ordinal) { "time", "replicate", "size" };
+
+    private readonly ParsedModel _model;
+    private readonly DiagnosticBag _bag;
+    private readonly Dictionary<string, Declared> _names = new(StringComparer.Ordinal);
+    private readonly List<string> _species = [];
+    private readonly List<string> _parameters = [];
+    private readonly Dictionary<string, double> _parameterValues = new(StringComparer.Ordinal);
+
+    private ModelChecker(ParsedModel model, DiagnosticBag bag)
+    {
+        _model = model;
+        _bag = bag;
+    }
+
+    /// <summary>Checks <paramref name="model"/>, reporting to <paramref name="bag"/>.</summary>
+    public static void Check(ParsedModel model, DiagnosticBag bag)
+    {
+        var checker = new ModelChecker(model, bag);
+        checker.DeclareNames();
+        checker.CheckReactionNames();
+        checker.CheckParameters();
+        checker.CheckReactions();
+        checker.CheckSchedule();
+        checker.CheckReadouts();
+        checker.CheckNotEmpty();
+    }
+
+    private void DeclareNames()
+    {
+        var all = _model.Species.Select((d, i) => (d.Name, d.Position, Kind: Kind.Species, Order: i))
+            .Concat(_model.Parameters.Select((d, i) => (d.Name, d.Position, Kind: Kind.Parameter, Order: i)))
+            .Concat(_model.Readouts.Select((d, i) => (d.Name, d.Position, Kind: Kind.Readout, Order: i)))
+            .OrderBy(d => d.Position.Line);
+        foreach (var (name, position, kind, order) in all)
+        {
+            if (Reserved.Contains(name))
+            {
+                _bag.Report(position, ReservedMessage(name));
+                continue;
+            }
+            if (_names.TryGetValue(name, out var earlier))
+            {
+                _bag.Report(position, $"duplicate name '{name}': already declared at line {earlier.Position.Line} as {Describe(earlier.Kind)}");
+                continue;
+            }
+            _names[name] = new Declared(kind, order, position);
+            if (kind == Kind.Species) _species.Add(name);
+            if (kind == Kind.Parameter) _parameters.Add(name);
+        }
+    }
+
+    private static string ReservedMessage(string name) => name == "size"
+        ? "'size' is a reserved name and cannot be declared; the system size is set by a line 'size <number>'"
+        : $"'{name}' is a reserved name (every output has a '{name}' column) and cannot be declared";
+
+    private static string Describe(Kind kind) => kind switch
+    {
+        Kind.Species => "a species",
+        Kind.Parameter => "a parameter",
+        _ => "a readout",
+    };
+
+    private void CheckReactionNames()
+    {
+        // Reversible lines also claim name_fwd and name_rev, the names the compiler gives their halves.
+        var taken = new Dictionary<string, (int Line, string Owner)>(StringComparer.Ordinal);
+        foreach (var reaction in _model.Reactions)
+        {
+            if (Reserved.Contains(reaction.Name))
+            {
+                _bag.Report(reaction.Position, $"'{reaction.Name}' is a reserved name and cannot name a reaction");
+                continue;
+            }
+            var claims = reaction.Reversible
+                ? new[] { (reaction.Name, ""), (reaction.Name + "_fwd", $"the forward half of reversible reaction '{reaction.Name}'"), (reaction.Name + "_rev", $"the reverse half of reversible reaction '{reaction.Name}'") }
+                : new[] { (reaction.Name, "") };
+            var clash = claims.FirstOrDefault(c => taken.ContainsKey(c.Item1));
+            if (clash.Item1 is { } clashing)
+            {
+                var (line, owner) = taken[clashing];
+                var mine = clashing == reaction.Name ? "" : $" (reversible reaction '{reaction.Name}' is split into '{reaction.Name}_fwd' and '{reaction.Name}_rev')";
+                var theirs = owner.Length == 0 ? "" : $" by {owner}";
+                _bag.Report(reaction.Position, $"duplicate reaction name '{clashing}': already used at line {line}{theirs}{mine}");
+                continue;
+            }
+            foreach (var (claimed, owner) in claims) taken[claimed] = (reaction.Position.Line, owner);
+        }
+    }
+
+    private void CheckParameters()
+    {
+        for (var i = 0; i < _model.Parameters.Count; i++)
+        {
+            var parameter = _model.Parameters[i];
+            var usable = CheckNames(parameter.Value, Place.Parameter, i, parameter.Name);
+            if (!usable || _names.GetValueOrDefault(parameter.Name) is not { Kind: Kind.Parameter } declared || declared.Order != i) continue;
+            if (Evaluate(parameter.Value) is not { } value) continue;
+            if (!double.IsFinite(value))
+            {
+                _bag.Report(SpanOf(parameter.Value), $"parameter '{parameter.Name}' is {ConstantEvaluator.DescribeNonFinite(value)}; check for a division by zero or the log of a non-positive number");
+                continue;
+            }
+            _parameterValues[parameter.Name] = value;
+        }
+    }
+
+    private void CheckReactions()
+    {
+        foreach (var reaction in _model.Reactions)
+        {
+            CheckSide(reaction.Reactants);
+            CheckSide(reaction.Products);
+            var place = reaction.Law == LawKind.Mass ? Place.MassConstant : Place.RateLaw;
+            var forwardOk = CheckNames(reaction.Forward, place, 0, reaction.Name);
+            var reverseOk = reaction.Reverse is null || CheckNames(reaction.Reverse, place, 0, reaction.Name);
+            if (reaction.Law != LawKind.Mass) continue;
+            var which = reaction.Reversible ? "forward " : "";
+            if (forwardOk) CheckMassConstant(reaction.Forward, $"{which}mass-action constant of reaction '{reaction.Name}'");
+            if (reverseOk && reaction.Reverse is not null) CheckMassConstant(reaction.Reverse, $"reverse mass-action constant of reaction '{reaction.Name}'");
+        }
+    }
+
+    private void CheckMassConstant(Expr constant, string what)
+    {
+        if (Evaluate(constant) is not { } value) return;
+        if (!double.IsFinite(value))
+            _bag.Report(SpanOf(constant), $"the {what} is {ConstantEvaluator.DescribeNonFinite(value)}");
+        else if (value < 0)
+            _bag.Report(SpanOf(constant), $"the {what} is negative ({value:G6} with the initial parameter values)");
+    }
+
+    private void CheckSide(ReactionSide side)
+    {
+        foreach (var term in side.Terms)
+        {
+            var name = term.Species;
+            if (_names.TryGetValue(name, out var declared))
+            {
+                if (declared.Kind != Kind.Species)
+                    _bag.Report(term.Position, $"'{name}' is {Describe(declared.Kind)} (line {declared.Position.Line}), not a species");
+            }
+            else if (Reserved.Contains(name))
+                _bag.Report(term.Position, $"'{name}' is a reserved name, not a species");
+            else if (!_model.NamesOnBadLines.Contains(name))
+                _bag.Report(term.Position, $"unknown species '{name}'{NameSuggestions.Hint(name, _species)}");
+        }
+    }
+
+    private void CheckSchedule()
+    {
+        foreach (var change in _model.Schedule)
+        {
+            if (CheckNames(change.Time, Place.ScheduleTime, 0, "") && Evaluate(change.Time) is { } time)
+            {
+                if (!double.IsFinite(time))
+                    _bag.Report(SpanOf(change.Time), $"the schedule time is {ConstantEvaluator.DescribeNonFinite(time)}");
+                else if (time < 0)
+                    _bag.Report(SpanOf(change.Time), $"the schedule time must not be negative, found {time:G6}");
+            }
+            CheckTarget(change);
+            CheckNames(change.Value, Place.ScheduleValue, 0, change.Target);
+        }
+    }
+
+    private void CheckTarget(ScheduleDecl change)
+    {
+        var name = change.Target;
+        var at = change.TargetPosition;
+        if (_names.TryGetValue(name, out var declared))
+        {
+            if (declared.Kind == Kind.Readout)
+                _bag.Report(at, $"readout '{name}' cannot be scheduled; a schedule changes a species or a parameter");
+            else if (declared.Kind == Kind.Parameter && change.Operation != ScheduleOperation.Set)
+                _bag.Report(at, $"parameter '{name}' can only be set with '=', not changed with '{(change.Operation == ScheduleOperation.Add ? "+=" : "-=")}'; write '{name} = {name} {(change.Operation == ScheduleOperation.Add ? '+' : '-')} ...'");
+        }
+        else if (name == "size")
+            _bag.Report(at, "the system size cannot be changed by a schedule");
+        else if (Reserved.Contains(name))
+            _bag.Report(at, $"'{name}' cannot be scheduled; a schedule changes a species or a parameter");
+        else if (!_model.NamesOnBadLines.Contains(name))
+            _bag.Report(at, $"unknown schedule target '{name}'{NameSuggestions.Hint(name, _species.Concat(_parameters))}");
+    }
+
+    private void CheckReadouts()
+    {
+        foreach (var readout in _model.Readouts)
+            CheckNames(readout.Value, Place.Readout, 0, readout.Name);
+    }
+
+    private void CheckNotEmpty()
+    {
+        if (_model.Species.Count == 0 && _model.BadLines.GetValueOrDefault(Section.Species) == 0)
+            _bag.Report(_model.Headers.GetValueOrDefault(Section.Species, new SourcePosition(1, 1)),
+                "the model declares no species; list them under a 'species' header, as in 'A = 10'");
+        if (_model.Reactions.Count == 0 && _model.BadLines.GetValueOrDefault(Section.Reactions) == 0)
+            _bag.Report(_model.Headers.GetValueOrDefault(Section.Reactions, new SourcePosition(1, 1)),
+                "the model has no reactions; list them under a 'reactions' header, as in 'decay: A -> 0 mass 0.1'");
+    }
+
+    /// <summary>
+    /// Reports every name and call in <paramref name="expr"/> that its place does not allow; true when
+    /// there was nothing to report. Walks with an explicit stack, so long expressions cost no recursion.
+    /// </summary>
+    /// <param name="expr">The expression.</param>
+    /// <param name="place">Where it stands.</param>
+    /// <param name="order">For a parameter, its index: it may use only parameters before it.</param>
+    /// <param name="owner">The declaration the expression belongs to, for messages.</param>
+    private bool CheckNames(Expr expr, Place place, int order, string owner)
+    {
+        var before = _bag.Count;
+        var pending = new Stack<Expr>();
+        pending.Push(expr);
+        while (pending.TryPop(out var node))
+        {
+            switch (node)
+            {
+                case NameExpr name:
+                    CheckName(name, place, order, owner);
+                    break;
+                case NegateExpr negate:
+                    pending.Push(negate.Operand);
+                    break;
+                case BinaryExpr binary:
+                    pending.Push(binary.Right);
+                    pending.Push(binary.Left);
+                    break;
+                case CallExpr call:
+                    CheckCall(call);
+                    for (var i = call.Arguments.Count - 1; i >= 0; i--) pending.Push(call.Arguments[i]);
+                    break;
+            }
+        }
+        return _bag.Count == before;
+    }
+
+    private void CheckName(NameExpr use, Place place, int order, string owner)
+    {
+        var name = use.Name;
+        var at = use.Position;
+        switch (name)
+        {
+            case "size":
+                return;
+            case "time":
+                _bag.Report(at, "laws must not depend on time explicitly; use a schedule to change a value at a given time");
+                return;
+            case "replicate":
+                _bag.Report(at, "expressions may not use 'replicate': every replicate runs the same model (use a schedule for changes over time)");
+                return;
+        }
+        if (!_names.TryGetValue(name, out var declared))
+        {
+            if (_model.NamesOnBadLines.Contains(name)) return;
+            _bag.Report(at, $"unknown name '{name}'{NameSuggestions.Hint(name, Allowed(place, order))}");
+            return;
+        }
+        switch (declared.Kind, place)
+        {
+            case (Kind.Species, Place.Parameter):
+                _bag.Report(at, $"parameter '{owner}' may not depend on species '{name}'; a parameter is a constant (use a rate law or a readout for expressions of species)");
+                break;
+            case (Kind.Species, Place.MassConstant):
+                _bag.Report(at, $"mass-action constant may not depend on species '{name}'; write a rate law instead");
+                break;
+            case (Kind.Species, Place.ScheduleTime):
+                _bag.Report(at, $"a schedule time may not depend on species '{name}'; it is a number, parameter or 'size'");
+                break;
+            case (Kind.Parameter, Place.Parameter) when declared.Order == order:
+                _bag.Report(at, $"parameter '{name}' is used in its own definition");
+                break;
+            case (Kind.Parameter, Place.Parameter) when declared.Order > order:
+                _bag.Report(at, $"parameter '{name}' is defined further down (line {declared.Position.Line}); a parameter may use only parameters defined above it");
+                break;
+            case (Kind.Readout, Place.Readout):
+                _bag.Report(at, $"readout '{owner}' may not use another readout ('{name}'); write its expression out");
+                break;
+            case (Kind.Readout, _):
+                _bag.Report(at, $"readout '{name}' cannot be used in {Describe(place)}; readouts are outputs only, write the expression out");
+                break;
+        }
+    }
+
+    private static string Describe(Place place) => place switch
+    {
+        Place.Parameter => "a parameter",
+        Place.MassConstant => "a mass-action constant",
+        Place.RateLaw => "a rate law",
+        Place.ScheduleTime => "a schedule time",
+        Place.ScheduleValue => "a schedule value",
+        _ => "a readout",
+    };
+
+    private IEnumerable<string> Allowed(Place place, int order)
+    {
+        var species = place is Place.RateLaw or Place.ScheduleValue or Place.Readout ? _species : [];
+        var parameters = place == Place.Parameter
+            ? _parameters.Where(p => _names[p].Order < order)
+            : _parameters;
+        return species.Concat(parameters).Append("size");
+    }
+
+    private void CheckCall(CallExpr call)
+    {
+        if (BuiltinFunctions.Arity.TryGetValue(call.Function, out var arity))
+        {
+            if (arity != call.Arguments.Count)
+            {
+                var plural = arity == 1 ? "argument" : "arguments";
+                _bag.Report(call.Position, $"function '{call.Function}' takes {arity} {plural}, {BuiltinFunctions.Signature[call.Function]}, but is given {call.Arguments.Count}");
+            }
+            return;
+        }
+        if (_names.ContainsKey(call.Function) || Reserved.Contains(call.Function))
+        {
+            _bag.Report(call.Position, $"'{call.Function}' is not a function; write '*' to multiply, as in '{call.Function} * (...)'");
+            return;
+        }
+        var hint = NameSuggestions.Hint(call.Function, BuiltinFunctions.Arity.Keys);
+        _bag.Report(call.Position, hint.Length > 0
+            ? $"unknown function '{call.Function}'{hint}"
+            : $"unknown function '{call.Function}'; the functions are {string.Join(", ", BuiltinFunctions.Arity.Keys)}");
+    }
+
+    private double? Evaluate(Expr expr) =>
+        ConstantEvaluator.Evaluate(expr, name => name == "size" ? _model.Size : _parameterValues.TryGetValue(name, out var v) ? v : null);
+
+    private SourcePosition SpanOf(Expr expr) => _model.Spans.GetValueOrDefault(expr, expr.Position);
+}

@@ -1,0 +1,55 @@
+namespace CopyNumber.Language;
+
+/// <summary>The sections of a model file.</summary>
+internal enum Section
+{
+    /// <summary>Before the first header.</summary>
+    None,
+    Species,
+    Parameters,
+    Reactions,
+    Schedule,
+    Readouts,
+    /// <summary>After a header that names no section; its lines are skipped.</summary>
+    Unknown,
+}
+
+/// <summary>
+/// What the parser read from a file, before names are checked: the declarations of every line that
+/// parsed, plus what the checker needs to avoid reporting follow-on mistakes of lines that did not.
+/// </summary>
+internal sealed class ParsedModel
+{
+    /// <summary>System size Ω (1 unless a <c>size</c> line says otherwise).</summary>
+    public double Size { get; set; } = 1;
+
+    /// <summary>Species lines in file order.</summary>
+    public List<SpeciesDecl> Species { get; } = [];
+
+    /// <summary>Parameter lines in file order.</summary>
+    public List<ParameterDecl> Parameters { get; } = [];
+
+    /// <summary>Reaction lines in file order.</summary>
+    public List<ReactionDecl> Reactions { get; } = [];
+
+    /// <summary>Schedule lines in file order.</summary>
+    public List<ScheduleDecl> Schedule { get; } = [];
+
+    /// <summary>Readout lines in file order.</summary>
+    public List<ReadoutDecl> Readouts { get; } = [];
+
+    /// <summary>
+    /// Names declared on lines that had a syntax error (or stood in an unknown section). Uses of them
+    /// are not reported as unknown: the line's own diagnostic already says what is wrong.
+    /// </summary>
+    public HashSet<string> NamesOnBadLines { get; } = new(StringComparer.Ordinal);
+
+    /// <summary>Where each section's first header stands.</summary>
+    public Dictionary<Section, SourcePosition> Headers { get; } = [];
+
+    /// <summary>Lines with a syntax error, per section, so an all-broken section is not also called empty.</summary>
+    public Dictionary<Section, int> BadLines { get; } = [];
+
+    /// <summary>The text span of every top-level expression (law, parameter value, schedule time), for precise carets.</summary>
+    public Dictionary<Expr, SourcePosition> Spans { get; } = new(ReferenceEqualityComparer.Instance);
+}

@@ -1,0 +1,381 @@
+using CopyNumber.Language;
+using static CopyNumber.Tests.Language.LanguageTestSupport;
+
+namespace CopyNumber.Tests.Language;
+
+// One test per class of mistake: where the report points (line, column) and the words that make it
+// useful. The expected places are counted by hand in each model text (line 1 is its first line).
+public sealed class DiagnosticTests
+{
+    // A valid model that each test breaks in one place.
+    private static string Model(string species = "protein = 10\n  dimer = 0", string parameters = "k = 0.5",
+        string reactions = "bind: 2 protein -> dimer mass k", string extra = "") => $"""
+        species
+          {species}
+        parameters
+          {parameters}
+        reactions
+          {reactions}
+        {extra}
+        """;
+
+    [Fact]
+    public void TheBaseModelIsValid() => ParseValid(Model());
+
+    [Fact]
+    public void UnknownSpeciesSuggestsTheClosestSpecies() =>
+        // line 7 "  bind: 2 protien -> dimer mass k": the name starts at column 11
+        AssertSingleError(Model(reactions: "bind: 2 protien -> dimer mass k"), 7, 11,
+            "unknown species 'protien'", "did you mean 'protein'?");
+
+    [Fact]
+    public void UnknownNameInALawSuggestsOnlyNamesAllowedThere()
+    {
+        // In a mass-action constant species are not allowed, so 'dimr' must not be matched to 'dimer'.
+        var diagnostic = AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass dimr"), 7, 33, "unknown name 'dimr'");
+        Assert.DoesNotContain("did you mean", diagnostic.Message);
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer rate kk * protein"), 7, 33,
+            "unknown name 'kk'", "did you mean 'k'?");
+    }
+
+    [Fact]
+    public void UnknownNameWithoutAnyCloseCandidateHasNoSuggestion()
+    {
+        var diagnostic = AssertSingleError(Model(reactions: "bind: 2 protein -> dimer rate zebra"), 7, 33, "unknown name 'zebra'");
+        Assert.DoesNotContain("did you mean", diagnostic.Message);
+    }
+
+    [Fact]
+    public void DuplicateNamePointsToTheEarlierDeclaration()
+    {
+        // species and parameters share one namespace
+        AssertSingleError(Model(parameters: "k = 0.5\n  protein = 2"), 6, 3,
+            "duplicate name 'protein'", "line 2", "a species");
+        AssertSingleError(Model(species: "protein = 10\n  dimer = 0\n  dimer = 1"), 4, 3,
+            "duplicate name 'dimer'", "line 3");
+    }
+
+    [Fact]
+    public void DuplicateReactionNameIncludesTheExpandedReversibleNames()
+    {
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k\n  bind: dimer -> 0 mass k"), 8, 3,
+            "duplicate reaction name 'bind'", "line 7");
+        AssertSingleError(Model(reactions: "bind: 2 protein <-> dimer mass k, k\n  bind_rev: dimer -> 0 mass k"), 8, 3,
+            "duplicate reaction name 'bind_rev'", "line 7", "reverse half of reversible reaction 'bind'");
+        AssertSingleError(Model(reactions: "bind_fwd: dimer -> 0 mass k\n  bind: 2 protein <-> dimer mass k, k"), 8, 3,
+            "duplicate reaction name 'bind_fwd'", "line 7", "split into 'bind_fwd' and 'bind_rev'");
+    }
+
+    [Fact]
+    public void ReactionNamesLiveApartFromSpeciesNames() =>
+        ParseValid(Model(reactions: "dimer: 2 protein -> dimer mass k"));
+
+    [Theory]
+    [InlineData("k = 1.2.3", "malformed number '1.2.3'")]
+    [InlineData("k = 3e", "malformed number '3e'")]
+    [InlineData("k = 4e+", "malformed number '4e'")]
+    [InlineData("k = 1e999", "number '1e999' is too large")]
+    [InlineData("k = 2k", "malformed number '2k'", "write '2 k' with a space")]
+    public void BadNumbersAreReportedAtTheNumber(string parameterLine, params string[] words) =>
+        // line 5 is "  k = ..."; the number starts at column 7
+        AssertSingleError(Model(parameters: parameterLine), 5, 7, words);
+
+    [Theory]
+    [InlineData("protein = -3", 13, "non-negative integer", "'-3'")]
+    [InlineData("protein = 2.5", 13, "non-negative integer", "'2.5'")]
+    [InlineData("protein = n0", 13, "non-negative integer", "'n0'")]
+    [InlineData("protein = 10 * 2", 16, "single non-negative integer", "'*'")]
+    [InlineData("protein = 99999999999999999999", 13, "too large")]
+    [InlineData("protein 10", 11, "'=' and an initial count after species 'protein'")]
+    public void InitialCountsMustBeNonNegativeIntegers(string speciesLine, int column, params string[] words) =>
+        AssertSingleError(Model(species: speciesLine + "\n  dimer = 0"), 2, column, words);
+
+    [Theory]
+    [InlineData("bind: 2 protein => dimer mass k", 19, "'=>' is not an arrow", "'->'", "'<->'")]
+    [InlineData("bind: 2 protein --> dimer mass k", 19, "'-->' is not an arrow")]
+    [InlineData("bind: 2 protein <- dimer mass k", 19, "'<-' is not an arrow", "left to right")]
+    [InlineData("bind: 2 protein <=> dimer mass k", 19, "'<=>' is not an arrow")]
+    [InlineData("bind: 2 protein = dimer mass k", 19, "'=' is not an arrow")]
+    [InlineData("bind: 2 protein dimer mass k", 19, "expected '+' or an arrow", "'dimer'")]
+    [InlineData("bind: 2 protein mass k", 19, "missing arrow", "'mass'")]
+    public void MissingOrWrongArrowsAreNamed(string reaction, int column, params string[] words) =>
+        AssertSingleError(Model(reactions: reaction), 7, column, words);
+
+    [Theory]
+    [InlineData("bind: 2 protein -> dimer", 27, "missing law", "'mass <constant>'", "'rate <expression>'")]
+    [InlineData("bind: 2 protein -> dimer k", 28, "expected '+', 'mass' or 'rate'", "'k'")]
+    [InlineData("bind: 2 protein -> dimer mas k", 28, "unknown law 'mas'", "did you mean 'mass'?")]
+    [InlineData("bind: 2 protein -> mass k", 27, "missing products before 'mass'", "'0'")]
+    public void MissingLawKeywordIsReported(string reaction, int column, params string[] words) =>
+        AssertSingleError(Model(reactions: reaction), 7, column, words);
+
+    [Theory]
+    [InlineData("bind: 2 protein -> dimer rate hil_rep(protein, k, 2)", 33, "unknown function 'hil_rep'", "did you mean 'hill_rep'?")]
+    [InlineData("bind: 2 protein -> dimer rate frobnicate(protein)", 33, "unknown function 'frobnicate'", "the functions are exp, log")]
+    [InlineData("bind: 2 protein -> dimer rate k(protein)", 33, "'k' is not a function", "'*'")]
+    [InlineData("bind: 2 protein -> dimer rate hill_rep(protein, k)", 33, "'hill_rep' takes 3 arguments", "hill_rep(x, K, n)", "given 2")]
+    [InlineData("bind: 2 protein -> dimer rate exp()", 33, "'exp' takes 1 argument,", "given 0")]
+    public void UnknownFunctionsAndWrongArgumentCountsAreReported(string reaction, int column, params string[] words) =>
+        AssertSingleError(Model(reactions: reaction), 7, column, words);
+
+    [Fact]
+    public void MassActionConstantMayNotUseASpecies() =>
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k * protein"), 7, 37,
+            "mass-action constant may not depend on species 'protein'", "write a rate law instead");
+
+    [Theory]
+    [InlineData("bind: 2 protein <-> dimer mass k", 29, "reversible reaction 'bind' needs two constants")]
+    [InlineData("bind: 2 protein -> dimer mass k, k", 34, "one-way reaction 'bind' takes one constant", "'<->'")]
+    [InlineData("bind: 2 protein <-> dimer rate k, k", 29, "reversible reaction 'bind' needs mass-action constants")]
+    public void ConstantCountMustMatchTheArrow(string reaction, int column, params string[] words) =>
+        AssertSingleError(Model(reactions: reaction), 7, column, words);
+
+    [Theory]
+    [InlineData("time = 1", 6, 3, "'time' is a reserved name")]
+    [InlineData("replicate = 1", 6, 3, "'replicate' is a reserved name")]
+    [InlineData("size = 1", 6, 3, "'size' is a reserved name", "'size <number>'")]
+    public void ReservedNamesCannotBeDeclared(string speciesLine, int line, int column, params string[] words) =>
+        AssertSingleError(Model(parameters: "k = 0.5\n  " + speciesLine), line, column, words);
+
+    [Fact]
+    public void TimeAndReplicateMayNotAppearInExpressions()
+    {
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer rate k * time"), 7, 37,
+            "must not depend on time explicitly", "use a schedule");
+        AssertSingleError(Model(parameters: "k = replicate"), 5, 7, "'replicate'", "schedule");
+    }
+
+    [Fact]
+    public void SpeciesLineOutsideTheSpeciesSectionIsReported()
+    {
+        AssertSingleError("protein = 3\n" + Model(), 1, 1, "declaration of 'protein' before any section", "'species'");
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k\n  monomer = 4"), 8, 3,
+            "'monomer = ...' in the 'reactions' section", "species go under 'species'");
+    }
+
+    [Fact]
+    public void UnknownSectionIsReportedWithASuggestion()
+    {
+        // A near miss is taken as the section it resembles, so its lines are still checked.
+        AssertSingleError(Model().Replace("parameters", "paramters"), 4, 1, "unknown section 'paramters'", "did you mean 'parameters'?");
+        // Lines under a header that names nothing are skipped without further reports.
+        AssertSingleError(Model(extra: "outputs\n  anything = protein"), 8, 1, "unknown section 'outputs'", "the sections are");
+    }
+
+    [Theory]
+    [InlineData("k = 0.5 $ 2", 11, "unexpected character '$'")]
+    [InlineData("k = 0.5;", 10, "unexpected character ';'", "one declaration per line")]
+    [InlineData("k = \"0.5\"", 7, "unexpected character '\"'", "without quotes")]
+    [InlineData("k = 0.5 . 2", 11, "unexpected character '.'")]
+    [InlineData("k = 0.5 \u00b5", 11, "unexpected character '\u00b5'")]
+    public void StrayCharactersAreReported(string parameterLine, int column, params string[] words) =>
+        AssertSingleError(Model(parameters: parameterLine), 5, column, words);
+
+    [Fact]
+    public void AModelWithoutSpeciesOrReactionsIsAnError()
+    {
+        var outcome = ModelSource.Parse("parameters\n  k = 1\n", "empty.cnet");
+        Assert.Equal(2, outcome.Diagnostics.Count);
+        AssertDiagnostic(outcome.Diagnostics[0], 1, 1, "declares no species");
+        AssertDiagnostic(outcome.Diagnostics[1], 1, 1, "has no reactions");
+        // With an empty header present, the report points at the header.
+        AssertSingleError("species\n  A = 1\nreactions\n", 3, 1, "has no reactions");
+        Assert.Equal(2, ModelSource.Parse("", "empty.cnet").Diagnostics.Count);
+    }
+
+    [Fact]
+    public void RepeatedSectionIsReportedAndItsLinesStillCount() =>
+        // 'monomer' is declared under the repeated header and used by 'split' without complaint.
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k\n  split: dimer -> 2 monomer mass k", extra: "species\n  monomer = 2"), 9, 1,
+            "section 'species' appears twice", "line 1");
+
+    [Theory]
+    [InlineData("size 0", 6, "system size must be a positive number")]
+    [InlineData("size -2", 6, "system size must be a positive number")]
+    [InlineData("size 2 * 3", 8, "unexpected '*'")]
+    [InlineData("size big", 6, "expected a positive number after 'size'")]
+    public void SizeMustBeOnePositiveNumber(string sizeLine, int column, params string[] words) =>
+        AssertSingleError(sizeLine + "\n" + Model(), 1, column, words);
+
+    [Fact]
+    public void SizeMayBeSetOnlyOnce() =>
+        AssertSingleError("size 2\n" + Model(extra: "size 3"), 9, 1, "system size is set twice", "line 1");
+
+    [Fact]
+    public void ParametersUseOnlyNumbersEarlierParametersAndSize()
+    {
+        AssertSingleError(Model(parameters: "k = 2 * k2\n  k2 = 1"), 5, 11, "parameter 'k2' is defined further down (line 6)");
+        AssertSingleError(Model(parameters: "k = 2 * k"), 5, 11, "'k' is used in its own definition");
+        AssertSingleError(Model(parameters: "k = protein / size"), 5, 7, "parameter 'k' may not depend on species 'protein'");
+        ParseValid(Model(parameters: "k0 = 2 * size\n  k = k0 / 4"));
+    }
+
+    [Fact]
+    public void ParametersThatAreNotFiniteNumbersAreReported() =>
+        AssertSingleError(Model(parameters: "k = 1 / (size - 1)"), 5, 7, "parameter 'k' is infinite", "division by zero");
+
+    [Fact]
+    public void NegativeMassActionConstantIsReported() =>
+        AssertSingleError(Model(parameters: "k = -0.5"), 7, 33, "mass-action constant of reaction 'bind' is negative", "-0.5");
+
+    [Theory]
+    [InlineData("at -5: protein = 1", 6, "schedule time must not be negative", "-5")]
+    [InlineData("at 1 - 4 * k: protein = 1", 6, "schedule time must not be negative", "-1")]
+    [InlineData("at protein: protein = 1", 6, "schedule time may not depend on species 'protein'")]
+    [InlineData("at 5: k += 1", 9, "parameter 'k' can only be set with '='", "'+='")]
+    [InlineData("at 5: protien = 1", 9, "unknown schedule target 'protien'", "did you mean 'protein'?")]
+    [InlineData("at 5: size = 1", 9, "system size cannot be changed")]
+    [InlineData("at 5: total = 1", 9, "readout 'total' cannot be scheduled")]
+    [InlineData("at 5: protein = 2 * protien", 23, "unknown name 'protien'", "did you mean 'protein'?")]
+    [InlineData("at 5 protein = 1", 8, "expected ':' after the schedule time", "'protein'")]
+    [InlineData("at 5: protein * 2", 17, "expected '=', '+=' or '-=' after 'protein'")]
+    public void ScheduleLinesAreChecked(string scheduleLine, int column, params string[] words)
+    {
+        // the schedule line is line 9; readouts come after it
+        var text = Model(extra: $"schedule\n  {scheduleLine}\nreadouts\n  total = protein + 2*dimer");
+        AssertSingleError(text, 9, column, words);
+    }
+
+    [Fact]
+    public void AReadoutIsNotSuggestedAsAScheduleTarget()
+    {
+        var text = Model(extra: "schedule\n  at 5: tota = 1\nreadouts\n  total = protein + 2*dimer");
+        var diagnostic = AssertSingleError(text, 9, 9, "unknown schedule target 'tota'");
+        Assert.DoesNotContain("did you mean", diagnostic.Message);
+    }
+
+    [Fact]
+    public void ReadoutsMayNotUseReadouts()
+    {
+        AssertSingleError(Model(extra: "readouts\n  total = protein + 2*dimer\n  twice = 2 * total"), 10, 15,
+            "readout 'twice' may not use another readout ('total')");
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer rate total", extra: "readouts\n  total = protein + 2*dimer"), 7, 33,
+            "readout 'total' cannot be used in a rate law");
+    }
+
+    [Fact]
+    public void ReactionAndScheduleLinesOutsideTheirSections()
+    {
+        AssertSingleError(Model(parameters: "k = 0.5\n  decay: dimer -> 0 mass k"), 6, 3, "reaction line in the 'parameters' section");
+        AssertSingleError(Model(parameters: "k = 0.5\n  at 5: k = 1"), 6, 3, "schedule line in the 'parameters' section");
+    }
+
+    [Theory]
+    [InlineData("k = (1 + 2", 13, "missing ')'", "column 7")]
+    [InlineData("k = 1 + 2)", 12, "unmatched ')'")]
+    [InlineData("k = 1 +", 10, "incomplete")]
+    [InlineData("k = 1 * * 2", 11, "expected a number, a name or '('", "'*'")]
+    [InlineData("k = 2 k", 9, "unexpected 'k'", "operator missing")]
+    [InlineData("k = max(1, 2", 15, "missing ')' to close the call of 'max'")]
+    [InlineData("k 0.5", 5, "'=' after parameter 'k'", "'0.5'")]
+    public void MalformedExpressionsAreReported(string parameterLine, int column, params string[] words) =>
+        AssertSingleError(Model(parameters: parameterLine), 5, column, words);
+
+    [Fact]
+    public void DeepNestingIsRefusedInsteadOfExhaustingTheStack()
+    {
+        var nested = new string('(', 5000) + "1" + new string(')', 5000);
+        AssertSingleError(Model(parameters: "k = " + nested), 5, 107, "nested too deeply");
+        var signs = new string('-', 5000) + "1";
+        AssertSingleError(Model(parameters: "k = " + signs), 5, 107, "nested too deeply");
+        var longSum = string.Join(" + ", Enumerable.Repeat("1", 5000));
+        // the 1001st node is the '+' that joins the 501st term
+        AssertSingleError(Model(parameters: "k = " + longSum), 5, 5 + 4 * 500, "expression too long");
+    }
+
+    [Theory]
+    [InlineData("bind: 0 protein -> dimer mass k", 9, "positive integer", "'0'")]
+    [InlineData("bind: 2.5 protein -> dimer mass k", 9, "positive integer", "'2.5'")]
+    [InlineData("bind: 0 + protein -> dimer mass k", 9, "'0' is the empty side")]
+    [InlineData("bind: 2 -> dimer mass k", 11, "expected a species after the coefficient '2'")]
+    [InlineData("bind: -> dimer mass k", 9, "missing reactants before '->'")]
+    [InlineData("bind: 2 protein + -> dimer mass k", 21, "expected a species in the reactants", "'->'")]
+    [InlineData("bind: 2 protein -> k mass k", 22, "'k' is a parameter (line 5), not a species")]
+    public void ReactionSidesAreChecked(string reaction, int column, params string[] words) =>
+        AssertSingleError(Model(reactions: reaction), 7, column, words);
+
+    [Theory]
+    [InlineData("2 protein -> dimer mass k", 3, "missing reaction name")]
+    [InlineData("bind 2 protein -> dimer mass k", 8, "expected ':' after the reaction name 'bind'")]
+    public void ReactionLinesStartWithANameAndAColon(string reaction, int column, params string[] words) =>
+        AssertSingleError(Model(reactions: reaction), 7, column, words);
+
+    [Theory]
+    [InlineData("species:", 8, "without ':'")]
+    [InlineData("species protein = 10", 9, "must stand alone on its line")]
+    public void SectionHeadersStandAlone(string header, int column, params string[] words) =>
+        AssertSingleError(Model().Replace("species\n", header + "\n"), 1, column, words);
+
+    [Fact]
+    public void EveryMistakeOfAFileIsReportedAtOnceInLineOrder()
+    {
+        var text = """
+            species
+              A = 10
+              B = -1
+            parameters
+              k = 1 +
+            reactions
+              r1: A => B mass k
+              r2: A -> C mass k
+              r3: A -> B rate hil_act(A, 1, 2)
+            """;
+        var outcome = ModelSource.Parse(text, "many.cnet");
+        Assert.Null(outcome.Model);
+        Assert.Equal(5, outcome.Diagnostics.Count);
+        AssertDiagnostic(outcome.Diagnostics[0], 3, 7, "non-negative integer");
+        AssertDiagnostic(outcome.Diagnostics[1], 5, 10, "incomplete");
+        AssertDiagnostic(outcome.Diagnostics[2], 7, 9, "'=>' is not an arrow");
+        AssertDiagnostic(outcome.Diagnostics[3], 8, 12, "unknown species 'C'");
+        AssertDiagnostic(outcome.Diagnostics[4], 9, 19, "unknown function 'hil_act'", "did you mean 'hill_act'?");
+    }
+
+    [Fact]
+    public void NamesOnBrokenLinesDoNotCauseFollowOnReports()
+    {
+        // 'B' and 'k' are declared on lines with mistakes; their uses further down are not reported again.
+        var outcome = ModelSource.Parse("species\n  A = 1\n  B = 2.5\nparameters\n  k = (1\nreactions\n  r: A -> B mass k\n", "x.cnet");
+        Assert.Equal([3, 5], outcome.Diagnostics.Select(d => d.Position.Line));
+    }
+
+    [Fact]
+    public void FormatShowsFileLineColumnTheLineAndACaret()
+    {
+        var diagnostic = AssertSingleError(Model(reactions: "bind: 2 protien -> dimer mass k"), 7, 11, "protien");
+        Assert.Equal(
+            "test.cnet:7:11: error: unknown species 'protien'; did you mean 'protein'?\n" +
+            "    bind: 2 protien -> dimer mass k\n" +
+            "            ^^^^^^^",
+            diagnostic.Format());
+    }
+
+    [Fact]
+    public void MissingOrUnreadableFilesAreDiagnosticsNotExceptions()
+    {
+        var missing = Path.Combine(Path.GetTempPath(), "copynumber-no-such-file-" + Guid.NewGuid() + ".cnet");
+        var outcome = ModelSource.ReadFile(missing);
+        var diagnostic = Assert.Single(outcome.Diagnostics);
+        AssertDiagnostic(diagnostic, 1, 1, "not found");
+        Assert.Equal(missing, diagnostic.File);
+
+        AssertDiagnostic(Assert.Single(ModelSource.ReadFile(Path.GetTempPath()).Diagnostics), 1, 1, "is a directory");
+        AssertDiagnostic(Assert.Single(ModelSource.ReadFile("").Diagnostics), 1, 1, "no model file");
+    }
+
+    [Fact]
+    public void ReadFileParsesAnExistingFile()
+    {
+        var path = Path.Combine(Path.GetTempPath(), "copynumber-read-" + Guid.NewGuid() + ".cnet");
+        File.WriteAllText(path, "\uFEFFspecies\n  A = 1\nreactions\n  r: A -> 0 mass 1\n");
+        try
+        {
+            var outcome = ModelSource.ReadFile(path);
+            Assert.True(outcome.Succeeded);
+            Assert.Equal(path, outcome.Model!.File);
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
+}
