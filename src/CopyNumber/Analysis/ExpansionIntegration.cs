@@ -1,0 +1,171 @@
+using CopyNumber.Deterministic;
+using CopyNumber.Language;
+using CopyNumber.Network;
+
+namespace CopyNumber.Analysis;
+
+/// <summary>
+/// Integrates <see cref="ExpansionSystem"/> over a time grid, piecewise between schedule events, with
+/// the same event semantics as <see cref="RateEquationSolver"/> (changes at or before 0 act on the
+/// initial state, changes past the grid's end are ignored, a grid point within 10⁻⁹·Δ of a change's time
+/// records the state after it). At a change x_i ← f(x) (set), x_i + f(x) (add) or x_i − f(x) (subtract)
+/// the fluctuations are mapped linearly: ξ ↦ M·ξ with M the identity except row i, which is ∇f (set),
+/// e_i + ∇f (add) or e_i − ∇f (subtract); so C ↦ M·C·Mᵀ and δ ↦ M·δ. Adding or subtracting a constant
+/// leaves C unchanged (a deterministic jump); setting a species to a constant zeroes its row and column.
+/// </summary>
+internal static class ExpansionIntegration
+{
+    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options, bool withMeanCorrection)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        ArgumentNullException.ThrowIfNull(grid);
+        ArgumentNullException.ThrowIfNull(options);
+        if (options.Check() is { } problem) throw new ArgumentException(problem, nameof(options));
+
+        var system = new ExpansionSystem(network, withMeanCorrection);
+        var s = system.SpeciesCount;
+        var y = new double[system.Dimension];
+        for (var i = 0; i < s; i++) y[i] = network.InitialCounts[i]; // C(0) = 0 and δ(0) = 0: a deterministic start
+        var states = new double[grid.Count][];
+        // Readouts read the parameters in force at each point, so they are evaluated as the points are recorded.
+        var columns = network.Species.Concat(network.Readouts.Select(r => r.Name)).ToArray();
+        var rateEquations = new double[grid.Count, columns.Length];
+        var variances = new double[grid.Count, columns.Length];
+        var corrected = new double[grid.Count, columns.Length];
+        var covariance = new double[s, s];
+        var phi = new double[s];
+        var gradient = new double[s];
+
+        void Record(int point, double[] state)
+        {
+            states[point] = (double[])state.Clone();
+            Array.Copy(state, phi, s);
+            system.UnpackCovariance(state, covariance);
+            var parameters = system.ParameterArray;
+            for (var i = 0; i < s; i++)
+            {
+                rateEquations[point, i] = phi[i];
+                variances[point, i] = covariance[i, i];
+                corrected[point, i] = withMeanCorrection ? phi[i] + state[system.CorrectionOffset + i] : double.NaN;
+            }
+            for (var r = 0; r < network.Readouts.Count; r++)
+            {
+                var readout = network.Readouts[r];
+                var column = s + r;
+                rateEquations[point, column] = readout.OnState(phi, parameters);
+                ReadoutLinearisation.Gradient(readout, phi, parameters, gradient);
+                variances[point, column] = QuadraticForm(gradient, covariance);
+                if (!withMeanCorrection) { corrected[point, column] = double.NaN; continue; }
+                var shift = 0.0;
+                for (var i = 0; i < s; i++) shift += gradient[i] * state[system.CorrectionOffset + i];
+                corrected[point, column] = rateEquations[point, column] + shift + ReadoutLinearisation.Curvature(readout, phi, parameters, covariance);
+            }
+        }
+
+        var run = new OdeRun(system, options);
+        var offset = 0;
+        OutputSink sink = (index, _, state) => Record(offset + index, state);
+        var schedule = network.Schedule;
+        var nextChange = 0;
+        while (nextChange < schedule.Count && schedule[nextChange].Time <= 0)
+            Apply(schedule[nextChange++], 0.0, y, system);
+
+        var until = grid.Until;
+        var slack = 1e-9 * grid.Every;
+        var time = 0.0;
+        var point = 0;
+        while (true)
+        {
+            var end = nextChange < schedule.Count && schedule[nextChange].Time <= until ? schedule[nextChange].Time : until;
+            var stop = point;
+            while (stop < grid.Count && grid[stop] < end - slack) stop++;
+            offset = point;
+            run.Advance(time, y, end, grid.Times[point..stop], sink);
+            point = stop;
+            time = end;
+            while (nextChange < schedule.Count && schedule[nextChange].Time <= end)
+                Apply(schedule[nextChange++], end, y, system);
+            if (end >= until) break;
+        }
+        for (; point < grid.Count; point++) Record(point, y);
+
+        return new SystemSizeExpansionSolution(grid, columns, s, states, system.CorrectionOffset,
+            rateEquations, variances, corrected, withMeanCorrection, run.Statistics);
+    }
+
+    private static double QuadraticForm(double[] g, double[,] c)
+    {
+        var sum = 0.0;
+        for (var i = 0; i < g.Length; i++)
+        {
+            if (g[i] == 0) continue;
+            for (var j = 0; j < g.Length; j++) sum += g[i] * c[i, j] * g[j];
+        }
+        return sum;
+    }
+
+    private static void Apply(ScheduledChange change, double time, double[] y, ExpansionSystem system)
+    {
+        var s = system.SpeciesCount;
+        var parameters = system.ParameterArray;
+        var phi = y.AsSpan(0, s).ToArray();
+        var value = change.OnState(phi, parameters);
+        var isSpecies = change.Target == ScheduleTarget.Species;
+        var old = isSpecies ? phi[change.TargetIndex] : parameters[change.TargetIndex];
+        var updated = change.Operation switch
+        {
+            ScheduleOperation.Set => value,
+            ScheduleOperation.Add => old + value,
+            _ => old - value,
+        };
+        var what = isSpecies ? $"species {change.TargetName}" : $"parameter {change.TargetName}";
+        if (!double.IsFinite(updated))
+            throw new SolverFailureException(time, what, $"the scheduled change gives the non-finite value {updated}");
+        if (!isSpecies)
+        {
+            // A parameter change moves no molecule: φ, C and δ are continuous across it.
+            system.SetParameter(change.TargetIndex, updated);
+            return;
+        }
+        if (updated < 0 && updated < old)
+            throw new SolverFailureException(time, what, $"the scheduled change makes the count negative ({updated:G6})");
+
+        var target = change.TargetIndex;
+        var row = ChangeRow(change, phi, parameters);
+        y[target] = updated;
+
+        var covariance = new double[s, s];
+        system.UnpackCovariance(y, covariance);
+        // C ↦ M·C·Mᵀ with M = I except row `target`: only that row and column change.
+        var mc = new double[s];
+        for (var j = 0; j < s; j++)
+        {
+            var sum = 0.0;
+            for (var k = 0; k < s; k++) sum += row[k] * covariance[k, j];
+            mc[j] = sum;
+        }
+        var corner = 0.0;
+        for (var k = 0; k < s; k++) corner += mc[k] * row[k];
+        for (var j = 0; j < s; j++) covariance[target, j] = covariance[j, target] = mc[j];
+        covariance[target, target] = corner;
+        system.PackCovariance(covariance, y);
+
+        if (!system.WithMeanCorrection) return;
+        var offset = system.CorrectionOffset;
+        var shifted = 0.0;
+        for (var k = 0; k < s; k++) shifted += row[k] * y[offset + k];
+        y[offset + target] = shifted;
+    }
+
+    // Row `target` of M: ∇f for set, e_target ± ∇f for add and subtract. ∇f by central differences,
+    // so a constant value (the usual case) gives exactly 0.
+    private static double[] ChangeRow(ScheduledChange change, double[] phi, double[] parameters)
+    {
+        var row = new double[phi.Length];
+        CentralDifferences.Gradient(change.OnState, (double[])phi.Clone(), parameters, row);
+        if (change.Operation == ScheduleOperation.Subtract)
+            for (var k = 0; k < row.Length; k++) row[k] = -row[k];
+        if (change.Operation != ScheduleOperation.Set) row[change.TargetIndex] += 1.0;
+        return row;
+    }
+}

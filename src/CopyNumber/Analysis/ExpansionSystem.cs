@@ -1,0 +1,255 @@
+using CopyNumber.Deterministic;
+using CopyNumber.Network;
+
+namespace CopyNumber.Analysis;
+
+/// <summary>
+/// The rate equations augmented with the linear noise approximation's covariance and, optionally, the
+/// first-order mean correction, as one <see cref="IOdeSystem"/> (docs/methods-analysis.md):
+/// <code>
+/// dφ/dt = N·v(φ)
+/// dC/dt = J·C + C·Jᵀ + N·diag(v(φ))·Nᵀ                     (van Kampen 2007, ch. X; Elf &amp; Ehrenberg 2003)
+/// dδ/dt = J_a·δ + N·[(a − v)(φ) + ½·Σ_kl ∂²a/∂x_k∂x_l·C_kl]  (Grima 2010, J. Chem. Phys. 133:035101)
+/// </code>
+/// in copy numbers. The state is φ (species order), then the upper triangle of C row by row
+/// (C_00, C_01, …, C_0,S−1, C_11, …), then δ when the correction is on. Holds its own parameter values
+/// and constants, so schedule changes affect only this instance; one instance per integration.
+/// </summary>
+internal sealed class ExpansionSystem : IOdeSystem
+{
+    private readonly ReactionNetwork _network;
+    private readonly Stoichiometry _n;
+    private readonly int _s, _packed;
+    private readonly double[] _parameters, _constants, _rates, _phi;
+    private readonly double[,] _dvdx, _jacobian, _covariance;
+    private readonly PropensityExpansion? _expansion;
+    private readonly double[] _excess = [], _curvature = [], _shifted = [], _plus = [], _minus = [];
+    private readonly double[,] _gradient = new double[0, 0], _meanJacobian = new double[0, 0];
+
+    public ExpansionSystem(ReactionNetwork network, bool withMeanCorrection)
+    {
+        _network = network;
+        _n = network.Stoichiometry;
+        _s = network.Species.Count;
+        _packed = _s * (_s + 1) / 2;
+        var m = network.Reactions.Count;
+        _parameters = network.InitialParameterValues.ToArray();
+        _constants = new double[m];
+        _rates = new double[m];
+        _phi = new double[_s];
+        _dvdx = new double[m, _s];
+        _jacobian = new double[_s, _s];
+        _covariance = new double[_s, _s];
+        network.Propensities.ComputeConstants(_parameters, _constants);
+        WithMeanCorrection = withMeanCorrection;
+        Dimension = _s + _packed + (withMeanCorrection ? _s : 0);
+        _shifted = new double[Dimension];
+        _plus = new double[Dimension];
+        _minus = new double[Dimension];
+        if (!withMeanCorrection) return;
+        _expansion = new PropensityExpansion(network);
+        _excess = new double[m];
+        _curvature = new double[m];
+        _gradient = new double[m, _s];
+        _meanJacobian = new double[_s, _s];
+    }
+
+    /// <inheritdoc/>
+    public int Dimension { get; }
+
+    /// <summary>Always true: the laws read the state and the parameters only.</summary>
+    public bool IsAutonomous => true;
+
+    /// <summary>True when δ is part of the state.</summary>
+    public bool WithMeanCorrection { get; }
+
+    /// <summary>Number of species S.</summary>
+    public int SpeciesCount => _s;
+
+    /// <summary>Offset of the packed covariance in the state.</summary>
+    public int CovarianceOffset => _s;
+
+    /// <summary>Offset of δ in the state (meaningful only with the correction on).</summary>
+    public int CorrectionOffset => _s + _packed;
+
+    /// <summary>The parameter values in force; change them with <see cref="SetParameter"/>.</summary>
+    public double[] ParameterArray => _parameters;
+
+    /// <summary>Sets a parameter and recomputes the mass-action constants.</summary>
+    public void SetParameter(int index, double value)
+    {
+        _parameters[index] = value;
+        _network.Propensities.ComputeConstants(_parameters, _constants);
+    }
+
+    /// <summary>Position of C_ij (any order of i, j) in the state: after φ, in the packed upper triangle.</summary>
+    public int Packed(int i, int j)
+    {
+        if (i > j) (i, j) = (j, i);
+        return _s + i * _s - i * (i - 1) / 2 + (j - i);
+    }
+
+    /// <summary>Reads the full symmetric C from a state.</summary>
+    public void UnpackCovariance(ReadOnlySpan<double> y, double[,] covariance)
+    {
+        var p = _s;
+        for (var i = 0; i < _s; i++)
+            for (var j = i; j < _s; j++, p++)
+                covariance[i, j] = covariance[j, i] = y[p];
+    }
+
+    /// <summary>Writes a symmetric C (upper triangle read) into a state.</summary>
+    public void PackCovariance(double[,] covariance, Span<double> y)
+    {
+        var p = _s;
+        for (var i = 0; i < _s; i++)
+            for (var j = i; j < _s; j++, p++)
+                y[p] = covariance[i, j];
+    }
+
+    /// <inheritdoc/>
+    public void Derivative(double t, double[] y, double[] dydt)
+    {
+        Array.Copy(y, _phi, _s);
+        var rateEquations = _network.RateEquations;
+        rateEquations.Rates(_phi, _constants, _parameters, _rates);
+        rateEquations.Jacobian(_phi, _constants, _parameters, _dvdx, _jacobian);
+        UnpackCovariance(y, _covariance);
+
+        Array.Clear(dydt);
+        for (var r = 0; r < _rates.Length; r++)
+        {
+            var species = _n.ChangedSpecies(r);
+            var change = _n.Changes(r);
+            for (var e = 0; e < species.Length; e++) dydt[species[e]] += change[e] * _rates[r];
+            // N·diag(v)·Nᵀ; a rate that round-off pushed below zero adds no noise rather than negative noise.
+            var noise = Math.Max(_rates[r], 0.0);
+            if (noise == 0) continue;
+            for (var e = 0; e < species.Length; e++)
+                for (var f = e; f < species.Length; f++)
+                    dydt[Packed(species[e], species[f])] += change[e] * change[f] * noise;
+        }
+        var p = _s;
+        for (var i = 0; i < _s; i++)
+            for (var j = i; j < _s; j++, p++)
+            {
+                var sum = 0.0;
+                for (var m = 0; m < _s; m++) sum += _jacobian[i, m] * _covariance[m, j] + _jacobian[j, m] * _covariance[i, m];
+                dydt[p] += sum;
+            }
+
+        if (!WithMeanCorrection) return;
+        _expansion!.Expand(_phi, _rates, _constants, _parameters, _excess, _gradient);
+        _expansion.Curvature(_covariance, _curvature);
+        MeanJacobian();
+        var offset = CorrectionOffset;
+        for (var i = 0; i < _s; i++)
+        {
+            var sum = 0.0;
+            for (var k = 0; k < _s; k++) sum += _meanJacobian[i, k] * y[offset + k];
+            dydt[offset + i] = sum;
+        }
+        for (var r = 0; r < _rates.Length; r++)
+        {
+            var source = _excess[r] + _curvature[r];
+            if (source == 0) continue;
+            var species = _n.ChangedSpecies(r);
+            var change = _n.Changes(r);
+            for (var e = 0; e < species.Length; e++) dydt[offset + species[e]] += change[e] * source;
+        }
+    }
+
+    // J_a = N·∂a/∂x from the gradient of the last expansion.
+    private void MeanJacobian()
+    {
+        Array.Clear(_meanJacobian);
+        for (var r = 0; r < _rates.Length; r++)
+        {
+            var species = _n.ChangedSpecies(r);
+            var change = _n.Changes(r);
+            for (var e = 0; e < species.Length; e++)
+                for (var k = 0; k < _s; k++)
+                    _meanJacobian[species[e], k] += change[e] * _gradient[r, k];
+        }
+    }
+
+    /// <summary>
+    /// The Jacobian: exact for the blocks that are linear in C and δ (and for ∂(dφ)/∂φ = J); the
+    /// columns for φ of the C and δ rows, which hold derivatives of J and of the Hessians, by central
+    /// differences of <see cref="Derivative"/>.
+    /// </summary>
+    public void Jacobian(double t, double[] y, double[,] jacobian)
+    {
+        Array.Clear(jacobian);
+        Array.Copy(y, _shifted, y.Length);
+        for (var k = 0; k < _s; k++)
+        {
+            var h = CentralDifferences.Step(y[k]);
+            _shifted[k] = y[k] + h;
+            Derivative(t, _shifted, _plus);
+            _shifted[k] = y[k] - h;
+            Derivative(t, _shifted, _minus);
+            _shifted[k] = y[k];
+            for (var row = _s; row < Dimension; row++) jacobian[row, k] = (_plus[row] - _minus[row]) / (2 * h);
+        }
+        // Re-evaluate at y itself: J, the Hessians and J_a below must belong to y, not to a shifted state.
+        Derivative(t, y, _plus);
+
+        for (var i = 0; i < _s; i++)
+            for (var k = 0; k < _s; k++) jacobian[i, k] = _jacobian[i, k];
+
+        // d(dC_ij)/dc_kl for the linear map C ↦ J·C + C·Jᵀ, with c_kl standing for both C_kl and C_lk.
+        for (var i = 0; i < _s; i++)
+            for (var j = i; j < _s; j++)
+            {
+                var row = Packed(i, j);
+                for (var k = 0; k < _s; k++)
+                    for (var l = k; l < _s; l++)
+                    {
+                        var value = Delta(j, l) * _jacobian[i, k] + Delta(i, k) * _jacobian[j, l];
+                        if (k != l) value += Delta(j, k) * _jacobian[i, l] + Delta(i, l) * _jacobian[j, k];
+                        jacobian[row, Packed(k, l)] += value;
+                    }
+            }
+
+        if (!WithMeanCorrection) return;
+        var offset = CorrectionOffset;
+        for (var i = 0; i < _s; i++)
+            for (var k = 0; k < _s; k++) jacobian[offset + i, offset + k] = _meanJacobian[i, k];
+        // d(dδ)/dc_kl = Σ_r N_·r·∂w_r/∂c_kl, w_r = ½·Σ H_r,ab·C_ab: each ordered pair (a, b) adds ½·H_r,ab.
+        for (var r = 0; r < _rates.Length; r++)
+        {
+            var support = _expansion!.Support(r);
+            var hessian = _expansion.Hessian(r);
+            var species = _n.ChangedSpecies(r);
+            var change = _n.Changes(r);
+            for (var a = 0; a < support.Length; a++)
+                for (var b = 0; b < support.Length; b++)
+                {
+                    var column = Packed(support[a], support[b]);
+                    for (var e = 0; e < species.Length; e++)
+                        jacobian[offset + species[e], column] += change[e] * 0.5 * hessian[a, b];
+                }
+        }
+    }
+
+    private static double Delta(int a, int b) => a == b ? 1.0 : 0.0;
+
+    /// <inheritdoc/>
+    public string ComponentName(int index)
+    {
+        var species = _network.Species;
+        if (index < _s) return $"species {species[index]}";
+        if (index < CorrectionOffset)
+        {
+            var p = index - _s;
+            for (var i = 0; i < _s; i++)
+            {
+                var rowLength = _s - i;
+                if (p < rowLength) return $"covariance of {species[i]} and {species[i + p]}";
+                p -= rowLength;
+            }
+        }
+        return $"mean correction of {species[index - CorrectionOffset]}";
+    }
+}

@@ -1,0 +1,31 @@
+using CopyNumber.Deterministic;
+using CopyNumber.Network;
+
+namespace CopyNumber.Analysis;
+
+/// <summary>
+/// The linear noise approximation (van Kampen 2007, Stochastic Processes in Physics and Chemistry, 3rd
+/// ed., ch. X; Elf &amp; Ehrenberg 2003, Genome Res. 13:2475): along the rate-equation solution φ(t), in
+/// copy numbers, the covariance obeys dC/dt = J·C + C·Jᵀ + N·diag(v(φ))·Nᵀ with J the exact Jacobian of
+/// N·v and C(0) = 0 (the initial counts are exact). φ and the upper triangle of C are integrated together
+/// with the project's integrator. For a network whose propensities are all of order ≤ 1 (constant or
+/// linear in the counts) the result is the exact mean and covariance of the chemical master equation.
+/// </summary>
+/// <remarks>
+/// Conservation laws make C singular (lᵀ·C·l = 0 for every law l, since lᵀN = 0 keeps lᵀC l at its
+/// initial 0); the forward equation for the full C is still well posed, so the full covariance is
+/// integrated and no reduction to independent species is needed. Schedule events act as
+/// <see cref="ExpansionIntegration"/> describes: adding a constant leaves C unchanged.
+/// </remarks>
+public static class LinearNoiseApproximation
+{
+    /// <summary>Integrates φ and C over <paramref name="grid"/>.</summary>
+    /// <param name="network">The compiled network.</param>
+    /// <param name="grid">Recording times, in model time units.</param>
+    /// <param name="options">Method and tolerances; the absolute tolerance applies to counts and to covariances (copies²) alike.</param>
+    /// <returns>φ, the variances of species and readouts, and C at every grid point; <see cref="SystemSizeExpansionSolution.CorrectedMean"/> is NaN.</returns>
+    /// <exception cref="ArgumentException">The options are unusable.</exception>
+    /// <exception cref="SolverFailureException">The integration failed; the message names the time and the species or covariance.</exception>
+    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options) =>
+        ExpansionIntegration.Solve(network, grid, options, withMeanCorrection: false);
+}
