@@ -12,6 +12,7 @@ internal static class CliApplication
         root.Subcommands.Add(InspectCommand.Create());
         root.Subcommands.Add(SolveCommand.Create());
         root.Subcommands.Add(SimulateCommand.Create());
+        root.Subcommands.Add(ContrastCommand.Create());
         return root;
     }
 

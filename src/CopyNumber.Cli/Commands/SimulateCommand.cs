@@ -28,16 +28,21 @@ internal static class SimulateCommand
         var paths = new Option<string?>("--paths") { Description = "Also write paths.parquet for the first N replicates, or 'all'." };
         var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
         var maxEvents = new Option<long?>("--max-events") { Description = "Stop a replicate after this many events; such replicates are counted and reported." };
+        var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
+        var contrastOptions = new ContrastOptions();
 
         var command = new Command("simulate", "Run an ensemble of stochastic replicates and summarise it on the time grid beside the rate equations.");
         command.Arguments.Add(model);
         grid.AddTo(command);
-        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents })
+        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, noContrast })
             command.Options.Add(option);
+        contrastOptions.AddTo(command);
 
         command.SetAction(parsed =>
         {
             var timeGrid = grid.Read(parsed);
+            var thresholds = contrastOptions.Thresholds(parsed);
+            var histogramTimes = contrastOptions.Times(parsed);
             var replicateCount = parsed.GetValue(replicates);
             if (replicateCount < 1) throw new UserInputException($"--replicates must be at least 1 (got {replicateCount})");
             var eps = parsed.GetValue(epsilon);
@@ -97,6 +102,12 @@ internal static class SimulateCommand
             writer.WriteLine($"{outcome.Ensemble.ReplicatesFinished} replicates, {outcome.Ensemble.EventsFired} events in {outcome.Ensemble.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {folder}");
             if (outcome.Ensemble.ReplicatesStoppedEarly > 0)
                 error.WriteLine($"warning: {outcome.Ensemble.ReplicatesStoppedEarly} replicates reached --max-events before the final time; later grid times count fewer replicates");
+            if (!parsed.GetValue(noContrast) && !outcome.Ensemble.Interrupted && outcome.Ensemble.ReplicatesFinished > 0)
+            {
+                var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, parsed.GetValue(contrastOptions.Heatmap));
+                writer.Write("\n" + ContrastOptions.RenderVerdicts(contrast));
+                writer.WriteLine($"wrote {string.Join(", ", files.Select(Path.GetFileName))}");
+            }
             if (outcome.Ensemble.Interrupted)
             {
                 error.WriteLine($"interrupted: summaries cover the {outcome.Ensemble.ReplicatesFinished} replicates finished and are marked partial");

@@ -45,7 +45,8 @@ public static class Contrast
             var aboveFloor = scale >= thresholds.DeterministicFloor && scale > 0;
             deviations[k] = new MeanDeviation(p.Time, absolute, halfWidth,
                 aboveFloor ? absolute / scale : double.NaN, aboveFloor ? halfWidth / scale : double.NaN);
-            resolved[k] = Math.Abs(absolute) > halfWidth;
+            // A deviation at round-off level (a conserved readout with zero variance) is not a deviation.
+            resolved[k] = Math.Abs(absolute) > halfWidth && Math.Abs(absolute) > 1e-9 * Math.Max(1.0, scale);
             fromCorrected[k] = p.Mean - p.CorrectedMean;
             varianceRatio[k] = p.LnaVariance > 0 ? p.Variance / p.LnaVariance : double.NaN;
             cv[k] = p.Mean > 0 ? Math.Sqrt(Math.Max(p.Variance, 0)) / p.Mean : double.NaN;

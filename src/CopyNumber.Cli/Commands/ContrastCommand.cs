@@ -1,0 +1,32 @@
+using System.CommandLine;
+using CopyNumber.Reports;
+
+namespace CopyNumber.Cli.Commands;
+
+/// <summary><c>copynumber contrast DIR</c>: where the rate equations stop describing the ensemble of a run.</summary>
+internal static class ContrastCommand
+{
+    public static Command Create()
+    {
+        var folder = new Argument<string>("folder") { Description = "A folder written by 'copynumber simulate'." };
+        var options = new ContrastOptions();
+        var command = new Command("contrast", "Set a simulate run against its rate equations, linear noise approximation and corrected mean; write contrast.parquet, report.md and report.html.");
+        command.Arguments.Add(folder);
+        options.AddTo(command);
+        command.SetAction(parsed =>
+        {
+            var thresholds = options.Thresholds(parsed);
+            var times = options.Times(parsed);
+            var dir = parsed.GetValue(folder)!;
+            if (!Directory.Exists(dir)) throw new UserInputException($"'{dir}' is not a folder written by simulate");
+            if (!File.Exists(Path.Combine(dir, Output.SimulationRun.ManifestFile)))
+                throw new UserInputException($"'{dir}' has no {Output.SimulationRun.ManifestFile}: it is not a folder written by simulate");
+            var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap));
+            var writer = parsed.InvocationConfiguration.Output;
+            writer.Write(ContrastOptions.RenderVerdicts(contrast));
+            writer.WriteLine($"wrote {string.Join(", ", files)}");
+            return ExitCodes.Done;
+        });
+        return command;
+    }
+}

@@ -1,0 +1,71 @@
+using System.CommandLine;
+using System.Globalization;
+using CopyNumber.Analysis;
+using CopyNumber.Cli.Rendering;
+
+namespace CopyNumber.Cli.Commands;
+
+/// <summary>The verdict thresholds and figure choices shared by contrast, simulate and sweep.</summary>
+internal sealed class ContrastOptions
+{
+    private static readonly ContrastThresholds Defaults = ContrastThresholds.Default;
+
+    public Option<double> Z { get; } = new("--z") { Description = "Standard errors a deviation must exceed to count as resolved.", DefaultValueFactory = _ => Defaults.Z };
+    public Option<double> MeanShift { get; } = new("--mean-threshold") { Description = "Relative deviation of the mean from the rate equations that makes 'mean shifted'.", DefaultValueFactory = _ => Defaults.RelativeDeviation };
+    public Option<double> Noise { get; } = new("--cv-threshold") { Description = "Coefficient of variation late in the run that makes 'noise-dominated'.", DefaultValueFactory = _ => Defaults.CoefficientOfVariation };
+    public Option<double> Extinction { get; } = new("--extinction-threshold") { Description = "P(count = 0) at the final time that makes 'extinction-prone'.", DefaultValueFactory = _ => Defaults.ExtinctionProbability };
+    public Option<long> MinimumReplicates { get; } = new("--min-replicates") { Description = "Fewer replicates than this give 'too few replicates' instead of a verdict.", DefaultValueFactory = _ => Defaults.MinimumReplicates };
+    public Option<string?> At { get; } = new("--at") { Description = "Times for the histogram figures, comma-separated (default: the middle and the final time)." };
+    public Option<string?> Heatmap { get; } = new("--heatmap") { Description = "Species or readout for the distribution heatmap." };
+
+    public void AddTo(Command command)
+    {
+        foreach (var option in new Option[] { Z, MeanShift, Noise, Extinction, MinimumReplicates, At, Heatmap })
+            command.Options.Add(option);
+    }
+
+    public ContrastThresholds Thresholds(ParseResult parsed)
+    {
+        var thresholds = Defaults with
+        {
+            Z = parsed.GetValue(Z),
+            RelativeDeviation = parsed.GetValue(MeanShift),
+            CoefficientOfVariation = parsed.GetValue(Noise),
+            ExtinctionProbability = parsed.GetValue(Extinction),
+            MinimumReplicates = parsed.GetValue(MinimumReplicates),
+        };
+        try
+        {
+            thresholds.Validate();
+        }
+        catch (AnalysisInputException e)
+        {
+            throw new UserInputException(e.Message);
+        }
+        return thresholds;
+    }
+
+    public IReadOnlyList<double> Times(ParseResult parsed)
+    {
+        var text = parsed.GetValue(At);
+        if (string.IsNullOrWhiteSpace(text)) return [];
+        var times = new List<double>();
+        foreach (var part in text.Split(',', StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries))
+        {
+            if (!double.TryParse(part, NumberStyles.Float, CultureInfo.InvariantCulture, out var t) || !(t >= 0) || double.IsInfinity(t))
+                throw new UserInputException($"--at takes non-negative times separated by commas (got '{part}')");
+            times.Add(t);
+        }
+        return times;
+    }
+
+    /// <summary>The verdict table printed at the end of contrast and simulate.</summary>
+    public static string RenderVerdicts(RunContrastResult contrast)
+    {
+        var table = new TextTable("quantity", "verdict", "reason");
+        foreach (var q in contrast.Quantities)
+            foreach (var v in q.Verdicts)
+                table.Add(q.Name, v.Label, v.Sentence);
+        return table + Contrast.Caution + "\n";
+    }
+}

@@ -1,0 +1,133 @@
+using System.Globalization;
+using CopyNumber.Analysis;
+
+namespace CopyNumber.Reports;
+
+/// <summary>
+/// Turns the contrast of a run into a report: the caution, the verdict table with thresholds, and per
+/// species the mean with its bands, histograms at chosen times, and a distribution heatmap.
+/// </summary>
+public static class ContrastReport
+{
+    /// <summary>Builds the report.</summary>
+    /// <param name="contrast">The run's contrast.</param>
+    /// <param name="thresholds">The thresholds the verdicts used, printed beside them.</param>
+    /// <param name="histogramTimes">Times for the histogram figures (nearest grid time is used); empty: the middle and the final time.</param>
+    /// <param name="heatmapQuantity">The quantity of the heatmap; null: the first species with a verdict other than adequate, else the first species.</param>
+    public static Report Build(RunContrastResult contrast, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity)
+    {
+        var run = contrast.Run;
+        var times = run.Times;
+        var cautions = new List<string>
+        {
+            Contrast.Caution,
+            $"Sampling error: deviations count as resolved only beyond {Format(thresholds.Z)} standard errors; verdicts need at least {thresholds.MinimumReplicates} replicates.",
+        };
+        if (contrast.ExpansionFailure is not null)
+            cautions.Add($"The linear noise approximation could not be computed ({contrast.ExpansionFailure}); its bands and variance ratios are missing.");
+
+        var verdictRows = contrast.Quantities
+            .SelectMany(q => q.Verdicts.Select(v => (IReadOnlyList<string>)[q.Name, v.Label, v.Sentence]))
+            .ToList();
+        var summary = new ReportSection(
+            "Verdicts",
+            [
+                $"Model {run.Manifest.ModelFile} (sha256 {run.Manifest.ModelSha256[..12]}…), {run.Manifest.ReplicatesFinished} replicates, method {run.Manifest.Method}, seed {run.Manifest.Seed}.",
+                $"Thresholds: relative mean deviation {Percent(thresholds.RelativeDeviation)} (rate-equation value at least {Format(thresholds.DeterministicFloor)}), " +
+                $"coefficient of variation {Format(thresholds.CoefficientOfVariation)} over the last {Percent(thresholds.LateFraction)} of the run, " +
+                $"several modes at {Percent(thresholds.MultimodalFraction)} of grid times or more, P(0) at the end {Percent(thresholds.ExtinctionProbability)}.",
+            ],
+            [new ReportTable(["quantity", "verdict", "reason"], verdictRows)],
+            []);
+
+        var sections = new List<ReportSection> { summary };
+        var chosenTimes = ChooseTimes(times, histogramTimes);
+        foreach (var q in contrast.Quantities)
+        {
+            var series = run.Quantities.First(s => s.Name == q.Name);
+            var figures = new List<ReportFigure>();
+            var lnaColumn = contrast.Expansion?.ColumnIndex(q.Name) ?? -1;
+            double[]? lnaLower = null, lnaUpper = null;
+            if (lnaColumn >= 0)
+            {
+                var variance = contrast.Expansion!.VarianceColumn(lnaColumn);
+                var centre = contrast.Expansion.RateEquationColumn(lnaColumn);
+                lnaLower = centre.Zip(variance, (m, v) => m - 2 * Math.Sqrt(Math.Max(v, 0))).ToArray();
+                lnaUpper = centre.Zip(variance, (m, v) => m + 2 * Math.Sqrt(Math.Max(v, 0))).ToArray();
+            }
+            var safe = SafeName(q.Name);
+            var band = new BandSeries(q.Name, times, series.Mean, series.Quantile05, series.Quantile95, series.Deterministic,
+                lnaLower, lnaUpper, run.SamplePaths(q.Name, 5));
+            figures.Add(new ReportFigure($"{safe}-mean.png",
+                $"{q.Name}: ensemble mean with its 5–95% band, the rate equations and the LNA ±2σ band.", Figures.MeanWithBands(band)));
+
+            var snapshots = chosenTimes
+                .Select(k => (k, run.Distribution(q.Name, k)))
+                .Where(p => p.Item2.Counts.Length > 0)
+                .Select(p => new HistogramSnapshot(q.Name, times[p.k], p.Item2.Counts, p.Item2.Probabilities, series.Deterministic[p.k]))
+                .ToList();
+            if (snapshots.Count > 0)
+                figures.Add(new ReportFigure($"{safe}-histograms.png",
+                    $"{q.Name}: distribution of copy numbers at t = {string.Join(", ", snapshots.Select(s => Format(s.Time)))}, rate-equation value marked.",
+                    Figures.Histograms(snapshots)));
+
+            var sentences = q.Verdicts.Select(v => $"{v.Label}: {v.Sentence}").ToList();
+            if (q.LargestResolvedRelativeDeviation is { } largest)
+                sentences.Add($"Largest resolved relative deviation {Percent(largest.Relative)} (±{Percent(largest.RelativeHalfWidth)}) at t = {Format(largest.Time)}.");
+            sentences.Add($"P(0) at the final time: {Format(q.FinalProbabilityOfZero)}.");
+            sections.Add(new ReportSection(q.Name, sentences, [], figures));
+        }
+
+        var heat = heatmapQuantity
+            ?? contrast.Quantities
+                .Where(q => q.Verdicts.Any(v => v.Kind != VerdictKind.Adequate) && run.Distribution(q.Name, times.Length - 1).Counts.Length > 0)
+                .OrderByDescending(q => run.Distribution(q.Name, times.Length - 1).Counts[^1]) // the widest distribution shows most
+                .FirstOrDefault()?.Name
+            ?? contrast.Network.Species[0];
+        var heatmap = Heatmap(run, heat);
+        if (heatmap is not null)
+            sections.Add(new ReportSection($"Distribution of {heat} over time", [], [],
+                [new ReportFigure($"{SafeName(heat)}-heatmap.png", $"Probability of each copy number of {heat} over time.", Figures.Heatmap(heatmap))]));
+
+        return new Report($"CopyNumber contrast: {Path.GetFileNameWithoutExtension(run.Manifest.ModelFile)}", cautions, sections);
+    }
+
+    private static DistributionHeatmap? Heatmap(Output.RunFolder run, string quantity)
+    {
+        var times = run.Times;
+        long min = long.MaxValue, max = long.MinValue;
+        for (var k = 0; k < times.Length; k++)
+        {
+            var (counts, _) = run.Distribution(quantity, k);
+            if (counts.Length == 0) continue;
+            min = Math.Min(min, counts[0]);
+            max = Math.Max(max, counts[^1]);
+        }
+        if (min > max || max - min > 5000) return null;
+        var probability = new double[times.Length, max - min + 1];
+        for (var k = 0; k < times.Length; k++)
+        {
+            var (counts, probabilities) = run.Distribution(quantity, k);
+            for (var i = 0; i < counts.Length; i++) probability[k, counts[i] - min] = probabilities[i];
+        }
+        var deterministic = run.Quantities.First(s => s.Name == quantity).Deterministic;
+        return new DistributionHeatmap(quantity, times, min, max, probability, deterministic);
+    }
+
+    private static int[] ChooseTimes(double[] times, IReadOnlyList<double> requested)
+    {
+        if (requested.Count == 0) return new[] { times.Length / 2, times.Length - 1 }.Distinct().ToArray();
+        return requested.Select(t =>
+        {
+            var best = 0;
+            for (var k = 1; k < times.Length; k++) if (Math.Abs(times[k] - t) < Math.Abs(times[best] - t)) best = k;
+            return best;
+        }).Distinct().ToArray();
+    }
+
+    private static string SafeName(string name) => new(name.Select(c => char.IsAsciiLetterOrDigit(c) || c is '-' or '_' ? c : '_').ToArray());
+
+    private static string Format(double value) => value.ToString("0.###", CultureInfo.InvariantCulture);
+
+    private static string Percent(double fraction) => (fraction * 100).ToString("0.#", CultureInfo.InvariantCulture) + "%";
+}
