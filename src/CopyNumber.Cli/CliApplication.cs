@@ -13,6 +13,7 @@ internal static class CliApplication
         root.Subcommands.Add(SolveCommand.Create());
         root.Subcommands.Add(SimulateCommand.Create());
         root.Subcommands.Add(ContrastCommand.Create());
+        root.Subcommands.Add(SweepCommand.Create());
         return root;
     }
 
