@@ -1,13 +1,16 @@
 using System.CommandLine;
+using System.Text.RegularExpressions;
 using CopyNumber.Language;
+using CopyNumber.Output;
 
 namespace CopyNumber.Cli;
 
 /// <summary>
-/// The one place that turns failures into messages and exit codes: parse errors and bad arguments give 2,
-/// a failed run gives 1, and no stack trace ever reaches the user.
+/// The one place that turns failures into messages and exit codes: parse errors, bad arguments, a refused
+/// output folder and a run folder that cannot be resumed or merged give 2, a failed run gives 1, and no
+/// stack trace ever reaches the user.
 /// </summary>
-internal static class CommandRunner
+internal static partial class CommandRunner
 {
     public static int Run(RootCommand root, string[] args, TextWriter? output = null, TextWriter? error = null)
     {
@@ -25,7 +28,7 @@ internal static class CommandRunner
         }
         if (parsed.Errors.Count > 0)
         {
-            foreach (var problem in parsed.Errors) error.WriteLine($"error: {problem.Message}");
+            foreach (var problem in parsed.Errors) error.WriteLine($"error: {InWords(problem.Message)}");
             error.WriteLine("Run with --help to see the commands and their options.");
             return ExitCodes.BadInput;
         }
@@ -44,6 +47,16 @@ internal static class CommandRunner
             error.WriteLine($"error: {e.Message}");
             return ExitCodes.BadInput;
         }
+        catch (RunFolderException e)
+        {
+            error.WriteLine($"error: {e.Message}");
+            return ExitCodes.BadInput;
+        }
+        catch (OutputException e) when (e.IsRefusal)
+        {
+            error.WriteLine($"error: {e.Message}");
+            return ExitCodes.BadInput;
+        }
         catch (OperationCanceledException)
         {
             error.WriteLine("interrupted");
@@ -55,6 +68,19 @@ internal static class CommandRunner
             return ExitCodes.RunFailed;
         }
     }
+
+    /// <summary>The parser names .NET types ("expected type 'System.Int32'"); say what is expected instead.</summary>
+    private static string InWords(string message) =>
+        ExpectedType().Replace(message, m => m.Groups[1].Value switch
+        {
+            var t when t.Contains("UInt64") => "; expected a whole number from 0 to 18446744073709551615",
+            var t when t.Contains("Int32") || t.Contains("Int64") => "; expected a whole number",
+            var t when t.Contains("Double") => "; expected a number such as 0.5 or 1e3",
+            _ => "",
+        });
+
+    [GeneratedRegex(@" as expected type '([^']+)'")]
+    private static partial Regex ExpectedType();
 
     private static string Describe(Exception e) =>
         e is AggregateException { InnerExceptions.Count: 1 } a ? Describe(a.InnerExceptions[0]) : e.Message;

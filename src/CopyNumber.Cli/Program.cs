@@ -1,3 +1,4 @@
 using CopyNumber.Cli;
 
-return CliApplication.Run(args);
+using var interrupt = new InterruptSignal(Console.Error);
+return CliApplication.Run(args, session: new CliSession(interrupt.Token, interrupt.Honour));

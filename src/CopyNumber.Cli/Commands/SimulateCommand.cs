@@ -14,7 +14,10 @@ internal static class SimulateCommand
 {
     private static readonly string[] MethodNames = ["direct", "next-reaction", "tau-leap"];
 
-    public static Command Create()
+    /// <summary>Most worker threads accepted; more only add memory and contention.</summary>
+    public static readonly int MaxThreads = Math.Max(1024, 4 * Environment.ProcessorCount);
+
+    public static Command Create(CliSession session)
     {
         var model = ModelArgument.Create();
         var grid = new GridOptions();
@@ -28,41 +31,66 @@ internal static class SimulateCommand
         var paths = new Option<string?>("--paths") { Description = "Also write paths.parquet for the first N replicates, or 'all'." };
         var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
         var maxEvents = new Option<long?>("--max-events") { Description = "Stop a replicate after this many events; such replicates are counted and reported." };
+        var maxWall = new Option<double?>("--max-wall") { Description = "Stop the run after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
+        var shard = new Option<string?>("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
+        var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder: repeat its arguments (omitted options take the stored values); finished blocks are kept." };
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
 
         var command = new Command("simulate", "Run an ensemble of stochastic replicates and summarise it on the time grid beside the rate equations.");
         command.Arguments.Add(model);
         grid.AddTo(command);
-        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, noContrast })
+        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, maxWall, shard, resume, noContrast })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
         command.SetAction(parsed =>
         {
+            using var honouring = session.Honour();
+            var resumeFolder = parsed.GetValue(resume);
+            var stored = resumeFolder is null ? null : StoredRun.Open(resumeFolder);
+            if (stored is not null && parsed.GetResult(output) is { Implicit: false })
+                throw new UserInputException("--resume continues the run in its own folder; leave out --out");
+            // With --resume, an option left out takes the value the stored run recorded.
+            T Pick<T>(Option<T> option, string key, Func<string, T> fromText)
+            {
+                if (stored is null || parsed.GetResult(option) is { Implicit: false } || !stored.Manifest.Arguments.TryGetValue(key, out var text))
+                    return parsed.GetValue(option)!;
+                try
+                {
+                    return fromText(text);
+                }
+                catch (Exception e) when (e is FormatException or OverflowException)
+                {
+                    throw new RunFolderException($"The manifest of '{stored.Folder}' records {option.Name} '{text}', which is not a valid value.", stored.Folder, e);
+                }
+            }
+
             var timeGrid = grid.Read(parsed);
             var thresholds = contrastOptions.Thresholds(parsed);
             var histogramTimes = contrastOptions.Times(parsed);
             var replicateCount = parsed.GetValue(replicates);
             if (replicateCount < 1) throw new UserInputException($"--replicates must be at least 1 (got {replicateCount})");
-            var eps = parsed.GetValue(epsilon);
+            var eps = Pick(epsilon, "epsilon", ParseDouble);
             if (!(eps > 0 && eps < 1)) throw new UserInputException($"--epsilon must lie in (0, 1) (got {eps})");
             var threadCount = parsed.GetValue(threads);
-            if (threadCount < 1) throw new UserInputException($"--threads must be at least 1 (got {threadCount})");
-            var limit = parsed.GetValue(maxEvents) ?? long.MaxValue;
+            if (threadCount < 1 || threadCount > MaxThreads) throw new UserInputException($"--threads must be between 1 and {MaxThreads} (got {threadCount})");
+            var limit = Pick(maxEvents, "max_events", t => t == "none" ? null : long.Parse(t, CultureInfo.InvariantCulture)) ?? long.MaxValue;
             if (limit < 1) throw new UserInputException($"--max-events must be at least 1 (got {limit})");
-            var pathCount = ReadPaths(parsed.GetValue(paths), replicateCount);
-            var chosen = parsed.GetValue(method)!;
+            var wall = parsed.GetValue(maxWall);
+            if (wall is { } w && !(w > 0 && w <= TimeSpan.MaxValue.TotalSeconds / 2)) throw new UserInputException($"--max-wall must be a positive number of seconds (got {w})");
+            var pathCount = ReadPaths(Pick(paths, "paths", t => t == "0" ? null : t), replicateCount);
+            var runShard = ReadShard(Pick(shard, ManifestFields.ShardArgument, t => t), replicateCount);
+            var chosen = Pick(method, "method", t => MethodNames.Contains(t) ? t : throw new FormatException($"unknown method '{t}'"));
             var simulationMethod = chosen switch
             {
                 "next-reaction" => SimulationMethod.NextReaction,
                 "tau-leap" => SimulationMethod.TauLeap,
                 _ => SimulationMethod.Direct,
             };
-            var runSeed = parsed.GetValue(seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
+            var runSeed = Pick(seed, "seed", t => (ulong?)ulong.Parse(t, CultureInfo.InvariantCulture)) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
 
             var loaded = ModelArgument.Load(parsed.GetValue(model)!);
-            var folder = OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
             var options = new EnsembleOptions
             {
                 Grid = timeGrid,
@@ -72,7 +100,10 @@ internal static class SimulateCommand
                 Simulator = new SimulatorOptions(Epsilon: eps, MaxEvents: limit),
                 Threads = threadCount,
                 PathReplicates = pathCount,
+                Shard = runShard,
             };
+            var memory = EnsembleMemory.For(loaded.Network, options);
+            if (memory.Problem(GC.GetGCMemoryInfo().TotalAvailableMemoryBytes) is { } tooLarge) throw new UserInputException(tooLarge);
             var arguments = new Dictionary<string, string>
             {
                 ["command"] = "simulate",
@@ -84,36 +115,40 @@ internal static class SimulateCommand
                 ["seed"] = runSeed.ToString(CultureInfo.InvariantCulture),
                 ["paths"] = pathCount.ToString(CultureInfo.InvariantCulture),
                 ["max_events"] = limit == long.MaxValue ? "none" : limit.ToString(CultureInfo.InvariantCulture),
+                [ManifestFields.ShardArgument] = runShard.ToString(),
             };
-            var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, $"{chosen} was requested");
-
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
-            error.WriteLine($"simulating {loaded.Network.Name}: {replicateCount} replicates, method {chosen}, seed {runSeed}, {threadCount} threads -> {folder}");
+            if (stored is not null && !stored.IsPartial)
+            {
+                error.WriteLine($"nothing to resume: the run in {stored.Folder} has all its {stored.Manifest.ReplicatesFinished} replicates");
+                return ExitCodes.Done;
+            }
+            var folder = stored?.Folder ?? OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
+            var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, $"{chosen} was requested")
+            {
+                WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
+                Resume = stored is not null,
+            };
+
+            var shardText = runShard.IsWhole ? "" : $", shard {runShard}";
+            var toRun = ShardReplicates(options) - (stored?.Manifest.ReplicatesFinished ?? 0);
+            error.WriteLine(stored is null
+                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {chosen}, seed {runSeed}, {threadCount} threads -> {folder}"
+                : $"resuming {loaded.Network.Name} in {folder}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {chosen}, seed {runSeed}, {threadCount} threads");
             var monitor = new EnsembleMonitor();
             SimulationOutcome outcome;
-            using (var interrupt = new InterruptSignal())
-            using (new ProgressDisplay(monitor, replicateCount, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
-                outcome = SimulationRun.Execute(request, monitor, interrupt.Token);
-
-            if (outcome.DeterministicFailure is not null)
-                error.WriteLine($"warning: the rate equations could not be solved ({outcome.DeterministicFailure}); the 'deterministic' column is empty");
-            writer.Write(RenderFinal(outcome));
-            writer.WriteLine($"{outcome.Ensemble.ReplicatesFinished} replicates, {outcome.Ensemble.EventsFired} events in {outcome.Ensemble.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {folder}");
-            if (outcome.Ensemble.ReplicatesStoppedEarly > 0)
-                error.WriteLine($"warning: {outcome.Ensemble.ReplicatesStoppedEarly} replicates reached --max-events before the final time; later grid times count fewer replicates");
-            if (!parsed.GetValue(noContrast) && !outcome.Ensemble.Interrupted && outcome.Ensemble.ReplicatesFinished > 0)
+            using (new ProgressDisplay(monitor, toRun, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
+                outcome = SimulationRun.Execute(request, monitor, session.Interrupt);
+            var code = Report(outcome, folder, writer, error);
+            // A shard is only part of a run: its contrast waits for the merged folder.
+            if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && runShard.IsWhole && !parsed.GetValue(noContrast))
             {
                 var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, parsed.GetValue(contrastOptions.Heatmap));
                 writer.Write("\n" + ContrastOptions.RenderVerdicts(contrast));
                 writer.WriteLine($"wrote {string.Join(", ", files.Select(Path.GetFileName))}");
             }
-            if (outcome.Ensemble.Interrupted)
-            {
-                error.WriteLine($"interrupted: summaries cover the {outcome.Ensemble.ReplicatesFinished} replicates finished and are marked partial");
-                return ExitCodes.Interrupted;
-            }
-            return ExitCodes.Done;
+            return code;
         });
         return command;
     }
@@ -127,7 +162,53 @@ internal static class SimulateCommand
         return Math.Min(n, replicates);
     }
 
+    private static Shard ReadShard(string? text, long replicates)
+    {
+        if (text is null) return Shard.Whole;
+        if (!Shard.TryParse(text, out var shard, out var problem)) throw new UserInputException($"--shard: {problem}");
+        var blocks = BlockRanges.BlocksFor(replicates, EnsembleOptions.DefaultBlockSize);
+        if (shard.Count > blocks)
+            throw new UserInputException($"--shard {shard}: {replicates} replicates make {blocks} block{(blocks == 1 ? "" : "s")} of {EnsembleOptions.DefaultBlockSize}, so at most {blocks} shard{(blocks == 1 ? "" : "s")}; use fewer shards or more replicates");
+        return shard;
+    }
+
+    private static long ShardReplicates(EnsembleOptions options)
+    {
+        var (first, end) = options.Shard.Blocks(options.TotalBlocks);
+        return BlockRanges.ReplicatesIn(options.Replicates, options.BlockSize, first, end);
+    }
+
+    private static double ParseDouble(string text) => double.Parse(text, NumberStyles.Float, CultureInfo.InvariantCulture);
+
     private static string Invariant(double value) => value.ToString("R", CultureInfo.InvariantCulture);
+
+    /// <summary>The closing lines and the exit code: 0 done or stopped at --max-wall, 1 a replicate failed, 130 interrupted.</summary>
+    private static int Report(SimulationOutcome outcome, string folder, TextWriter writer, TextWriter error)
+    {
+        var result = outcome.Ensemble;
+        if (outcome.DeterministicFailure is not null)
+            error.WriteLine($"warning: the rate equations could not be solved ({outcome.DeterministicFailure}); the 'deterministic' column is empty");
+        writer.Write(RenderFinal(outcome));
+        writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {folder}");
+        if (result.ReplicatesStoppedEarly > 0)
+            error.WriteLine($"warning: {result.ReplicatesStoppedEarly} replicates reached --max-events before the final time; they count at the times they reached and are missing from later ones (manifest: replicates_stopped_early)");
+        var partial = $"summaries cover the {result.ReplicatesFinished} replicates finished and are marked partial; continue with --resume {folder}";
+        switch (outcome.StopReason)
+        {
+            case StopReason.Failed:
+                error.WriteLine($"error: {outcome.Failure}");
+                error.WriteLine($"the run stopped; {partial}");
+                return ExitCodes.RunFailed;
+            case StopReason.WallLimit:
+                error.WriteLine($"warning: stopped at --max-wall; {partial}");
+                return ExitCodes.Done;
+            case StopReason.Interrupted:
+                error.WriteLine($"interrupted: {partial}");
+                return ExitCodes.Interrupted;
+            default:
+                return ExitCodes.Done;
+        }
+    }
 
     /// <summary>Per species and readout at the final time: ensemble mean ± standard error, rate-equation value, Fano factor.</summary>
     internal static string RenderFinal(SimulationOutcome outcome)
@@ -139,7 +220,12 @@ internal static class SimulateCommand
         foreach (var q in result.Quantities)
         {
             var deterministic = outcome.Deterministic is { } d ? d.Values[last, d.Columns.ToList().IndexOf(q.Name)] : double.NaN;
-            if (q.IsCount)
+            if (q.IsCount && result.Histogram(last, countIndex).IsEmpty)
+            {
+                countIndex++;
+                table.Add(q.Name, "-", "-", Numbers.Format(deterministic, 5), "-", "-");
+            }
+            else if (q.IsCount)
             {
                 var s = DistributionSummary.From(result.Histogram(last, countIndex++));
                 table.Add(q.Name, Numbers.Format(s.Mean, 5), Numbers.Format(s.StandardError, 2), Numbers.Format(deterministic, 5), Numbers.Format(s.FanoFactor, 3), Numbers.Format(s.ZeroFraction, 3));

@@ -18,7 +18,7 @@ namespace CopyNumber.Cli.Commands;
 /// </summary>
 internal static class SweepCommand
 {
-    public static Command Create()
+    public static Command Create(CliSession session)
     {
         var model = ModelArgument.Create();
         var grid = new GridOptions();
@@ -62,7 +62,7 @@ internal static class SweepCommand
             var writer = parsed.InvocationConfiguration.Output;
 
             var runs = new List<(double, RunContrastResult)>();
-            using var interrupt = new InterruptSignal();
+            using var honouring = session.Honour();
             foreach (var size in sizeList)
             {
                 var loaded = ModelArgument.Load(modelPath, new CompileOptions(SizeOverride: size));
@@ -92,7 +92,7 @@ internal static class SweepCommand
                 var monitor = new EnsembleMonitor();
                 SimulationOutcome outcome;
                 using (new Rendering.ProgressDisplay(monitor, replicateCount, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
-                    outcome = SimulationRun.Execute(new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, $"{chosen} was requested"), monitor, interrupt.Token);
+                    outcome = SimulationRun.Execute(new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, $"{chosen} was requested"), monitor, session.Interrupt);
                 if (outcome.Ensemble.Interrupted)
                 {
                     error.WriteLine($"interrupted during size {size}: the sizes finished so far are in {root}");

@@ -3,23 +3,31 @@ using CopyNumber.Stochastic;
 
 namespace CopyNumber.Ensembles;
 
-/// <summary>Copies each recorded state of the current replicate into its slot of the block, with readouts evaluated.</summary>
+/// <summary>
+/// Copies each recorded state of the current replicate into its slot of the block, with readouts
+/// evaluated. It is also where a long replicate notices a cancellation: the simulators call nothing
+/// else between events, so <see cref="Record"/> checks the token (one field read per grid point) and
+/// abandons the replicate by throwing <see cref="ReplicateAbandoned"/>, which the worker catches; the
+/// block is then dropped whole.
+/// </summary>
 internal sealed class BlockObserver : ITrajectoryObserver
 {
     private readonly int _species;
     private readonly Readout[] _countReadouts;
     private readonly Readout[] _realReadouts;
     private readonly double[] _parameters;
+    private readonly CancellationToken _cancel;
     private ReplicateBlock _block = null!;
     private int _slot;
 
-    public BlockObserver(ReactionNetwork network)
+    public BlockObserver(ReactionNetwork network, CancellationToken cancel)
     {
         _species = network.Species.Count;
         _countReadouts = network.Readouts.Where(r => r.IsCount).ToArray();
         _realReadouts = network.Readouts.Where(r => !r.IsCount).ToArray();
         // Readouts see the parameters' initial values; a schedule that changes a parameter does not change a readout.
         _parameters = network.InitialParameterValues.ToArray();
+        _cancel = cancel;
     }
 
     public void Begin(ReplicateBlock block, int slot)
@@ -31,6 +39,7 @@ internal sealed class BlockObserver : ITrajectoryObserver
 
     public void Record(int gridIndex, double time, long[] counts)
     {
+        if (_cancel.IsCancellationRequested) throw ReplicateAbandoned.Instance;
         var block = _block;
         var baseIndex = ((long)_slot * block.GridPoints + gridIndex) * block.CountStride;
         var target = block.Counts;
@@ -44,5 +53,15 @@ internal sealed class BlockObserver : ITrajectoryObserver
                 block.Reals[realBase + r] = _realReadouts[r].OnCounts(counts, _parameters);
         }
         block.RecordedPoints[_slot] = gridIndex + 1;
+    }
+}
+
+/// <summary>Unwinds a replicate that was cancelled part-way; never escapes the ensemble.</summary>
+internal sealed class ReplicateAbandoned : Exception
+{
+    public static readonly ReplicateAbandoned Instance = new();
+
+    private ReplicateAbandoned() : base("the replicate was abandoned because the run was cancelled")
+    {
     }
 }

@@ -20,6 +20,14 @@ public static class BlockRanges
         return string.Join(",", parts);
     }
 
+    /// <summary>⌈<paramref name="replicates"/> / <paramref name="blockSize"/>⌉: the blocks a run of that many replicates has.</summary>
+    public static long BlocksFor(long replicates, int blockSize) =>
+        replicates < 1 || blockSize < 1 ? 0 : (replicates - 1) / blockSize + 1;
+
+    /// <summary>The replicates in blocks [<paramref name="first"/>, <paramref name="end"/>) of a run of <paramref name="replicates"/> in blocks of <paramref name="blockSize"/>.</summary>
+    public static long ReplicatesIn(long replicates, int blockSize, long first, long end) =>
+        Math.Min(replicates, end * blockSize) - Math.Min(replicates, first * blockSize);
+
     /// <summary>Reads what <see cref="Format"/> wrote.</summary>
     /// <exception cref="FormatException">The text is not a list of ranges.</exception>
     public static HashSet<long> Parse(string text)

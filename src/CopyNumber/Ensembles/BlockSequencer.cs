@@ -1,43 +1,56 @@
 namespace CopyNumber.Ensembles;
 
 /// <summary>
-/// Takes finished blocks in any order and processes them in block order: merges real-valued readouts
-/// into their moment accumulators (floating-point merges depend on order, so a fixed order keeps results
-/// thread-count independent) and hands paths to the sink in replicate order. Workers wait when too many
-/// blocks are pending, which bounds memory when one block is slow.
+/// Lends out replicate blocks, and hands the paths of the blocks that hold path replicates to the sink
+/// in replicate order whichever thread finished them first. Workers wait when too many such blocks are
+/// pending, which bounds memory when one block is slow. Only the first ⌈paths / block size⌉ blocks
+/// are ever ordered; every other block goes straight back to the pool.
 /// </summary>
 internal sealed class BlockSequencer
 {
     private readonly int _gridPoints;
+    private readonly int _countQuantities;
     private readonly int _realQuantities;
+    private readonly int _blockSize;
     private readonly IPathSink? _paths;
     private readonly long _pathReplicates;
-    private readonly IReadOnlySet<long> _skip;
+    private readonly long _pathBlocksEnd;
+    private readonly Func<long, bool> _runs;
     private readonly int _maxPending;
     private readonly SortedDictionary<long, ReplicateBlock> _pending = new();
     private readonly Stack<ReplicateBlock> _pool = new();
     private readonly object _gate = new();
     private long _next;
+    private bool _closed;
 
-    public BlockSequencer(int gridPoints, int realQuantities, IPathSink? paths, long pathReplicates, IReadOnlySet<long> skip, int threads)
+    /// <param name="gridPoints">Grid points per replicate.</param>
+    /// <param name="countQuantities">Count quantities per grid point.</param>
+    /// <param name="realQuantities">Real readouts per grid point.</param>
+    /// <param name="blockSize">Replicates per block.</param>
+    /// <param name="paths">Where paths go, or null.</param>
+    /// <param name="pathReplicates">The first this many replicates have their paths written.</param>
+    /// <param name="firstBlock">The first block this run may run.</param>
+    /// <param name="runs">Whether this run runs a given block (false for skipped blocks and other shards).</param>
+    /// <param name="threads">Worker threads; up to four blocks per thread may wait.</param>
+    public BlockSequencer(int gridPoints, int countQuantities, int realQuantities, int blockSize, IPathSink? paths, long pathReplicates, long firstBlock, Func<long, bool> runs, int threads)
     {
         _gridPoints = gridPoints;
+        _countQuantities = countQuantities;
         _realQuantities = realQuantities;
+        _blockSize = blockSize;
         _paths = paths;
         _pathReplicates = paths is null ? 0 : pathReplicates;
-        _skip = skip;
+        _pathBlocksEnd = _pathReplicates / blockSize + (_pathReplicates % blockSize == 0 ? 0 : 1);
+        _runs = runs;
         _maxPending = 4 * threads;
-        Moments = new MomentAccumulator[gridPoints * realQuantities];
-        for (var m = 0; m < Moments.Length; m++) Moments[m] = new MomentAccumulator();
+        _next = firstBlock;
         SkipAhead();
     }
 
-    public MomentAccumulator[] Moments { get; }
-
-    public ReplicateBlock Rent(int blockSize, int countQuantities)
+    public ReplicateBlock Rent()
     {
         lock (_gate)
-            return _pool.Count > 0 ? _pool.Pop() : new ReplicateBlock(blockSize, _gridPoints, countQuantities, _realQuantities);
+            return _pool.Count > 0 ? _pool.Pop() : new ReplicateBlock(_blockSize, _gridPoints, _countQuantities, _realQuantities);
     }
 
     public void Return(ReplicateBlock block)
@@ -45,18 +58,36 @@ internal sealed class BlockSequencer
         lock (_gate) _pool.Push(block);
     }
 
-    public void Submit(ReplicateBlock block, CancellationToken cancel)
+    /// <summary>Takes a finished block: its paths are written now or once the blocks before it are in.</summary>
+    public void Submit(ReplicateBlock block)
     {
         lock (_gate)
         {
+            if (_closed) return;
+            if (block.Index >= _pathBlocksEnd)
+            {
+                _pool.Push(block);
+                return;
+            }
             _pending.Add(block.Index, block);
             Drain();
-            while (_pending.Count > _maxPending && !cancel.IsCancellationRequested)
+        }
+    }
+
+    /// <summary>Waits while too many blocks are pending, or until <paramref name="cancel"/> fires.</summary>
+    public void WaitForRoom(CancellationToken cancel)
+    {
+        lock (_gate)
+        {
+            while (_pending.Count > _maxPending && !cancel.IsCancellationRequested && !_closed)
                 Monitor.Wait(_gate, 100);
         }
     }
 
-    /// <summary>Processes whatever is still pending, in order, skipping gaps left by an interruption.</summary>
+    /// <summary>
+    /// Writes whatever is still pending, in order, skipping the gaps an interruption left; afterwards
+    /// blocks submitted by workers that were abandoned still running are ignored.
+    /// </summary>
     public void Flush()
     {
         lock (_gate)
@@ -66,6 +97,8 @@ internal sealed class BlockSequencer
                 _next = _pending.Keys.First();
                 Drain();
             }
+            _closed = true;
+            Monitor.PulseAll(_gate);
         }
     }
 
@@ -83,24 +116,16 @@ internal sealed class BlockSequencer
 
     private void SkipAhead()
     {
-        while (_skip.Contains(_next)) _next++;
+        while (_next < _pathBlocksEnd && !_runs(_next)) _next++;
     }
 
     private void Process(ReplicateBlock block)
     {
         for (var slot = 0; slot < block.Length; slot++)
         {
-            var points = block.RecordedPoints[slot];
-            if (_realQuantities > 0)
-            {
-                var baseIndex = (long)slot * _gridPoints * _realQuantities;
-                for (var k = 0; k < points; k++)
-                    for (var q = 0; q < _realQuantities; q++)
-                        Moments[k * _realQuantities + q].Add(block.Reals[baseIndex + k * _realQuantities + q]);
-            }
             var replicate = block.FirstReplicate + slot;
             if (replicate < _pathReplicates)
-                _paths!.Write(replicate, block.CountsOf(slot), block.CountStride, points);
+                _paths!.Write(replicate, block.CountsOf(slot), block.CountStride, block.RecordedPoints[slot]);
         }
     }
 }

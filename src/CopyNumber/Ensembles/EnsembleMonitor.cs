@@ -15,6 +15,23 @@ public sealed class EnsembleMonitor
     /// <summary>Reaction events fired so far in this run.</summary>
     public long EventsFired => Interlocked.Read(ref _eventsFired);
 
+    private long _blocksDone;
+
+    /// <summary>Blocks finished so far in this run (each counted once its replicates reached the summaries).</summary>
+    public long BlocksDone => Interlocked.Read(ref _blocksDone);
+
+    /// <summary>
+    /// Called on the worker thread each time a block has reached the summaries, with the block's index;
+    /// keep it short, it delays that worker. A caller can cancel the run from here.
+    /// </summary>
+    public Action<long>? BlockFinished { get; init; }
+
+    internal void AddBlock(long block)
+    {
+        Interlocked.Increment(ref _blocksDone);
+        BlockFinished?.Invoke(block);
+    }
+
     internal void AddReplicate(long events)
     {
         Interlocked.Increment(ref _replicatesDone);

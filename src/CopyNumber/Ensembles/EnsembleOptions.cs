@@ -31,8 +31,17 @@ public sealed record EnsembleOptions
     /// Replicates are handed out in blocks of this many; a block is the unit that is finished or, on
     /// interruption, dropped whole, so the finished replicates are always a known set of blocks.
     /// </summary>
-    public int BlockSize { get; init; } = 64;
+    public int BlockSize { get; init; } = DefaultBlockSize;
+
+    /// <summary>The block size runs use unless told otherwise.</summary>
+    public const int DefaultBlockSize = 64;
 
     /// <summary>Blocks already finished by an earlier, interrupted run; they are skipped.</summary>
     public IReadOnlySet<long> SkipBlocks { get; init; } = new HashSet<long>();
+
+    /// <summary>Which part of the run's blocks this process runs; <see cref="Shard.Whole"/> for all of them.</summary>
+    public Shard Shard { get; init; } = Shard.Whole;
+
+    /// <summary>B = ⌈<see cref="Replicates"/> / <see cref="BlockSize"/>⌉, the blocks of the whole run (all shards).</summary>
+    public long TotalBlocks => BlockRanges.BlocksFor(Replicates, BlockSize);
 }

@@ -4,19 +4,28 @@ namespace CopyNumber.Ensembles;
 
 /// <summary>
 /// The summaries of an ensemble: for every grid time and quantity, an exact histogram (counts) or
-/// moments (real readouts). Histograms add exactly, so the result does not depend on the thread count.
+/// moments (real readouts), over the replicate blocks finished. Histograms add exactly and real
+/// moments are combined in a fixed tree over the blocks (<see cref="MomentTree"/>), so the result
+/// does not depend on the thread count, and results over disjoint blocks combine
+/// (<see cref="Combine"/>) into exactly what one run over all of them gives.
 /// </summary>
 public sealed class EnsembleResult
 {
+    private readonly CountHistogram[] _histograms;
+    private MomentAccumulator[]? _moments;
+
     internal EnsembleResult(
         TimeGrid grid,
         IReadOnlyList<Quantity> quantities,
         CountHistogram[] histograms,
-        MomentAccumulator[] moments,
+        MomentTree momentTree,
         long replicatesFinished,
         long eventsFired,
         long replicatesStoppedEarly,
         IReadOnlyList<long> finishedBlocks,
+        int blockSize,
+        long replicatesRequested,
+        Shard shard,
         bool interrupted,
         TimeSpan wallTime)
     {
@@ -24,18 +33,20 @@ public sealed class EnsembleResult
         Quantities = quantities;
         CountQuantities = quantities.Where(q => q.IsCount).ToArray();
         RealQuantities = quantities.Where(q => !q.IsCount).ToArray();
+        if (histograms.Length != grid.Count * CountQuantities.Count) throw new ArgumentException("one histogram per grid point and count quantity is needed", nameof(histograms));
+        if (momentTree.Cells != grid.Count * RealQuantities.Count) throw new ArgumentException("the moment tree needs one cell per grid point and real readout", nameof(momentTree));
         _histograms = histograms;
-        _moments = moments;
+        MomentTree = momentTree;
         ReplicatesFinished = replicatesFinished;
         EventsFired = eventsFired;
         ReplicatesStoppedEarly = replicatesStoppedEarly;
         FinishedBlocks = finishedBlocks;
-        Interrupted = interrupted;
+        BlockSize = blockSize;
+        ReplicatesRequested = replicatesRequested;
+        Shard = shard;
         WallTime = wallTime;
+        Interrupted = interrupted;
     }
-
-    private readonly CountHistogram[] _histograms;
-    private readonly MomentAccumulator[] _moments;
 
     /// <summary>Recording times.</summary>
     public TimeGrid Grid { get; }
@@ -49,7 +60,7 @@ public sealed class EnsembleResult
     /// <summary>The real-valued readouts, with moments only.</summary>
     public IReadOnlyList<Quantity> RealQuantities { get; }
 
-    /// <summary>Replicates that ran to the end of the grid or stopped at a limit.</summary>
+    /// <summary>Replicates in the finished blocks: those that ran to the end of the grid or stopped at the event limit.</summary>
     public long ReplicatesFinished { get; }
 
     /// <summary>Reaction events fired over all finished replicates.</summary>
@@ -58,18 +69,92 @@ public sealed class EnsembleResult
     /// <summary>Replicates that stopped at the event limit before the final time; their later grid points are missing.</summary>
     public long ReplicatesStoppedEarly { get; }
 
-    /// <summary>Indices of the replicate blocks finished (sorted), for resuming an interrupted run.</summary>
+    /// <summary>Indices of the replicate blocks finished (sorted), for resuming an interrupted run or merging shards.</summary>
     public IReadOnlyList<long> FinishedBlocks { get; }
 
-    /// <summary>True when the run was cancelled before every replicate finished.</summary>
+    /// <summary>Replicates per block (the last block of the run may be shorter).</summary>
+    public int BlockSize { get; }
+
+    /// <summary>Replicates of the whole run, all shards together.</summary>
+    public long ReplicatesRequested { get; }
+
+    /// <summary>B, the blocks of the whole run.</summary>
+    public long TotalBlocks => MomentTree.TotalBlocks;
+
+    /// <summary>The part of the run this result is responsible for.</summary>
+    public Shard Shard { get; }
+
+    /// <summary>
+    /// True when a block this result was to hold is not finished: the run was cancelled, reached its
+    /// wall-clock limit or failed before the end (the blocks a run was told to skip do not count; a
+    /// combination was to hold every block of its <see cref="Shard"/>). The summaries then cover the
+    /// finished blocks only.
+    /// </summary>
     public bool Interrupted { get; }
 
-    /// <summary>Wall-clock duration of the run.</summary>
+    /// <summary>True when every block of the whole run is finished.</summary>
+    public bool IsComplete => FinishedBlocks.Count == TotalBlocks;
+
+    /// <summary>Wall-clock duration of the run (for a combination, the sum of its parts).</summary>
     public TimeSpan WallTime { get; }
+
+    /// <summary>The real readouts' moments over the finished blocks, in their fixed combination order.</summary>
+    public MomentTree MomentTree { get; }
 
     /// <summary>The histogram of count quantity <paramref name="countQuantity"/> (index into <see cref="CountQuantities"/>) at grid point <paramref name="gridIndex"/>.</summary>
     public CountHistogram Histogram(int gridIndex, int countQuantity) => _histograms[gridIndex * CountQuantities.Count + countQuantity];
 
     /// <summary>The moments of real quantity <paramref name="realQuantity"/> at grid point <paramref name="gridIndex"/>.</summary>
-    public MomentAccumulator Moments(int gridIndex, int realQuantity) => _moments[gridIndex * RealQuantities.Count + realQuantity];
+    public MomentAccumulator Moments(int gridIndex, int realQuantity)
+    {
+        _moments ??= MomentTree.Summarise();
+        return _moments[gridIndex * RealQuantities.Count + realQuantity];
+    }
+
+    /// <summary>
+    /// The result over the blocks of both <paramref name="first"/> and <paramref name="second"/>, which must
+    /// come from the same model, grid, seed and settings and share no block. Exact: histograms add and
+    /// real moments are combined in the same fixed tree one run over all the blocks uses, so the result
+    /// equals bit for bit that of one run. It is responsible for their common shard, or for the whole run
+    /// when they differ.
+    /// </summary>
+    /// <exception cref="ArgumentException">The results differ in shape or share a block.</exception>
+    public static EnsembleResult Combine(EnsembleResult first, EnsembleResult second)
+    {
+        ArgumentNullException.ThrowIfNull(first);
+        ArgumentNullException.ThrowIfNull(second);
+        if (first.Grid.Count != second.Grid.Count || first.Grid.Until != second.Grid.Until || first.Grid.Every != second.Grid.Every)
+            throw new ArgumentException("the results have different time grids", nameof(second));
+        if (!first.Quantities.Select(q => (q.Name, q.IsCount)).SequenceEqual(second.Quantities.Select(q => (q.Name, q.IsCount))))
+            throw new ArgumentException("the results report different quantities", nameof(second));
+        if (first.BlockSize != second.BlockSize || first.ReplicatesRequested != second.ReplicatesRequested)
+            throw new ArgumentException("the results come from runs of different sizes", nameof(second));
+        var shared = first.FinishedBlocks.Intersect(second.FinishedBlocks).Take(1).ToArray();
+        if (shared.Length > 0) throw new ArgumentException($"both results hold block {shared[0]}", nameof(second));
+
+        var histograms = new CountHistogram[first._histograms.Length];
+        for (var h = 0; h < histograms.Length; h++)
+        {
+            histograms[h] = new CountHistogram();
+            histograms[h].Merge(first._histograms[h]);
+            histograms[h].Merge(second._histograms[h]);
+        }
+        var tree = new MomentTree(first.TotalBlocks, first.MomentTree.Cells);
+        tree.AddCopiesOf(first.MomentTree);
+        tree.AddCopiesOf(second.MomentTree);
+        var finished = first.FinishedBlocks.Concat(second.FinishedBlocks).Order().ToArray();
+        var shard = first.Shard == second.Shard ? first.Shard : Shard.Whole;
+        return new EnsembleResult(
+            first.Grid, first.Quantities, histograms, tree,
+            first.ReplicatesFinished + second.ReplicatesFinished,
+            first.EventsFired + second.EventsFired,
+            first.ReplicatesStoppedEarly + second.ReplicatesStoppedEarly,
+            finished, first.BlockSize, first.ReplicatesRequested, shard,
+            !Covers(finished, shard.Blocks(first.TotalBlocks)),
+            first.WallTime + second.WallTime);
+    }
+
+    /// <summary>True when the sorted <paramref name="blocks"/> include every block of [First, End).</summary>
+    internal static bool Covers(IReadOnlyList<long> blocks, (long First, long End) range) =>
+        blocks.Count(b => b >= range.First && b < range.End) == range.End - range.First;
 }

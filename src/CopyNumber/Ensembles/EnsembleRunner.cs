@@ -11,15 +11,25 @@ namespace CopyNumber.Ensembles;
 /// the number of replicates.
 /// </summary>
 /// <remarks>
-/// Reproducibility: replicate r draws from <see cref="ReplicateStreams.For"/>(seed, r), so its path does
-/// not depend on which thread runs it. Histograms add exactly, so summaries are byte-identical for any
-/// thread count. Real-valued readouts (moments only) and paths are merged in block order by a
-/// sequencer, which makes them thread-count independent too.
+/// <para>Reproducibility: replicate r draws from <see cref="ReplicateStreams.For"/>(seed, r), so its path
+/// does not depend on which thread runs it. Histograms add exactly, real-valued readouts are combined in
+/// the fixed tree of <see cref="MomentTree"/>, and paths are handed over in replicate order, so
+/// summaries are byte-identical for any thread count, and a run split into an interrupted part and its
+/// resumption, or into shards, combines into exactly the unsplit run.</para>
+/// <para>Replicates are run in blocks (<see cref="EnsembleOptions.BlockSize"/>); a block reaches the
+/// summaries only whole. On cancellation workers stop at the next replicate, or inside a replicate at
+/// its next grid point; a worker still inside a replicate after <see cref="AbandonAfter"/> is left to
+/// finish on its own (its block is dropped), so the run returns promptly even when a single replicate
+/// is long.</para>
 /// </remarks>
 public static class EnsembleRunner
 {
+    /// <summary>How long after a cancellation the runner waits for workers before leaving them behind.</summary>
+    public static readonly TimeSpan AbandonAfter = TimeSpan.FromMilliseconds(500);
+
     /// <summary>Runs the ensemble; returns what finished, also when <paramref name="cancel"/> fires.</summary>
-    /// <exception cref="SimulationFailureException">A replicate failed (e.g. a rate law went negative); other workers stop.</exception>
+    /// <exception cref="ArgumentOutOfRangeException">An option is out of range.</exception>
+    /// <exception cref="EnsembleFailureException">A replicate failed (e.g. a rate law went negative); the other workers stopped, and the exception holds the blocks finished.</exception>
     public static EnsembleResult Run(
         ReactionNetwork network,
         EnsembleOptions options,
@@ -27,23 +37,32 @@ public static class EnsembleRunner
         EnsembleMonitor? monitor = null,
         CancellationToken cancel = default)
     {
+        ArgumentNullException.ThrowIfNull(network);
+        ArgumentNullException.ThrowIfNull(options);
         if (options.Replicates < 1) throw new ArgumentOutOfRangeException(nameof(options), "at least one replicate is needed");
         if (options.Threads < 1) throw new ArgumentOutOfRangeException(nameof(options), "at least one thread is needed");
+        if (options.BlockSize < 1) throw new ArgumentOutOfRangeException(nameof(options), "a block holds at least one replicate");
+        var totalBlocks = options.TotalBlocks;
+        if (!options.Shard.IsValid || options.Shard.Count > totalBlocks)
+            throw new ArgumentOutOfRangeException(nameof(options), $"shard {options.Shard} cannot be formed from {totalBlocks} blocks");
         monitor ??= new EnsembleMonitor();
         var clock = Stopwatch.StartNew();
         var quantities = Quantity.Of(network);
         var countQuantities = quantities.Count(q => q.IsCount);
         var realQuantities = quantities.Count - countQuantities;
         var grid = options.Grid;
-        var blockSize = options.BlockSize;
-        var blocks = (options.Replicates + blockSize - 1) / blockSize;
-        var needsSequencer = realQuantities > 0 || (paths is not null && options.PathReplicates > 0);
-        var sequencer = new BlockSequencer(grid.Count, realQuantities, paths, options.PathReplicates, options.SkipBlocks, options.Threads);
+        var (first, end) = options.Shard.Blocks(totalBlocks);
+        var skip = options.SkipBlocks;
+        bool Runs(long b) => b >= first && b < end && !skip.Contains(b);
+        var toRun = end - first - skip.Count(b => b >= first && b < end);
 
-        var workers = new Worker[Math.Min(options.Threads, (int)Math.Min(int.MaxValue, blocks))];
-        var nextBlock = -1L;
-        var failure = (Exception?)null;
-        using var stop = CancellationTokenSource.CreateLinkedTokenSource(cancel);
+        var tree = new MomentTree(totalBlocks, grid.Count * realQuantities);
+        var sequencer = new BlockSequencer(grid.Count, countQuantities, realQuantities, options.BlockSize, paths, options.PathReplicates, first, Runs, options.Threads);
+        var workers = new Worker[(int)Math.Clamp(toRun, 1, options.Threads)];
+        var position = first - 1;
+        var failures = new List<(long Replicate, Exception Cause)>();
+        var stop = CancellationTokenSource.CreateLinkedTokenSource(cancel);
+        var exited = new CountdownEvent(workers.Length);
 
         void Work(Worker worker)
         {
@@ -51,34 +70,78 @@ public static class EnsembleRunner
             {
                 while (!stop.IsCancellationRequested)
                 {
-                    var index = Interlocked.Increment(ref nextBlock);
-                    if (index >= blocks) break;
-                    if (options.SkipBlocks.Contains(index)) continue;
-                    var block = needsSequencer ? sequencer.Rent(blockSize, countQuantities) : worker.Block;
-                    if (!worker.RunBlock(block, index, options, stop.Token))
+                    long index;
+                    do index = Interlocked.Increment(ref position);
+                    while (index < end && skip.Contains(index));
+                    if (index >= end) break;
+                    var block = sequencer.Rent();
+                    if (!worker.RunBlock(block, index, options)) break;
+                    MomentAccumulator[]? leaf = null;
+                    if (realQuantities > 0)
                     {
-                        if (needsSequencer) sequencer.Return(block);
-                        break;
+                        lock (tree) leaf = tree.RentLeaf();
+                        BlockMoments(block, grid.Count, realQuantities, leaf);
                     }
-                    worker.Accumulate(block);
-                    lock (worker) worker.FinishedBlocks.Add(index);
-                    if (needsSequencer) sequencer.Submit(block, stop.Token);
+                    lock (worker)
+                    {
+                        // Finishing a block is one step with respect to abandonment: histograms, moments,
+                        // the list of finished blocks and the paths all take it, or none does.
+                        if (worker.Abandoned) break;
+                        worker.Accumulate(block, index);
+                        if (leaf is not null) lock (tree) tree.AddBlock(index, leaf);
+                        sequencer.Submit(block);
+                    }
+                    monitor.AddBlock(index);
+                    sequencer.WaitForRoom(stop.Token);
+                }
+                if (worker.Failure is { } failure)
+                {
+                    lock (failures) failures.Add(failure);
+                    stop.Cancel();
                 }
             }
             catch (Exception e)
             {
-                Interlocked.CompareExchange(ref failure, e, null);
+                lock (failures) failures.Add((-1, e));
                 stop.Cancel();
+            }
+            finally
+            {
+                lock (worker) worker.Exited = true;
+                exited.Signal();
             }
         }
 
         for (var w = 0; w < workers.Length; w++)
-            workers[w] = new Worker(network, options, grid, countQuantities, realQuantities, blockSize, monitor);
-        var threads = workers.Select(w => new Thread(() => Work(w)) { IsBackground = true, Name = "copynumber-ensemble" }).ToArray();
-        foreach (var t in threads) t.Start();
-        foreach (var t in threads) t.Join();
-        if (failure is not null) throw failure is SimulationFailureException ? failure : new AggregateException(failure);
+            workers[w] = new Worker(network, options, countQuantities, monitor, stop.Token);
+        foreach (var worker in workers)
+            new Thread(() => Work(worker)) { IsBackground = true, Name = "copynumber-ensemble" }.Start();
+        WaitHandle.WaitAny([exited.WaitHandle, stop.Token.WaitHandle]);
+        if (!exited.IsSet) exited.Wait(AbandonAfter);
+        var abandoned = false;
+        foreach (var worker in workers)
+        {
+            lock (worker)
+            {
+                if (worker.Exited) continue;
+                worker.Abandoned = true;
+                abandoned = true;
+            }
+        }
         sequencer.Flush();
+        // A worker left behind still holds the token source and may rent leaves from the tree, so both
+        // stay with it: the source is not disposed and the result gets a copy of the tree.
+        if (abandoned)
+        {
+            var copy = new MomentTree(totalBlocks, tree.Cells);
+            lock (tree) copy.AddCopiesOf(tree);
+            tree = copy;
+        }
+        else
+        {
+            stop.Dispose();
+            exited.Dispose();
+        }
 
         // Exact merge: histograms add, so the order of workers does not matter.
         var histograms = new CountHistogram[grid.Count * countQuantities];
@@ -87,13 +150,31 @@ public static class EnsembleRunner
             histograms[h] = new CountHistogram();
             foreach (var worker in workers) histograms[h].Merge(worker.Histograms[h]);
         }
-        var finished = workers.SelectMany(w => w.FinishedBlocks).Concat(options.SkipBlocks).Order().ToArray();
-        var replicatesFinished = workers.Sum(w => w.Replicates);
-        var interrupted = workers.Sum(w => w.FinishedBlocks.Count) + options.SkipBlocks.Count < blocks;
-        return new EnsembleResult(
-            grid, quantities, histograms, sequencer.Moments,
-            replicatesFinished, workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
-            finished, interrupted, clock.Elapsed);
+        // The result holds the blocks run here; skipped blocks are someone else's (an earlier run's).
+        var finished = workers.SelectMany(w => w.FinishedBlocks).Order().ToArray();
+        var result = new EnsembleResult(
+            grid, quantities, histograms, tree,
+            workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
+            finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed);
+        List<(long Replicate, Exception Cause)> failed;
+        lock (failures) failed = failures.ToList();
+        if (failed.Count == 0) return result;
+        // Report the earliest replicate that failed, so a rerun points at the same one when it can.
+        var (replicate, cause) = failed.OrderBy(f => f.Replicate < 0 ? long.MaxValue : f.Replicate).First();
+        throw new EnsembleFailureException(replicate, cause, result);
+    }
+
+    /// <summary>Each replicate's real readouts added in replicate order: the leaf of the moment tree for this block.</summary>
+    private static void BlockMoments(ReplicateBlock block, int gridPoints, int realQuantities, MomentAccumulator[] leaf)
+    {
+        for (var slot = 0; slot < block.Length; slot++)
+        {
+            var points = block.RecordedPoints[slot];
+            var baseIndex = (long)slot * gridPoints * realQuantities;
+            for (var k = 0; k < points; k++)
+                for (var q = 0; q < realQuantities; q++)
+                    leaf[k * realQuantities + q].Add(block.Reals[baseIndex + k * realQuantities + q]);
+        }
     }
 
     /// <summary>One thread's simulator, observer, histograms and counters.</summary>
@@ -102,47 +183,63 @@ public static class EnsembleRunner
         private readonly IStochasticSimulator _simulator;
         private readonly BlockObserver _observer;
         private readonly EnsembleMonitor _monitor;
-        private readonly ulong _seed;
-        private readonly long _replicates;
+        private readonly TimeGrid _grid;
+        private long _pendingEvents;
+        private long _pendingStoppedEarly;
 
-        public Worker(ReactionNetwork network, EnsembleOptions options, TimeGrid grid, int countQuantities, int realQuantities, int blockSize, EnsembleMonitor monitor)
+        public Worker(ReactionNetwork network, EnsembleOptions options, int countQuantities, EnsembleMonitor monitor, CancellationToken cancel)
         {
             _simulator = SimulatorFactory.Create(options.Method, network, options.Simulator);
-            _observer = new BlockObserver(network);
+            _observer = new BlockObserver(network, cancel);
             _monitor = monitor;
-            _seed = options.Seed;
-            _replicates = options.Replicates;
-            Grid = grid;
-            Block = new ReplicateBlock(blockSize, grid.Count, countQuantities, realQuantities);
-            Histograms = new CountHistogram[grid.Count * countQuantities];
+            _grid = options.Grid;
+            Cancel = cancel;
+            Histograms = new CountHistogram[options.Grid.Count * countQuantities];
             for (var h = 0; h < Histograms.Length; h++) Histograms[h] = new CountHistogram();
         }
 
-        public TimeGrid Grid { get; }
-        public ReplicateBlock Block { get; }
+        public CancellationToken Cancel { get; }
         public CountHistogram[] Histograms { get; }
         public List<long> FinishedBlocks { get; } = [];
         public long Replicates { get; private set; }
         public long Events { get; private set; }
         public long StoppedEarly { get; private set; }
+        public (long Replicate, Exception Cause)? Failure { get; private set; }
 
-        private long _pendingEvents;
-        private long _pendingStoppedEarly;
+        /// <summary>Set (under the worker's lock) once the thread has left its loop.</summary>
+        public bool Exited { get; set; }
 
-        /// <summary>Runs every replicate of a block; false when cancelled part-way (the block is then dropped).</summary>
-        public bool RunBlock(ReplicateBlock block, long index, EnsembleOptions options, CancellationToken cancel)
+        /// <summary>Set (under the worker's lock) when the run returned without this worker; it must then touch nothing shared.</summary>
+        public bool Abandoned { get; set; }
+
+        /// <summary>Runs every replicate of a block; false when cancelled or failed part-way (the block is then dropped).</summary>
+        public bool RunBlock(ReplicateBlock block, long index, EnsembleOptions options)
         {
             block.Index = index;
             block.FirstReplicate = index * options.BlockSize;
-            block.Length = (int)Math.Min(options.BlockSize, _replicates - block.FirstReplicate);
+            block.Length = (int)Math.Min(options.BlockSize, options.Replicates - block.FirstReplicate);
             _pendingEvents = 0;
             _pendingStoppedEarly = 0;
             for (var slot = 0; slot < block.Length; slot++)
             {
-                if (cancel.IsCancellationRequested) return false;
-                var rng = ReplicateStreams.For(_seed, block.FirstReplicate + slot);
+                if (Cancel.IsCancellationRequested) return false;
+                var replicate = block.FirstReplicate + slot;
+                var rng = ReplicateStreams.For(options.Seed, replicate);
                 _observer.Begin(block, slot);
-                var result = _simulator.Run(ref rng, Grid, _observer);
+                ReplicateResult result;
+                try
+                {
+                    result = _simulator.Run(ref rng, _grid, _observer);
+                }
+                catch (ReplicateAbandoned)
+                {
+                    return false;
+                }
+                catch (Exception e)
+                {
+                    Failure = (replicate, e);
+                    return false;
+                }
                 _pendingEvents += result.Events;
                 if (result.HitEventLimit) _pendingStoppedEarly++;
                 _monitor.AddReplicate(result.Events);
@@ -150,7 +247,7 @@ public static class EnsembleRunner
             return true;
         }
 
-        public void Accumulate(ReplicateBlock block)
+        public void Accumulate(ReplicateBlock block, long index)
         {
             var stride = block.CountStride;
             for (var slot = 0; slot < block.Length; slot++)
@@ -164,6 +261,7 @@ public static class EnsembleRunner
             Replicates += block.Length;
             Events += _pendingEvents;
             StoppedEarly += _pendingStoppedEarly;
+            FinishedBlocks.Add(index);
         }
     }
 }

@@ -90,6 +90,33 @@ public sealed class MomentAccumulator
         _count = total;
     }
 
+    /// <summary>Everything the accumulator holds, exactly, for storing it and restoring it later with <see cref="FromState"/>.</summary>
+    public MomentState State => new(_count, _nonFinite, _mean, _squaredDeviations, _minimum, _maximum);
+
+    /// <summary>An accumulator holding exactly <paramref name="state"/>, as read back from a stored run.</summary>
+    /// <exception cref="ArgumentException">The state is not one an accumulator can be in (see <see cref="MomentState"/>).</exception>
+    public static MomentAccumulator FromState(MomentState state)
+    {
+        var problem = state.Problem();
+        if (problem is not null) throw new ArgumentException($"not a moment accumulator's state: {problem}", nameof(state));
+        var accumulator = new MomentAccumulator();
+        accumulator.Restore(state);
+        return accumulator;
+    }
+
+    /// <summary>Becomes an exact copy of <paramref name="other"/>.</summary>
+    internal void CopyFrom(MomentAccumulator other) => Restore(other.State);
+
+    private void Restore(MomentState state)
+    {
+        _count = state.Count;
+        _nonFinite = state.NonFiniteCount;
+        _mean = state.Mean;
+        _squaredDeviations = state.SquaredDeviations;
+        _minimum = state.Minimum;
+        _maximum = state.Maximum;
+    }
+
     /// <summary>Forgets every observation.</summary>
     public void Clear()
     {

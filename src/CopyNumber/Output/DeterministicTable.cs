@@ -1,4 +1,5 @@
 using CopyNumber.Deterministic;
+using CopyNumber.Network;
 
 namespace CopyNumber.Output;
 
@@ -21,5 +22,22 @@ public static class DeterministicTable
         }
         writer.WriteRowGroup(data);
         writer.Complete();
+    }
+
+    /// <summary>Reads back a table <see cref="Write"/> wrote for a run on <paramref name="grid"/> whose model has <paramref name="speciesCount"/> species.</summary>
+    /// <exception cref="RunFolderException">The file is unreadable or does not fit the grid.</exception>
+    internal static DeterministicSolution Read(string path, TimeGrid grid, int speciesCount)
+    {
+        using var reader = ParquetTableReader.Open(path);
+        var columns = reader.ColumnNames.Skip(1).ToArray();
+        var time = reader.Doubles("time");
+        if (time.Length != grid.Count || time.Where((t, k) => t != grid[k]).Any()) throw reader.Damaged("its times are not those of the run's grid");
+        var values = new double[grid.Count, columns.Length];
+        for (var c = 0; c < columns.Length; c++)
+        {
+            var column = reader.Doubles(columns[c]);
+            for (var k = 0; k < grid.Count; k++) values[k, c] = column[k];
+        }
+        return new DeterministicSolution(grid, columns, speciesCount, values, new OdeStatistics());
     }
 }

@@ -5,7 +5,9 @@ namespace CopyNumber.Output;
 
 /// <summary>
 /// <c>moments.parquet</c>: one row per (time, species or readout) with the ensemble statistics and the
-/// rate-equation value at that time. Real-valued readouts have no quantiles or p_zero (NaN).
+/// rate-equation value at that time. Real-valued readouts have no quantiles or p_zero (NaN); a time no
+/// replicate reached (an interrupted run with nothing finished, or every replicate stopped early) has
+/// replicates 0 and NaN statistics.
 /// </summary>
 public static class MomentsTable
 {
@@ -46,7 +48,14 @@ public static class MomentsTable
                     time[row] = result.Grid[k];
                     name[row] = quantities[q].Name;
                     double[] values;
-                    if (quantities[q].IsCount)
+                    if (quantities[q].IsCount && result.Histogram(k, countIndex).IsEmpty)
+                    {
+                        // No replicate recorded this time (none finished yet, or all stopped early).
+                        countIndex++;
+                        replicates[row] = 0;
+                        values = Enumerable.Repeat(double.NaN, 13).ToArray();
+                    }
+                    else if (quantities[q].IsCount)
                     {
                         var s = DistributionSummary.From(result.Histogram(k, countIndex++));
                         replicates[row] = s.Replicates;

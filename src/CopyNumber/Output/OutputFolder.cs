@@ -40,7 +40,7 @@ public static class OutputFolder
         {
             var full = AtomicFile.FullPath(Path.Combine(baseDirectory, requested));
             if (HoldsAnything(full) && !force)
-                throw new OutputException($"The output folder '{full}' already exists and is not empty; choose a new folder or allow writing into it.", full);
+                throw new OutputException($"The output folder '{full}' already exists and is not empty; choose a new folder or allow writing into it.", full, refused: true);
             return Create(full);
         }
 
@@ -52,7 +52,7 @@ public static class OutputFolder
             if (!HoldsAnything(full)) return Create(full);
         }
         var first = AtomicFile.FullPath(Path.Combine(baseDirectory, baseName));
-        throw new OutputException($"The output folder '{first}' and its numbered variants up to -{MaxSuffix} all exist already; name an output folder explicitly.", first);
+        throw new OutputException($"The output folder '{first}' and its numbered variants up to -{MaxSuffix} all exist already; name an output folder explicitly.", first, refused: true);
     }
 
     /// <summary>The default folder name <c>&lt;model&gt;-&lt;yyyyMMdd-HHmmss&gt;</c> for a run of <paramref name="modelName"/> started at <paramref name="start"/>.</summary>
@@ -71,7 +71,7 @@ public static class OutputFolder
 
     private static bool HoldsAnything(string full)
     {
-        if (File.Exists(full)) throw new OutputException($"The output folder '{full}' is an existing file.", full);
+        if (File.Exists(full)) throw new OutputException($"The output folder '{full}' is an existing file.", full, refused: true);
         try
         {
             return Directory.Exists(full) && Directory.EnumerateFileSystemEntries(full).Any();

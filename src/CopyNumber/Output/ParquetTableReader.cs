@@ -1,100 +1,131 @@
 using Parquet;
+using Parquet.Schema;
 
 namespace CopyNumber.Output;
 
-/// <summary>A whole Parquet table read back into memory: columns by name and the footer's key-value metadata.</summary>
-public sealed class ParquetTable
+/// <summary>
+/// Reads back the tables this tool writes: required DOUBLE, INT64 and UTF-8 columns, by name, a row
+/// group or the whole file at a time. A synchronous facade over Parquet.Net, like
+/// <see cref="ParquetTableWriter"/>. Any problem — a missing file, a file that is not Parquet, a
+/// missing column — becomes a <see cref="RunFolderException"/> naming the file, since these files are
+/// read only to resume or merge runs.
+/// </summary>
+internal sealed class ParquetTableReader : IDisposable
 {
-    private readonly Dictionary<string, Array> _columns;
+    private readonly FileStream _stream;
+    private readonly ParquetReader _reader;
+    private readonly Dictionary<string, DataField> _fields;
 
-    private ParquetTable(Dictionary<string, Array> columns, IReadOnlyDictionary<string, string> metadata, long rows)
+    private ParquetTableReader(string path, FileStream stream, ParquetReader reader)
     {
-        _columns = columns;
-        Metadata = metadata;
-        Rows = rows;
+        Path = path;
+        _stream = stream;
+        _reader = reader;
+        _fields = reader.Schema.GetDataFields().ToDictionary(f => f.Name, StringComparer.Ordinal);
+        Metadata = reader.CustomMetadata ?? new Dictionary<string, string>();
     }
 
-    /// <summary>Key-value metadata of the file footer.</summary>
+    /// <summary>The file, as a full path.</summary>
+    public string Path { get; }
+
+    /// <summary>The footer's key-value metadata.</summary>
     public IReadOnlyDictionary<string, string> Metadata { get; }
 
-    /// <summary>Number of rows.</summary>
-    public long Rows { get; }
-
     /// <summary>Column names in file order.</summary>
-    public IReadOnlyCollection<string> ColumnNames => _columns.Keys;
+    public IReadOnlyList<string> ColumnNames => _reader.Schema.GetDataFields().Select(f => f.Name).ToArray();
 
-    /// <summary>A column's values (double[], long[] or string[]).</summary>
-    /// <exception cref="OutputException">The table has no such column or it has another type.</exception>
-    public T[] Column<T>(string name) =>
-        _columns.TryGetValue(name, out var values) && values is T[] typed
-            ? typed
-            : throw new OutputException($"the table has no {typeof(T).Name} column '{name}'", name);
+    /// <summary>Row groups in the file.</summary>
+    public int RowGroups => _reader.RowGroupCount;
 
-    /// <summary>Reads every row group of <paramref name="path"/>.</summary>
-    /// <exception cref="OutputException">The file is missing or not a Parquet table.</exception>
-    public static ParquetTable Read(string path)
+    /// <summary>Opens <paramref name="path"/>.</summary>
+    /// <exception cref="RunFolderException">The file is missing or not a readable Parquet file.</exception>
+    public static ParquetTableReader Open(string path)
+    {
+        var full = AtomicFile.FullPath(path);
+        FileStream? stream = null;
+        try
+        {
+            stream = new FileStream(full, FileMode.Open, FileAccess.Read, FileShare.Read);
+            var opened = stream;
+            var reader = Synchronously.Run(() => ParquetReader.CreateAsync(opened));
+            return new ParquetTableReader(full, stream, reader);
+        }
+        catch (Exception e) when (e is not RunFolderException)
+        {
+            stream?.Dispose();
+            var why = e is FileNotFoundException or DirectoryNotFoundException ? "the file is missing" : e.Message.TrimEnd('.');
+            throw new RunFolderException($"Cannot read '{full}': {why}.", System.IO.Path.GetDirectoryName(full) ?? full, e);
+        }
+    }
+
+    /// <summary>The value of metadata key <paramref name="key"/>.</summary>
+    /// <exception cref="RunFolderException">The key is absent.</exception>
+    public string Require(string key) =>
+        Metadata.TryGetValue(key, out var value) ? value : throw Damaged($"it has no '{key}' entry in its metadata");
+
+    /// <summary>Every value of DOUBLE column <paramref name="name"/>, over all row groups.</summary>
+    /// <exception cref="RunFolderException">The column is missing or of another type.</exception>
+    public double[] Doubles(string name) => All(name, Doubles);
+
+    /// <summary>Every value of INT64 column <paramref name="name"/>, over all row groups.</summary>
+    /// <exception cref="RunFolderException">The column is missing or of another type.</exception>
+    public long[] Longs(string name) => All(name, Longs);
+
+    /// <summary>Every value of string column <paramref name="name"/>, over all row groups.</summary>
+    /// <exception cref="RunFolderException">The column is missing or of another type.</exception>
+    public string[] Strings(string name) => All(name, Strings);
+
+    /// <summary>The values of DOUBLE column <paramref name="name"/> in row group <paramref name="group"/>.</summary>
+    public double[] Doubles(string name, int group) =>
+        Read<double>(name, group, (rows, field, values) => rows.ReadAsync(field, new Memory<double>(values)).AsTask());
+
+    /// <summary>The values of INT64 column <paramref name="name"/> in row group <paramref name="group"/>.</summary>
+    public long[] Longs(string name, int group) =>
+        Read<long>(name, group, (rows, field, values) => rows.ReadAsync(field, new Memory<long>(values)).AsTask());
+
+    /// <summary>The values of string column <paramref name="name"/> in row group <paramref name="group"/>.</summary>
+    public string[] Strings(string name, int group) =>
+        Read<string>(name, group, (rows, field, values) => rows.ReadAsync(field, new Memory<string?>(values!)).AsTask());
+
+    private T[] All<T>(string name, Func<string, int, T[]> readGroup)
+    {
+        var parts = new T[RowGroups][];
+        for (var g = 0; g < parts.Length; g++) parts[g] = readGroup(name, g);
+        return parts.Length == 1 ? parts[0] : parts.SelectMany(p => p).ToArray();
+    }
+
+    private T[] Read<T>(string name, int group, Func<ParquetRowGroupReader, DataField, T[], Task> read)
+    {
+        if (!_fields.TryGetValue(name, out var field)) throw Damaged($"it has no column '{name}'");
+        // Parquet.Net describes UTF-8 columns as ReadOnlyMemory<char>; they read into strings all the same.
+        var fits = field.ClrType == typeof(T) || (typeof(T) == typeof(string) && field.ClrType == typeof(ReadOnlyMemory<char>));
+        if (!fits || field.IsNullable) throw Damaged($"its column '{name}' is not a required {(typeof(T) == typeof(string) ? "text" : typeof(T).Name)} column");
+        try
+        {
+            using var rowGroup = _reader.OpenRowGroupReader(group);
+            var values = new T[checked((int)rowGroup.RowCount)];
+            Synchronously.Run(() => read(rowGroup, field, values));
+            return values;
+        }
+        catch (Exception e) when (e is not RunFolderException)
+        {
+            throw Damaged($"its column '{name}' cannot be read ({e.Message.TrimEnd('.')})", e);
+        }
+    }
+
+    /// <summary>An exception saying this file is not what it should be.</summary>
+    public RunFolderException Damaged(string why, Exception? inner = null) =>
+        new($"'{Path}' cannot be used: {why}.", System.IO.Path.GetDirectoryName(Path) ?? Path, inner);
+
+    public void Dispose()
     {
         try
         {
-            return ReadAsync(path).GetAwaiter().GetResult();
+            Synchronously.Run(async () => await _reader.DisposeAsync());
         }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException or InvalidDataException or NotSupportedException or ArgumentException)
+        finally
         {
-            throw new OutputException($"Cannot read '{path}': {e.Message}", path, e);
+            _stream.Dispose();
         }
-    }
-
-    private static async Task<ParquetTable> ReadAsync(string path)
-    {
-        await using var stream = File.OpenRead(path);
-        await using var reader = await ParquetReader.CreateAsync(stream).ConfigureAwait(false);
-        var fields = reader.Schema.GetDataFields();
-        var parts = fields.ToDictionary(f => f.Name, _ => new List<Array>());
-        long rows = 0;
-        for (var g = 0; g < reader.RowGroupCount; g++)
-        {
-            using var group = reader.OpenRowGroupReader(g);
-            rows += group.RowCount;
-            var count = checked((int)group.RowCount);
-            foreach (var field in fields)
-            {
-                Array values;
-                if (field.ClrType == typeof(double))
-                {
-                    var buffer = new double[count];
-                    await group.ReadAsync<double>(field, buffer.AsMemory(), null).ConfigureAwait(false);
-                    values = buffer;
-                }
-                else if (field.ClrType == typeof(long))
-                {
-                    var buffer = new long[count];
-                    await group.ReadAsync<long>(field, buffer.AsMemory(), null).ConfigureAwait(false);
-                    values = buffer;
-                }
-                else if (field.ClrType == typeof(string) || field.ClrType == typeof(ReadOnlyMemory<char>))
-                {
-                    var buffer = new string?[count];
-                    await group.ReadAsync(field, buffer.AsMemory(), null).ConfigureAwait(false);
-                    values = buffer.Select(v => v ?? "").ToArray();
-                }
-                else throw new InvalidDataException($"column '{field.Name}' has type {field.ClrType.Name}, which CopyNumber tables never use");
-                parts[field.Name].Add(values);
-            }
-        }
-        var columns = new Dictionary<string, Array>(StringComparer.Ordinal);
-        foreach (var field in fields)
-        {
-            var pieces = parts[field.Name];
-            var type = pieces.Count > 0 ? pieces[0].GetType().GetElementType()! : field.ClrType;
-            var all = Array.CreateInstance(type, pieces.Sum(p => p.Length));
-            var at = 0;
-            foreach (var piece in pieces)
-            {
-                piece.CopyTo(all, at);
-                at += piece.Length;
-            }
-            columns[field.Name] = all;
-        }
-        return new ParquetTable(columns, new Dictionary<string, string>(reader.CustomMetadata ?? new Dictionary<string, string>()), rows);
     }
 }

@@ -73,7 +73,7 @@ public sealed class ParquetTableWriter : IAsyncDisposable, IDisposable
             stream = openTemporary(temporary);
             var parquetSchema = new Parquet.Schema.ParquetSchema(schema.Fields);
             var opened = stream;
-            var parquet = RunSynchronously(() => ParquetWriter.CreateAsync(parquetSchema, opened));
+            var parquet = Synchronously.Run(() => ParquetWriter.CreateAsync(parquetSchema, opened));
             parquet.CustomMetadata = copy;
             return new ParquetTableWriter(finalPath, temporary, schema, copy, stream, parquet);
         }
@@ -131,7 +131,7 @@ public sealed class ParquetTableWriter : IAsyncDisposable, IDisposable
         Guarded(() =>
         {
             parquet.CustomMetadata = _metadata;
-            RunSynchronously(async () => await parquet.DisposeAsync());
+            Synchronously.Run(async () => await parquet.DisposeAsync());
             _parquet = null;
             if (stream is FileStream file) file.Flush(flushToDisk: true);
             else stream.Flush();
@@ -162,7 +162,7 @@ public sealed class ParquetTableWriter : IAsyncDisposable, IDisposable
         if (rowCount == 0) return;
         var parquet = _parquet!;
         var fields = _schema.Fields;
-        Guarded(() => RunSynchronously(async () =>
+        Guarded(() => Synchronously.Run(async () =>
         {
             using var group = parquet.CreateRowGroup();
             for (var i = 0; i < fields.Length; i++)
@@ -220,7 +220,7 @@ public sealed class ParquetTableWriter : IAsyncDisposable, IDisposable
         {
             try
             {
-                RunSynchronously(async () => await parquet.DisposeAsync());
+                Synchronously.Run(async () => await parquet.DisposeAsync());
             }
             catch (Exception)
             {
@@ -254,25 +254,4 @@ public sealed class ParquetTableWriter : IAsyncDisposable, IDisposable
         if (string.IsNullOrEmpty(key)) throw new ArgumentException("a metadata key must not be empty", nameof(key));
         if (value is null) throw new ArgumentException($"metadata key '{key}' has no value", nameof(value));
     }
-
-    private static T RunSynchronously<T>(Func<Task<T>> operation)
-    {
-        var saved = SynchronizationContext.Current;
-        SynchronizationContext.SetSynchronizationContext(null);
-        try
-        {
-            return operation().GetAwaiter().GetResult();
-        }
-        finally
-        {
-            SynchronizationContext.SetSynchronizationContext(saved);
-        }
-    }
-
-    private static void RunSynchronously(Func<Task> operation) =>
-        RunSynchronously(async () =>
-        {
-            await operation();
-            return true;
-        });
 }

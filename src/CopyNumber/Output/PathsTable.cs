@@ -24,11 +24,14 @@ public sealed class PathsTable : IPathSink, IDisposable
         _grid = grid;
         _species = network.Species.Count;
         _counts = Enumerable.Range(0, _species).Select(_ => new long[RowsPerGroup]).ToArray();
-        var columns = network.Species.Select(s => new ColumnSpec(s, ColumnType.Int64))
+        _writer = ParquetTableWriter.Create(path, ColumnsFor(network), metadata);
+    }
+
+    /// <summary>The table's columns for <paramref name="network"/>: replicate, time, then a count per species.</summary>
+    public static IReadOnlyList<ColumnSpec> ColumnsFor(ReactionNetwork network) =>
+        network.Species.Select(s => new ColumnSpec(s, ColumnType.Int64))
             .Prepend(new ColumnSpec("time", ColumnType.Double))
             .Prepend(new ColumnSpec("replicate", ColumnType.Int64)).ToArray();
-        _writer = ParquetTableWriter.Create(path, columns, metadata);
-    }
 
     /// <summary>Rows written or buffered so far.</summary>
     public long Rows => _writer.RowsWritten + _rows;

@@ -28,10 +28,13 @@ public sealed record QuantitySeries(
 public sealed class RunFolder
 {
     private readonly Dictionary<(string Quantity, int TimeIndex), (long[] Counts, double[] Probabilities)> _distributions;
-    private readonly ParquetTable? _paths;
+    private readonly PathColumns? _paths;
+
+    /// <summary>The columns of paths.parquet, read once.</summary>
+    private sealed record PathColumns(long[] Replicate, double[] Time, IReadOnlyDictionary<string, long[]> Species);
 
     private RunFolder(string path, RunManifest manifest, string modelText, double[] times, IReadOnlyList<QuantitySeries> quantities,
-        Dictionary<(string, int), (long[], double[])> distributions, ParquetTable? paths)
+        Dictionary<(string, int), (long[], double[])> distributions, PathColumns? paths)
     {
         Path = path;
         Manifest = manifest;
@@ -67,10 +70,9 @@ public sealed class RunFolder
     /// <summary>Up to <paramref name="count"/> sample paths of a species, each aligned with <see cref="Times"/> (NaN where not recorded).</summary>
     public IReadOnlyList<double[]> SamplePaths(string species, int count)
     {
-        if (_paths is null || !_paths.ColumnNames.Contains(species)) return [];
-        var replicate = _paths.Column<long>("replicate");
-        var time = _paths.Column<double>("time");
-        var values = _paths.Column<long>(species);
+        if (_paths is null || !_paths.Species.TryGetValue(species, out var values)) return [];
+        var replicate = _paths.Replicate;
+        var time = _paths.Time;
         var index = Times.Select((t, k) => (t, k)).ToDictionary(p => p.t, p => p.k);
         var result = new List<double[]>();
         var current = -1L;
@@ -95,18 +97,18 @@ public sealed class RunFolder
     {
         if (!Directory.Exists(folder)) throw new OutputException($"'{folder}' is not a folder", folder);
         var manifest = RunManifest.Read(System.IO.Path.Combine(folder, SimulationRun.ManifestFile));
-        var moments = ParquetTable.Read(System.IO.Path.Combine(folder, SimulationRun.MomentsFile));
+        using var moments = ParquetTableReader.Open(System.IO.Path.Combine(folder, SimulationRun.MomentsFile));
         if (!moments.Metadata.TryGetValue(Provenance.ModelTextKey, out var modelText))
             throw new OutputException($"'{folder}/{SimulationRun.MomentsFile}' carries no model text in its metadata", folder);
 
-        var time = moments.Column<double>("time");
-        var name = moments.Column<string>("species");
+        var time = moments.Doubles("time");
+        var name = moments.Strings("species");
         var times = time.Distinct().ToArray();
         var timeIndex = times.Select((t, k) => (t, k)).ToDictionary(p => p.t, p => p.k);
         var names = name.Distinct().ToArray();
         var columns = new[] { "mean", "variance", "std_error", "q05", "q95", "p_zero", "deterministic" }
-            .Select(c => moments.Column<double>(c)).ToArray();
-        var replicates = moments.Column<long>("replicates");
+            .Select(c => moments.Doubles(c)).ToArray();
+        var replicates = moments.Longs("replicates");
         var series = names.Select(n => new
         {
             Name = n,
@@ -125,11 +127,16 @@ public sealed class RunFolder
             .ToArray();
 
         var distributions = new Dictionary<(string, int), (long[], double[])>();
-        var table = ParquetTable.Read(System.IO.Path.Combine(folder, SimulationRun.DistributionsFile));
-        var dTime = table.Column<double>("time");
-        var dName = table.Column<string>("species");
-        var dCount = table.Column<long>("count");
-        var dProbability = table.Column<double>("probability");
+        double[] dTime, dProbability;
+        string[] dName;
+        long[] dCount;
+        using (var table = ParquetTableReader.Open(System.IO.Path.Combine(folder, SimulationRun.DistributionsFile)))
+        {
+            dTime = table.Doubles("time");
+            dName = table.Strings("species");
+            dCount = table.Longs("count");
+            dProbability = table.Doubles("probability");
+        }
         for (var start = 0; start < dTime.Length;)
         {
             var end = start;
@@ -139,7 +146,13 @@ public sealed class RunFolder
         }
 
         var pathsFile = System.IO.Path.Combine(folder, SimulationRun.PathsFile);
-        var paths = File.Exists(pathsFile) ? ParquetTable.Read(pathsFile) : null;
+        PathColumns? paths = null;
+        if (File.Exists(pathsFile))
+        {
+            using var table = ParquetTableReader.Open(pathsFile);
+            var speciesColumns = table.ColumnNames.Where(c => c is not ("replicate" or "time")).ToDictionary(c => c, c => table.Longs(c));
+            paths = new PathColumns(table.Longs("replicate"), table.Doubles("time"), speciesColumns);
+        }
         return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths);
     }
 }

@@ -96,6 +96,24 @@ public sealed class RunManifest
     [JsonExtensionData]
     public Dictionary<string, object?> Extra { get; set; } = new(StringComparer.Ordinal);
 
+    /// <summary>
+    /// The extra field <paramref name="key"/> as text (a JSON string as it is, a number in its JSON
+    /// spelling), or null when it is absent or not a string or number.
+    /// </summary>
+    public string? ExtraText(string key)
+    {
+        if (!Extra.TryGetValue(key, out var value) || value is null) return null;
+        return value switch
+        {
+            JsonElement { ValueKind: JsonValueKind.String } e => e.GetString(),
+            JsonElement { ValueKind: JsonValueKind.Number } e => e.GetRawText(),
+            JsonElement => null,
+            string text => text,
+            IFormattable number => number.ToString(null, System.Globalization.CultureInfo.InvariantCulture),
+            _ => null,
+        };
+    }
+
     /// <summary>The manifest as indented JSON.</summary>
     /// <exception cref="InvalidOperationException"><see cref="WallSeconds"/> is negative or not finite, or an <see cref="Extra"/> key repeats a fixed field.</exception>
     public string ToJson()

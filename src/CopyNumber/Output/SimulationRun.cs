@@ -7,10 +7,10 @@ namespace CopyNumber.Output;
 
 /// <summary>Everything one <c>simulate</c> run needs: the model, the ensemble settings and where to write.</summary>
 /// <param name="Model">The loaded model.</param>
-/// <param name="Ensemble">Ensemble settings (grid, replicates, seed, method, threads, paths).</param>
-/// <param name="Folder">An existing, empty output folder.</param>
+/// <param name="Ensemble">Ensemble settings (grid, replicates, seed, method, threads, paths, shard).</param>
+/// <param name="Folder">An existing, empty output folder; or, with <see cref="Resume"/>, the folder of the run to continue.</param>
 /// <param name="Solver">Settings for the rate-equation solution computed beside the ensemble.</param>
-/// <param name="Arguments">The run's settings as text, for provenance.</param>
+/// <param name="Arguments">The run's settings as text, for provenance; the shard is added when absent.</param>
 /// <param name="MethodReason">Why this simulation method was chosen, for the manifest and console.</param>
 public sealed record SimulationRequest(
     LoadedModel Model,
@@ -18,10 +18,20 @@ public sealed record SimulationRequest(
     string Folder,
     SolverOptions Solver,
     IReadOnlyDictionary<string, string> Arguments,
-    string MethodReason);
+    string MethodReason)
+{
+    /// <summary>Stop the ensemble once this much wall-clock time has passed since the start (like an interruption); null for no limit.</summary>
+    public TimeSpan? WallLimit { get; init; }
+
+    /// <summary>
+    /// <see cref="Folder"/> holds an interrupted run with the same model and settings: its finished
+    /// blocks are kept, the others are run, and the folder's files are replaced by the summaries of both.
+    /// </summary>
+    public bool Resume { get; init; }
+}
 
 /// <summary>What a run produced.</summary>
-/// <param name="Ensemble">The ensemble summaries.</param>
+/// <param name="Ensemble">The ensemble summaries (with <see cref="SimulationRequest.Resume"/>, those of the earlier run and this one together).</param>
 /// <param name="Deterministic">The rate-equation solution, or null when its solver failed.</param>
 /// <param name="DeterministicFailure">Why the rate equations could not be solved, if they could not.</param>
 /// <param name="Manifest">The manifest as written.</param>
@@ -31,100 +41,142 @@ public sealed record SimulationOutcome(
     DeterministicSolution? Deterministic,
     string? DeterministicFailure,
     RunManifest Manifest,
-    IReadOnlyList<string> Files);
+    IReadOnlyList<string> Files)
+{
+    /// <summary>Why the run ended.</summary>
+    public StopReason StopReason { get; init; }
+
+    /// <summary>When <see cref="StopReason"/> is <see cref="StopReason.Failed"/>: which replicate failed and why.</summary>
+    public string? Failure { get; init; }
+
+    /// <summary>Replicates taken over from the earlier run when resuming; 0 otherwise.</summary>
+    public long ReplicatesResumed { get; init; }
+}
 
 /// <summary>
 /// Runs the ensemble and the rate equations of one model and writes the run's folder: the rate-equation
-/// solution, moments, distributions, optional paths and manifest.json. An interrupted run still
-/// writes complete files for the replicates finished, marked partial.
+/// solution, moments, distributions, the real readouts' state, optional paths and manifest.json. A run
+/// that is interrupted, reaches its wall-clock limit or loses a replicate to a failure still writes
+/// complete files for the blocks finished, marked partial; such a folder can be resumed.
 /// </summary>
 public static class SimulationRun
 {
     /// <summary>File names inside a run folder.</summary>
     public const string MomentsFile = "moments.parquet", DistributionsFile = "distributions.parquet",
-        DeterministicFile = "deterministic.parquet", PathsFile = "paths.parquet", ManifestFile = "manifest.json";
+        DeterministicFile = "deterministic.parquet", PathsFile = "paths.parquet", ManifestFile = "manifest.json",
+        ReadoutStateFile = "readout-state.parquet";
+
+    /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="PathsFile"/>.</summary>
+    internal const string ResumedPathsFile = "paths-resumed.parquet";
+
+    /// <summary>Footer key (after <see cref="Provenance.KeyPrefix"/>) of the finished blocks a table covers.</summary>
+    public const string FinishedBlocksKey = "finished_blocks";
 
     /// <summary>Runs and writes; see the type's remarks.</summary>
+    /// <exception cref="RunFolderException">Resuming, and the folder cannot be resumed or its settings differ from the request's.</exception>
+    /// <exception cref="OutputException">A file could not be written.</exception>
     public static SimulationOutcome Execute(SimulationRequest request, EnsembleMonitor? monitor = null, CancellationToken cancel = default)
     {
+        ArgumentNullException.ThrowIfNull(request);
         var started = DateTimeOffset.UtcNow;
+        var clock = System.Diagnostics.Stopwatch.StartNew();
         var model = request.Model;
+        var options = request.Ensemble;
+        var arguments = new Dictionary<string, string>(request.Arguments, StringComparer.Ordinal);
+        arguments.TryAdd(ManifestFields.ShardArgument, options.Shard.ToString());
+        arguments.TryAdd("seed", options.Seed.ToString(CultureInfo.InvariantCulture));
+        var identity = new RunIdentity(model.Path, model.Text, arguments, started);
         var files = new List<string>();
-        var baseProvenance = Provenance.For(model.Path, model.Text, request.Arguments, started);
+
+        EnsembleResult? prior = null;
+        var priorHasPaths = false;
+        if (request.Resume)
+        {
+            var stored = StoredRun.Open(request.Folder);
+            var differences = new RunSettings(Provenance.Sha256Hex(model.Text), arguments, options.BlockSize)
+                .Differences(RunSettings.Of(stored), "this command", "the stored run", includeShard: true);
+            if (differences.Count > 0)
+                throw new RunFolderException($"Cannot resume '{stored.Folder}': this command's settings differ from those of the run stored there:\n  {string.Join("\n  ", differences)}", stored.Folder);
+            prior = stored.Load(model.Network);
+            priorHasPaths = options.PathReplicates > 0 && File.Exists(Path.Combine(request.Folder, PathsFile));
+            options = options with { SkipBlocks = options.SkipBlocks.Union(prior.FinishedBlocks).ToHashSet() };
+            // The stored run has started the clock; this run's time adds to it.
+            identity = identity with { Started = stored.Manifest.StartedUtc };
+        }
 
         DeterministicSolution? deterministic = null;
-        string? failure = null;
+        string? deterministicFailure = null;
         try
         {
-            deterministic = RateEquationSolver.Solve(model.Network, request.Ensemble.Grid, request.Solver);
+            deterministic = RateEquationSolver.Solve(model.Network, options.Grid, request.Solver);
         }
         catch (SolverFailureException e)
         {
-            failure = e.Message;
+            deterministicFailure = e.Message;
         }
         if (deterministic is not null)
         {
             var path = Path.Combine(request.Folder, DeterministicFile);
-            DeterministicTable.Write(path, deterministic, baseProvenance);
+            DeterministicTable.Write(path, deterministic, identity.Provenance(null));
             files.Add(path);
         }
 
-        PathsTable? paths = null;
-        var ensembleOptions = request.Ensemble;
-        if (ensembleOptions.PathReplicates > 0)
-            paths = new PathsTable(Path.Combine(request.Folder, PathsFile), model.Network, ensembleOptions.Grid, baseProvenance);
+        using var wallLimit = new CancellationTokenSource();
+        if (request.WallLimit is { } limit) wallLimit.CancelAfter(ClampedDelay(limit - clock.Elapsed));
+        using var stop = CancellationTokenSource.CreateLinkedTokenSource(cancel, wallLimit.Token);
+        var pathsFile = Path.Combine(request.Folder, priorHasPaths ? ResumedPathsFile : PathsFile);
+        PathsTable? paths = options.PathReplicates > 0 ? new PathsTable(pathsFile, model.Network, options.Grid, identity.Provenance(null)) : null;
         EnsembleResult result;
+        string? failure = null;
         try
         {
-            result = EnsembleRunner.Run(model.Network, ensembleOptions, paths, monitor, cancel);
-            if (paths is not null)
+            try
             {
-                paths.Complete();
-                files.Add(Path.Combine(request.Folder, PathsFile));
+                result = EnsembleRunner.Run(model.Network, options, paths, monitor, stop.Token);
             }
+            catch (EnsembleFailureException e)
+            {
+                result = e.Partial;
+                failure = e.Message;
+            }
+            paths?.Complete();
         }
         finally
         {
             paths?.Dispose();
         }
 
-        var summary = new Dictionary<string, string>
+        var combined = prior is null ? result : EnsembleResult.Combine(prior, result);
+        if (paths is not null)
         {
-            ["replicates_finished"] = result.ReplicatesFinished.ToString(CultureInfo.InvariantCulture),
-            ["partial"] = result.Interrupted ? "true" : "false",
-        };
-        var provenance = Provenance.For(model.Path, model.Text, request.Arguments, started, summary);
-        var moments = Path.Combine(request.Folder, MomentsFile);
-        MomentsTable.Write(moments, result, deterministic, provenance);
-        files.Add(moments);
-        var distributions = Path.Combine(request.Folder, DistributionsFile);
-        DistributionsTable.Write(distributions, result, provenance);
-        files.Add(distributions);
+            var final = Path.Combine(request.Folder, PathsFile);
+            if (priorHasPaths)
+            {
+                PathsMerge.Write([final, pathsFile], final, PathsTable.ColumnsFor(model.Network), identity.Provenance(null));
+                File.Delete(pathsFile);
+            }
+            files.Add(final);
+        }
+        files.AddRange(SummaryFiles.WriteTables(request.Folder, combined, deterministic, identity));
 
-        var manifest = new RunManifest
-        {
-            ModelFile = model.Path,
-            ModelSha256 = Provenance.Sha256Hex(model.Text),
-            Seed = ensembleOptions.Seed,
-            Method = ensembleOptions.Method.ToString(),
-            Threads = ensembleOptions.Threads,
-            ReplicatesRequested = ensembleOptions.Replicates,
-            ReplicatesFinished = result.ReplicatesFinished,
-            EventsFired = result.EventsFired,
-            WallSeconds = result.WallTime.TotalSeconds,
-            StartedUtc = started,
-            Partial = result.Interrupted,
-        };
-        foreach (var (key, value) in request.Arguments) manifest.Arguments[key] = value;
-        manifest.Extra["method_reason"] = request.MethodReason;
-        manifest.Extra["replicates_stopped_early"] = result.ReplicatesStoppedEarly;
-        manifest.Extra["grid_points"] = ensembleOptions.Grid.Count;
-        manifest.Extra["block_size"] = ensembleOptions.BlockSize;
-        manifest.Extra["finished_blocks"] = BlockRanges.Format(result.FinishedBlocks);
-        if (failure is not null) manifest.Extra["deterministic_failure"] = failure;
+        var reason = failure is not null ? StopReason.Failed
+            : !combined.Interrupted ? StopReason.Finished
+            : wallLimit.IsCancellationRequested && !cancel.IsCancellationRequested ? StopReason.WallLimit
+            : StopReason.Interrupted;
+        var manifest = SummaryFiles.Manifest(identity, combined, options.Method.ToString(), options.Threads, reason, failure, request.MethodReason, deterministicFailure);
         var manifestPath = Path.Combine(request.Folder, ManifestFile);
         manifest.WriteAtomic(manifestPath);
         files.Add(manifestPath);
-        return new SimulationOutcome(result, deterministic, failure, manifest, files);
+        return new SimulationOutcome(combined, deterministic, deterministicFailure, manifest, files)
+        {
+            StopReason = reason,
+            Failure = failure,
+            ReplicatesResumed = prior?.ReplicatesFinished ?? 0,
+        };
     }
+
+    private static TimeSpan ClampedDelay(TimeSpan delay) =>
+        delay < TimeSpan.FromMilliseconds(1) ? TimeSpan.FromMilliseconds(1)
+        : delay > TimeSpan.FromMilliseconds(int.MaxValue - 1) ? TimeSpan.FromMilliseconds(int.MaxValue - 1)
+        : delay;
 }

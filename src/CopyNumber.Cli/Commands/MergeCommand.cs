@@ -1,0 +1,33 @@
+using System.CommandLine;
+using CopyNumber.Output;
+
+namespace CopyNumber.Cli.Commands;
+
+/// <summary><c>copynumber merge DIR... --out DIR</c>: combine the shards of one run into one run folder.</summary>
+internal static class MergeCommand
+{
+    public static Command Create()
+    {
+        var folders = new Argument<string[]>("folders") { Description = "Run folders of the same run (shards, or an earlier merge and the shards it lacked).", Arity = ArgumentArity.OneOrMore };
+        var output = new Option<string>("--out") { Description = "The folder to write the merged run into (new or empty).", Required = true };
+        var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
+        var command = new Command("merge", "Combine the shards of a run into one folder with the same files and results as one run of all the replicates.");
+        command.Arguments.Add(folders);
+        command.Options.Add(output);
+        command.Options.Add(force);
+        command.SetAction(parsed =>
+        {
+            var inputs = parsed.GetValue(folders)!;
+            var outcome = RunMerge.Execute(inputs, parsed.GetValue(output)!, parsed.GetValue(force));
+            var result = outcome.Ensemble;
+            var folder = Path.GetDirectoryName(outcome.Files[^1])!;
+            parsed.InvocationConfiguration.Output.WriteLine(
+                $"merged {inputs.Length} folder{(inputs.Length == 1 ? "" : "s")}: {result.ReplicatesFinished} of {result.ReplicatesRequested} replicates, {result.EventsFired} events; wrote {folder}");
+            if (result.Interrupted)
+                parsed.InvocationConfiguration.Error.WriteLine(
+                    $"warning: blocks are missing ({result.FinishedBlocks.Count} of {result.TotalBlocks} finished); the merged summaries are marked partial. Merge the missing shards in later, or continue with 'copynumber simulate ... --resume {folder}'");
+            return ExitCodes.Done;
+        });
+        return command;
+    }
+}

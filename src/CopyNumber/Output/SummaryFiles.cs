@@ -1,0 +1,79 @@
+using System.Globalization;
+using CopyNumber.Deterministic;
+using CopyNumber.Ensembles;
+
+namespace CopyNumber.Output;
+
+/// <summary>Where a run's tables came from, for their provenance footers.</summary>
+/// <param name="ModelFile">The model file name as the user gave it.</param>
+/// <param name="ModelText">The model text.</param>
+/// <param name="Arguments">The run's recorded arguments.</param>
+/// <param name="Started">When the run started.</param>
+internal sealed record RunIdentity(string ModelFile, string ModelText, IReadOnlyDictionary<string, string> Arguments, DateTimeOffset Started)
+{
+    /// <summary>Footer pairs for a table that summarises <paramref name="result"/> (or for one that does not, when null).</summary>
+    public IReadOnlyDictionary<string, string> Provenance(EnsembleResult? result) =>
+        Output.Provenance.For(ModelFile, ModelText, Arguments, Started, result is null ? null : new Dictionary<string, string>
+        {
+            ["replicates_finished"] = result.ReplicatesFinished.ToString(CultureInfo.InvariantCulture),
+            ["partial"] = result.Interrupted ? "true" : "false",
+            [SimulationRun.FinishedBlocksKey] = BlockRanges.Format(result.FinishedBlocks),
+        });
+}
+
+/// <summary>
+/// Writes the summary tables and the manifest of a run folder, the same way for <c>simulate</c> and
+/// <c>merge</c>. The manifest goes last: a folder whose manifest matches its tables is complete.
+/// </summary>
+internal static class SummaryFiles
+{
+    /// <summary>Writes moments, distributions and (when the model has real readouts) the readout state; returns the paths.</summary>
+    public static List<string> WriteTables(string folder, EnsembleResult result, DeterministicSolution? deterministic, RunIdentity identity)
+    {
+        var files = new List<string>();
+        var provenance = identity.Provenance(result);
+        var moments = Path.Combine(folder, SimulationRun.MomentsFile);
+        MomentsTable.Write(moments, result, deterministic, provenance);
+        files.Add(moments);
+        var distributions = Path.Combine(folder, SimulationRun.DistributionsFile);
+        DistributionsTable.Write(distributions, result, provenance);
+        files.Add(distributions);
+        if (result.RealQuantities.Count > 0)
+        {
+            var state = Path.Combine(folder, SimulationRun.ReadoutStateFile);
+            ReadoutStateTable.Write(state, result, provenance);
+            files.Add(state);
+        }
+        return files;
+    }
+
+    /// <summary>The manifest of a folder holding <paramref name="result"/>.</summary>
+    public static RunManifest Manifest(RunIdentity identity, EnsembleResult result, string method, int threads, StopReason stop, string? failure, string methodReason, string? deterministicFailure)
+    {
+        var manifest = new RunManifest
+        {
+            ModelFile = identity.ModelFile,
+            ModelSha256 = Provenance.Sha256Hex(identity.ModelText),
+            Seed = ulong.Parse(identity.Arguments["seed"], CultureInfo.InvariantCulture),
+            Method = method,
+            Threads = threads,
+            ReplicatesRequested = result.ReplicatesRequested,
+            ReplicatesFinished = result.ReplicatesFinished,
+            EventsFired = result.EventsFired,
+            WallSeconds = Math.Max(0, result.WallTime.TotalSeconds),
+            StartedUtc = identity.Started,
+            Partial = result.Interrupted,
+        };
+        foreach (var (key, value) in identity.Arguments) manifest.Arguments[key] = value;
+        manifest.Extra[ManifestFields.MethodReason] = methodReason;
+        manifest.Extra[ManifestFields.StoppedEarly] = result.ReplicatesStoppedEarly;
+        manifest.Extra[ManifestFields.GridPoints] = result.Grid.Count;
+        manifest.Extra[ManifestFields.BlockSize] = result.BlockSize;
+        manifest.Extra[ManifestFields.TotalBlocks] = result.TotalBlocks;
+        manifest.Extra[ManifestFields.FinishedBlocks] = BlockRanges.Format(result.FinishedBlocks);
+        manifest.Extra[ManifestFields.StopReason] = stop.Name();
+        if (failure is not null) manifest.Extra[ManifestFields.Failure] = failure;
+        if (deterministicFailure is not null) manifest.Extra[ManifestFields.DeterministicFailure] = deterministicFailure;
+        return manifest;
+    }
+}

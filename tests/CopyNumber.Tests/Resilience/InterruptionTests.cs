@@ -1,0 +1,103 @@
+using System.Diagnostics;
+using CopyNumber.Cli;
+using CopyNumber.Output;
+using CopyNumber.Tests.Cli;
+using CopyNumber.Tests.Output;
+using static CopyNumber.Tests.Resilience.RunFolders;
+
+namespace CopyNumber.Tests.Resilience;
+
+/// <summary>
+/// The real binary, started as a child process and sent SIGTERM with /bin/kill while it simulates: it
+/// must exit with 130 (README's exit codes) after writing readable partial summaries, and resuming
+/// them must reproduce the uninterrupted run. The generous waits below are liveness limits so a broken
+/// build cannot hang the suite, not measurements.
+/// </summary>
+public class InterruptionTests
+{
+    private static readonly TimeSpan Patience = TimeSpan.FromSeconds(60);
+
+    [Fact]
+    public void Sigterm_during_simulate_writes_partial_summaries_exits_130_and_the_run_resumes_to_the_uninterrupted_result()
+    {
+        if (!OperatingSystem.IsLinux() && !OperatingSystem.IsMacOS()) return; // SIGTERM is POSIX
+        using var scratch = new ScratchFolder();
+        var model = WriteModel(scratch);
+        // About 500 events per replicate, 3.2 million in all over 100 blocks: long enough that the
+        // signal arrives mid-run, short enough to run three times.
+        string[] arguments = ["simulate", model, "--until", "20", "--every", "1", "--replicates", "6400", "--seed", "3", "--threads", "2"];
+
+        var interrupted = scratch.File("interrupted");
+        using var child = Start([.. arguments, "--out", interrupted]);
+        var error = new StringWriter();
+        var started = new ManualResetEventSlim();
+        child.ErrorDataReceived += (_, e) =>
+        {
+            if (e.Data is null) return;
+            lock (error) error.WriteLine(e.Data);
+            if (e.Data.StartsWith("simulating", StringComparison.Ordinal)) started.Set();
+        };
+        child.BeginErrorReadLine();
+        var output = child.StandardOutput.ReadToEndAsync();
+        Assert.True(started.Wait(Patience), "the child never started simulating");
+        Thread.Sleep(400); // usually lets some blocks finish; the assertions hold for any number of them, none included
+        Signal(child.Id);
+        Assert.True(child.WaitForExit(Patience), "the child did not stop after SIGTERM");
+        child.WaitForExit();
+        string errorText;
+        lock (error) errorText = error.ToString();
+        Assert.Equal(ExitCodes.Interrupted, child.ExitCode);
+        Assert.Contains("interrupted", errorText);
+        Assert.DoesNotContain("   at ", errorText + output.Result);
+
+        var manifest = Manifest(interrupted);
+        Assert.True(manifest.Partial);
+        Assert.Equal("interrupted", manifest.ExtraText(ManifestFields.StopReason));
+        Assert.InRange(manifest.ReplicatesFinished, 0, 6400 - 64);
+        Assert.Equal(0, manifest.ReplicatesFinished % 64);
+        var moments = ParquetReadBack.Of(Path.Combine(interrupted, SimulationRun.MomentsFile));
+        Assert.Equal("true", moments.KeyValues["copynumber.partial"]);
+        Assert.Equal(manifest.ReplicatesFinished.ToString(), moments.KeyValues["copynumber.replicates_finished"]);
+        // Every finished replicate is recorded at time 0, so the frequencies there add up to the replicates finished.
+        var distributions = ParquetReadBack.Of(Path.Combine(interrupted, SimulationRun.DistributionsFile));
+        Assert.Equal("frequency", distributions.Names[4]);
+        var atZero = 0L;
+        if (distributions.TotalRows > 0)
+        {
+            var time = (double[])distributions.Values[0];
+            var species = (string[])distributions.Values[1];
+            var frequency = (long[])distributions.Values[4];
+            atZero = Enumerable.Range(0, time.Length).Where(r => time[r] == 0 && species[r] == "p").Sum(r => frequency[r]);
+        }
+        Assert.Equal(manifest.ReplicatesFinished, atZero);
+        Assert.Empty(Directory.GetFiles(interrupted, "*" + AtomicFile.PartialMarker + "*"));
+
+        var resumed = CliRun.Of([.. arguments, "--resume", interrupted]);
+        Assert.Equal(0, resumed.ExitCode);
+        var whole = scratch.File("whole");
+        Assert.Equal(0, CliRun.Of([.. arguments, "--out", whole]).ExitCode);
+        foreach (var file in ResultFiles) AssertSameCells(whole, interrupted, file);
+    }
+
+    /// <summary>Starts the built copynumber.dll (copied beside the tests by the project reference) under the dotnet host.</summary>
+    private static Process Start(string[] arguments)
+    {
+        var binary = typeof(CliApplication).Assembly.Location;
+        var info = new ProcessStartInfo(Environment.ProcessPath is { } host && Path.GetFileNameWithoutExtension(host) == "dotnet" ? host : "dotnet")
+        {
+            RedirectStandardError = true,
+            RedirectStandardOutput = true,
+            UseShellExecute = false,
+        };
+        info.ArgumentList.Add(binary);
+        foreach (var a in arguments) info.ArgumentList.Add(a);
+        return Process.Start(info) ?? throw new InvalidOperationException("could not start the child process");
+    }
+
+    private static void Signal(int pid)
+    {
+        using var kill = Process.Start(new ProcessStartInfo("/bin/kill", ["-TERM", pid.ToString()]) { UseShellExecute = false })!;
+        kill.WaitForExit();
+        Assert.Equal(0, kill.ExitCode);
+    }
+}

@@ -1,0 +1,159 @@
+using System.Globalization;
+using CopyNumber.Deterministic;
+using CopyNumber.Ensembles;
+using CopyNumber.Network;
+using CopyNumber.Output;
+using CopyNumber.Tests.Cli;
+using CopyNumber.Tests.Output;
+using static CopyNumber.Tests.Resilience.RunFolders;
+
+namespace CopyNumber.Tests.Resilience;
+
+/// <summary>
+/// An interrupted run resumed with --resume must give, cell for cell, the tables of the same run left
+/// uninterrupted: replicate streams depend on (seed, replicate) alone, histograms add exactly, and real
+/// moments are combined in one fixed tree over the blocks whichever run finished them.
+/// </summary>
+public class ResumeTests
+{
+    private const long Replicates = 1000;
+    private const int Seed = 21;
+
+    [Theory]
+    [InlineData(1, 5)]
+    [InlineData(2, 3)]
+    public void A_run_cancelled_through_the_library_and_resumed_equals_the_uninterrupted_run(int threads, int cancelAfterBlocks)
+    {
+        using var scratch = new ScratchFolder();
+        var model = ModelLoader.Load(WriteModel(scratch)).Model!;
+        var whole = Folder(scratch, "whole");
+        Assert.Equal(StopReason.Finished, Run(model, whole, threads, resume: false, CancellationToken.None).StopReason);
+
+        var resumed = Folder(scratch, "resumed");
+        using var cancel = new CancellationTokenSource();
+        var partial = Run(model, resumed, threads, resume: false, cancel.Token, block => { if (block + 1 >= cancelAfterBlocks) cancel.Cancel(); });
+        Assert.Equal(StopReason.Interrupted, partial.StopReason);
+        var manifest = Manifest(resumed);
+        Assert.True(manifest.Partial);
+        Assert.Equal("interrupted", manifest.ExtraText(ManifestFields.StopReason));
+        Assert.InRange(manifest.ReplicatesFinished, 64L * (threads == 1 ? cancelAfterBlocks : 1), Replicates - 1);
+        Assert.Equal(0, manifest.ReplicatesFinished % 64);
+        Assert.Equal("true", ParquetReadBack.Of(Path.Combine(resumed, SimulationRun.MomentsFile)).KeyValues["copynumber.partial"]);
+        if (threads == 1) Assert.Equal("0-4", manifest.ExtraText(ManifestFields.FinishedBlocks));
+
+        var outcome = Run(model, resumed, threads, resume: true, CancellationToken.None);
+        Assert.Equal(StopReason.Finished, outcome.StopReason);
+        Assert.Equal(manifest.ReplicatesFinished, outcome.ReplicatesResumed);
+        foreach (var file in ResultFiles.Append(SimulationRun.PathsFile)) AssertSameCells(whole, resumed, file);
+        Assert.Equal(Manifest(whole).EventsFired, Manifest(resumed).EventsFired);
+        Assert.False(Manifest(resumed).Partial);
+        Assert.Empty(Directory.GetFiles(resumed, "*" + AtomicFile.PartialMarker + "*"));
+        Assert.False(File.Exists(Path.Combine(resumed, "paths-resumed.parquet")));
+    }
+
+    [Fact]
+    public void A_resumption_that_is_itself_interrupted_resumes_again_to_the_same_result()
+    {
+        using var scratch = new ScratchFolder();
+        var model = ModelLoader.Load(WriteModel(scratch)).Model!;
+        var whole = Folder(scratch, "whole");
+        Run(model, whole, 1, resume: false, CancellationToken.None);
+        var folder = Folder(scratch, "twice");
+        using (var first = new CancellationTokenSource())
+            Run(model, folder, 1, resume: false, first.Token, block => { if (block == 2) first.Cancel(); });
+        using (var second = new CancellationTokenSource())
+            Run(model, folder, 1, resume: true, second.Token, block => { if (block == 9) second.Cancel(); });
+        Assert.Equal("0-9", Manifest(folder).ExtraText(ManifestFields.FinishedBlocks));
+        Run(model, folder, 2, resume: true, CancellationToken.None);
+        foreach (var file in ResultFiles.Append(SimulationRun.PathsFile)) AssertSameCells(whole, folder, file);
+    }
+
+    [Fact]
+    public void Resume_through_the_command_takes_left_out_options_from_the_manifest_and_refuses_different_ones()
+    {
+        using var scratch = new ScratchFolder();
+        var modelPath = WriteModel(scratch);
+        var model = ModelLoader.Load(modelPath).Model!;
+        var folder = Folder(scratch, "run");
+        using (var cancel = new CancellationTokenSource())
+            Run(model, folder, 1, resume: false, cancel.Token, block => { if (block == 1) cancel.Cancel(); });
+
+        var seed = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--seed", "22", "--resume", folder]);
+        Assert.Equal(2, seed.ExitCode);
+        Assert.Contains("--seed: 21 in the stored run, 22 in this command", seed.Error);
+
+        var method = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--method", "tau-leap", "--resume", folder]);
+        Assert.Equal(2, method.ExitCode);
+        Assert.Contains("--method", method.Error);
+
+        var otherModel = WriteModel(scratch, BurstyGene.Replace("dp = 0.5", "dp = 0.4"), "edited.cnet");
+        var edited = CliRun.Of(["simulate", otherModel, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", folder]);
+        Assert.Equal(2, edited.ExitCode);
+        Assert.Contains("model", edited.Error);
+
+        var withOut = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", folder, "--out", scratch.File("x")]);
+        Assert.Equal(2, withOut.ExitCode);
+        var missing = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", scratch.File("nowhere")]);
+        Assert.Equal(2, missing.ExitCode);
+        Assert.Contains("does not exist", missing.Error);
+        foreach (var run in new[] { seed, method, edited, withOut, missing }) AssertNoStackTrace(run);
+        Assert.True(Manifest(folder).Partial);
+
+        // The seed, the method and the paths come from the manifest when left out.
+        var resumed = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", folder]);
+        Assert.Equal(0, resumed.ExitCode);
+        Assert.Contains("128 replicates kept, 872 to run", resumed.Error);
+        Assert.False(Manifest(folder).Partial);
+        var again = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", folder]);
+        Assert.Equal(0, again.ExitCode);
+        Assert.Contains("nothing to resume", again.Error);
+    }
+
+    [Fact]
+    public void A_folder_whose_tables_and_manifest_disagree_is_refused()
+    {
+        using var scratch = new ScratchFolder();
+        var modelPath = WriteModel(scratch);
+        var model = ModelLoader.Load(modelPath).Model!;
+        var a = Folder(scratch, "a");
+        var b = Folder(scratch, "b");
+        using (var cancel = new CancellationTokenSource())
+            Run(model, a, 1, resume: false, cancel.Token, block => { if (block == 1) cancel.Cancel(); });
+        using (var cancel = new CancellationTokenSource())
+            Run(model, b, 1, resume: false, cancel.Token, block => { if (block == 3) cancel.Cancel(); });
+        // As if a resumption had replaced the distributions and then died before its manifest.
+        File.Copy(Path.Combine(b, SimulationRun.DistributionsFile), Path.Combine(a, SimulationRun.DistributionsFile), overwrite: true);
+        var run = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", a]);
+        Assert.Equal(2, run.ExitCode);
+        Assert.Contains("holds blocks 0-3 but the manifest", run.Error);
+        AssertNoStackTrace(run);
+    }
+
+    private static string Folder(ScratchFolder scratch, string name)
+    {
+        var folder = scratch.File(name);
+        Directory.CreateDirectory(folder);
+        return folder;
+    }
+
+    /// <summary>The run every test here uses: 1000 replicates of the bursty gene, seed 21, paths of the first 100.</summary>
+    private static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null)
+    {
+        var grid = new TimeGrid(5, 0.5);
+        var options = new EnsembleOptions { Grid = grid, Replicates = Replicates, Seed = Seed, Threads = threads, PathReplicates = 100 };
+        var arguments = new Dictionary<string, string>
+        {
+            ["command"] = "simulate",
+            ["until"] = "5",
+            ["every"] = "0.5",
+            ["replicates"] = Replicates.ToString(CultureInfo.InvariantCulture),
+            ["method"] = "direct",
+            ["epsilon"] = "0.03",
+            ["seed"] = Seed.ToString(CultureInfo.InvariantCulture),
+            ["paths"] = "100",
+            ["max_events"] = "none",
+        };
+        var request = new SimulationRequest(model, options, folder, new SolverOptions(), arguments, "test") { Resume = resume };
+        return SimulationRun.Execute(request, new EnsembleMonitor { BlockFinished = blockFinished }, cancel);
+    }
+}
