@@ -119,6 +119,7 @@ internal static class SimulateCommand
             };
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
+            stored?.EnsureSameRun(new RunSettings(Provenance.Sha256Hex(loaded.Text), arguments, options.BlockSize));
             if (stored is not null && !stored.IsPartial)
             {
                 error.WriteLine($"nothing to resume: the run in {stored.Folder} has all its {stored.Manifest.ReplicatesFinished} replicates");

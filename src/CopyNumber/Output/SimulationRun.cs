@@ -93,10 +93,7 @@ public static class SimulationRun
         if (request.Resume)
         {
             var stored = StoredRun.Open(request.Folder);
-            var differences = new RunSettings(Provenance.Sha256Hex(model.Text), arguments, options.BlockSize)
-                .Differences(RunSettings.Of(stored), "this command", "the stored run", includeShard: true);
-            if (differences.Count > 0)
-                throw new RunFolderException($"Cannot resume '{stored.Folder}': this command's settings differ from those of the run stored there:\n  {string.Join("\n  ", differences)}", stored.Folder);
+            stored.EnsureSameRun(new RunSettings(Provenance.Sha256Hex(model.Text), arguments, options.BlockSize));
             prior = stored.Load(model.Network);
             priorHasPaths = options.PathReplicates > 0 && File.Exists(Path.Combine(request.Folder, PathsFile));
             options = options with { SkipBlocks = options.SkipBlocks.Union(prior.FinishedBlocks).ToHashSet() };

@@ -102,6 +102,16 @@ public sealed class StoredRun
         return new StoredRun(full, manifest, blockSize, totalBlocks, shard, finished, grid);
     }
 
+    /// <summary>Checks that <paramref name="settings"/> (the command about to resume this run) are this run's own.</summary>
+    /// <exception cref="RunFolderException">They differ; the message lists every difference.</exception>
+    public void EnsureSameRun(RunSettings settings)
+    {
+        ArgumentNullException.ThrowIfNull(settings);
+        var differences = settings.Differences(RunSettings.Of(this), "this command", "the stored run", includeShard: true);
+        if (differences.Count > 0)
+            throw new RunFolderException($"Cannot resume '{Folder}': this command's settings differ from those of the run stored there:\n  {string.Join("\n  ", differences)}", Folder);
+    }
+
     /// <summary>The model text stored in the run's tables, checked against the manifest's SHA-256.</summary>
     /// <exception cref="RunFolderException">No table holds it, or it does not match.</exception>
     public string ModelText()

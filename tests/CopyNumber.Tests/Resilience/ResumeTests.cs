@@ -107,6 +107,9 @@ public class ResumeTests
         var again = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", folder]);
         Assert.Equal(0, again.ExitCode);
         Assert.Contains("nothing to resume", again.Error);
+        var finishedOther = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--seed", "22", "--resume", folder]);
+        Assert.Equal(2, finishedOther.ExitCode);
+        Assert.Contains("--seed", finishedOther.Error);
     }
 
     [Fact]
