@@ -79,7 +79,10 @@ internal static class ModelParser
                 return Enter(line, SectionWords[meant], first, model);
             }
             // A lone word is always a header: no declaration is a single word.
-            line.Fail(first.Position, $"unknown section '{first.Text}'; the sections are {SectionList} (a line holding a single word is a section header)");
+            var declaring = section is Section.Species or Section.Parameters or Section.Readouts
+                ? $"; to declare '{first.Text}' write '{first.Text} = ...'"
+                : "";
+            line.Fail(first.Position, $"unknown section '{first.Text}'; the sections are {SectionList} (a line holding a single word is a section header){declaring}");
             return Section.Unknown;
         }
 
@@ -103,7 +106,7 @@ internal static class ModelParser
                 : $"reaction line in the '{Word(section)}' section; reactions belong under the 'reactions' header");
             return section;
         }
-        if (section != Section.Schedule && first.IsWord("at") && second.Kind != TokenKind.Equals)
+        if (section != Section.Schedule && first.IsWord("at") && second.Kind is not (TokenKind.Equals or TokenKind.Colon))
         {
             line.Fail(first.Position, section == Section.None
                 ? "schedule line before any section; put it under a 'schedule' header"
@@ -151,7 +154,7 @@ internal static class ModelParser
 
     private static bool LooksLikeReaction(LineParser line)
     {
-        if (line.Peek().Kind == TokenKind.Identifier && !line.Peek().IsWord("at") && line.Peek(1).Kind == TokenKind.Colon) return true;
+        if (line.Peek().Kind == TokenKind.Identifier && line.Peek(1).Kind == TokenKind.Colon) return true;
         foreach (var token in line.Tokens)
             if (token.Kind is TokenKind.Arrow or TokenKind.BothArrow) return true;
         return false;

@@ -160,6 +160,9 @@ public sealed class DiagnosticTests
         AssertSingleError(Model().Replace("parameters", "paramters"), 4, 1, "unknown section 'paramters'", "did you mean 'parameters'?");
         // Lines under a header that names nothing are skipped without further reports.
         AssertSingleError(Model(extra: "outputs\n  anything = protein"), 8, 1, "unknown section 'outputs'", "the sections are");
+        // A lone word is always read as a header; inside a declaring section the report says how to declare it.
+        AssertSingleError(Model(species: "protein = 10\n  dimer = 0\n  monomer"), 4, 3,
+            "unknown section 'monomer'", "a line holding a single word is a section header", "write 'monomer = ...'");
     }
 
     [Theory]

@@ -148,10 +148,11 @@ public sealed class ParserExampleTests
               exp = 3
             reactions
               species: A -> 0 rate rate * exp(1) * exp
+              at: A -> 0 mass at
             schedule
               at at: rate = 1
             """);
-        Assert.Equal("species", model.Reactions[0].Name);
+        Assert.Equal(["species", "at"], model.Reactions.Select(r => r.Name));
         Assert.Equal("((rate * exp(1)) * exp)", Show(model.Reactions[0].Forward));
         Assert.Equal("at", Show(model.Schedule[0].Time));
         Assert.Equal("rate", model.Schedule[0].Target);

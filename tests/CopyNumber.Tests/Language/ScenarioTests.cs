@@ -135,6 +135,23 @@ public sealed class ScenarioTests
         Assert.NotEmpty(model.Readouts);
     }
 
+    [Fact]
+    public void TheWorkedExampleOfTheReferenceParsesAsDescribed()
+    {
+        // docs/network-language.md: the first code block is the worked example; its text below it
+        // describes two species, three reaction lines (one reversible), two schedule lines, two readouts.
+        var doc = File.ReadAllText(Path.Combine(ScenariosFolder(), "..", "docs", "network-language.md"));
+        var start = doc.IndexOf("```\n", StringComparison.Ordinal) + 4;
+        var example = doc[start..doc.IndexOf("```", start, StringComparison.Ordinal)];
+        var model = ParseValid(example);
+        Assert.Equal(["A", "B"], model.Species.Select(s => s.Name));
+        Assert.Equal(["make", "pair", "loss"], model.Reactions.Select(r => r.Name));
+        Assert.True(model.Reactions[1].Reversible);
+        Assert.Equal([(2L, "A")], model.Reactions[1].Reactants.Terms.Select(t => (t.Coefficient, t.Species)));
+        Assert.Equal(["k_make", "A"], model.Schedule.Select(s => s.Target));
+        Assert.Equal(2, model.Readouts.Count);
+    }
+
     private static long Net(ReactionDecl reaction, string species) =>
         reaction.Products.Terms.Where(t => t.Species == species).Sum(t => t.Coefficient)
         - reaction.Reactants.Terms.Where(t => t.Species == species).Sum(t => t.Coefficient);
