@@ -78,6 +78,17 @@ public sealed class ModeCountTests
     }
 
     [Fact]
+    public void MinorityPopulationFarAwayIsAMode()
+    {
+        // 0.8·Poisson(5) + 0.2·Poisson(60): the second peak is ~7% as high as the first, the dip between
+        // them ~10⁻¹⁰ of either.
+        double Pmf(long n) => 0.8 * Math.Exp(PoissonLog(5, n)) + 0.2 * Math.Exp(PoissonLog(60, n));
+        var result = ModeCount.Count(Exact(n => Math.Log(Pmf(n)), 0, 150));
+        Assert.Equal(2, result.Count);
+        Assert.InRange(result.Modes[1].Value, 58, 61);
+    }
+
+    [Fact]
     public void ZeroSpikeBesideABumpIsAMode()
     {
         // Zero-inflated Poisson: 0.3·δ₀ + 0.7·Poisson(20); the spike at 0 is a mode of its own.
