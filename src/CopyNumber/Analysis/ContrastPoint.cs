@@ -43,4 +43,17 @@ public sealed record ContrastPoint(
         return new ContrastPoint(time, summary.Replicates, summary.Mean, summary.Variance, summary.StandardError,
             summary.ZeroFraction, CountDistribution.FromHistogram(histogram), rateEquationValue, lnaVariance, correctedMean);
     }
+    /// <summary>A point from the moments of a quantity that is not a count (no histogram, no P(0)).</summary>
+    /// <param name="time">The grid time.</param>
+    /// <param name="moments">The replicates' moments.</param>
+    /// <param name="rateEquationValue">The rate-equation value.</param>
+    /// <param name="lnaVariance">The linear-noise variance, or NaN.</param>
+    /// <param name="correctedMean">The EMRE mean, or NaN.</param>
+    public static ContrastPoint FromMoments(double time, MomentAccumulator moments,
+        double rateEquationValue, double lnaVariance = double.NaN, double correctedMean = double.NaN)
+    {
+        ArgumentNullException.ThrowIfNull(moments);
+        return new ContrastPoint(time, moments.Count, moments.Mean, moments.Variance, moments.StandardError,
+            double.NaN, null, rateEquationValue, lnaVariance, correctedMean);
+    }
 }

@@ -17,8 +17,8 @@ public sealed record ModeCountRule
     /// <summary>Smallest kernel width in copies, used for exact distributions too. Default 1.</summary>
     public double MinimumBandwidth { get; init; } = 1.0;
 
-    /// <summary>A mode's prominence must be at least this fraction of the highest smoothed peak. Default 0.10.</summary>
-    public double MinimumRelativeProminence { get; init; } = 0.10;
+    /// <summary>A mode's prominence must be at least this fraction of the highest smoothed peak. Default 0.05.</summary>
+    public double MinimumRelativeProminence { get; init; } = 0.05;
 
     /// <summary>
     /// The dip separating a mode from any higher one must fall below this fraction of the mode's own

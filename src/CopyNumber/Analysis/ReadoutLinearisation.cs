@@ -6,7 +6,7 @@ namespace CopyNumber.Analysis;
 /// A readout g(x) expanded about a real-valued state: gradient and (for a non-count readout) Hessian.
 /// A count readout is an integer combination of species, affine in x, so its gradient is the exact
 /// difference g(x + e_i) − g(x) and its Hessian is zero. Any other readout is differentiated by central
-/// differences (step ε^(1/3)·max(|x_i|, 1) for the gradient, ε^(1/4)·max(|x_i|, 1) for the Hessian).
+/// differences (<see cref="CentralDifferences"/> for the gradient; step ε^(1/4)·max(|x_i|, 1) for the Hessian).
 /// </summary>
 internal static class ReadoutLinearisation
 {

@@ -66,11 +66,13 @@ public sealed class ModeCountTests
         Assert.Equal(1, ModeCount.Count(Exact(LogPmf, 0, (long)(mean + 40 * sd + 50))).Count);
     }
 
-    [Fact]
-    public void MixtureOfTwoSeparatedPoissonsHasTwoModes()
+    [Theory]
+    [InlineData(0.5)] // equal halves
+    [InlineData(0.8)] // a minority population far away: its peak is ~7% as high as the first
+    public void MixtureOfTwoSeparatedPoissonsHasTwoModes(double weightOfFive)
     {
-        // ½·Poisson(5) + ½·Poisson(60): the dip between them is ~10⁻¹⁰ of either peak.
-        double Pmf(long n) => 0.5 * Math.Exp(PoissonLog(5, n)) + 0.5 * Math.Exp(PoissonLog(60, n));
+        // w·Poisson(5) + (1 − w)·Poisson(60): the dip between them is ~10⁻¹⁰ of either peak.
+        double Pmf(long n) => weightOfFive * Math.Exp(PoissonLog(5, n)) + (1 - weightOfFive) * Math.Exp(PoissonLog(60, n));
         var result = ModeCount.Count(Exact(n => Math.Log(Pmf(n)), 0, 150));
         Assert.Equal(2, result.Count);
         Assert.InRange(result.Modes[0].Value, 3, 6);
