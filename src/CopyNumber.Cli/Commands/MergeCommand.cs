@@ -15,9 +15,15 @@ internal static class MergeCommand
         command.Arguments.Add(folders);
         command.Options.Add(output);
         command.Options.Add(force);
+        var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations for a complete merge." };
+        var contrastOptions = new ContrastOptions();
+        command.Options.Add(noContrast);
+        contrastOptions.AddTo(command);
         command.SetAction(parsed =>
         {
             var inputs = parsed.GetValue(folders)!;
+            var thresholds = contrastOptions.Thresholds(parsed);
+            var histogramTimes = contrastOptions.Times(parsed);
             var outcome = RunMerge.Execute(inputs, parsed.GetValue(output)!, parsed.GetValue(force));
             var result = outcome.Ensemble;
             var folder = Path.GetDirectoryName(outcome.Files[^1])!;
@@ -26,6 +32,13 @@ internal static class MergeCommand
             if (result.Interrupted)
                 parsed.InvocationConfiguration.Error.WriteLine(
                     $"warning: blocks are missing ({result.FinishedBlocks.Count} of {result.TotalBlocks} finished); the merged summaries are marked partial. Merge the missing shards in later, or continue with 'copynumber simulate ... --resume {folder}'");
+            else if (!parsed.GetValue(noContrast))
+            {
+                // A complete merge is a whole run, so it gets the same contrast and report a whole run gets.
+                var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, parsed.GetValue(contrastOptions.Heatmap));
+                parsed.InvocationConfiguration.Output.Write(ContrastOptions.RenderVerdicts(contrast));
+                parsed.InvocationConfiguration.Output.WriteLine($"wrote {string.Join(", ", files.Select(Path.GetFileName))}");
+            }
             return ExitCodes.Done;
         });
         return command;
