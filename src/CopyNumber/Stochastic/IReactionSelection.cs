@@ -25,6 +25,9 @@ internal interface IReactionSelection<TSelf> where TSelf : struct, IReactionSele
     /// <summary>Called once per event after the updates: a place to stop round-off drift in the total.</summary>
     void EndEvent();
 
+    /// <summary>The stored propensities, indexed by reaction (for messages; not for the inner loop).</summary>
+    ReadOnlySpan<double> Propensities { get; }
+
     /// <summary>Recomputes the total exactly from the stored propensities.</summary>
     void Resum();
 }

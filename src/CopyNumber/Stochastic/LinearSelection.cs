@@ -1,4 +1,5 @@
 using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 
 namespace CopyNumber.Stochastic;
 
@@ -29,10 +30,13 @@ internal struct LinearSelection : IReactionSelection<LinearSelection>
         get => _total;
     }
 
+    public readonly ReadOnlySpan<double> Propensities => _values;
+
+    /// <remarks>No bounds check: the simulators pass only reaction indices validated when their programs were built.</remarks>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public void Set(int reaction, double propensity)
     {
-        ref var slot = ref _values[reaction];
+        ref var slot = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_values), reaction);
         _total += propensity - slot;
         slot = propensity;
     }

@@ -1,0 +1,58 @@
+using System.Diagnostics;
+using CopyNumber.Network;
+using CopyNumber.Randomness;
+using CopyNumber.Stochastic;
+
+namespace CopyNumber.Benchmarks;
+
+/// <summary>
+/// A quick events-per-second probe for development on a loaded machine: the best of several timed rounds
+/// of fixed-seed replicates (the minimum is the round least disturbed by other processes). Not a
+/// replacement for the BenchmarkDotNet suites, whose figures go into docs/performance.md.
+/// </summary>
+internal static class QuickTiming
+{
+    public static void Run(string[] args)
+    {
+        var scenario = args.Length > 1 ? args[1] : "promoter_switch.cnet";
+        var until = args.Length > 2 ? double.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture) : 2000.0;
+        var network = BenchmarkModels.Load(scenario);
+        foreach (var method in new[] { SimulationMethod.Direct, SimulationMethod.NextReaction, SimulationMethod.TauLeap })
+        {
+            var simulator = SimulatorFactory.Create(method, network, new SimulatorOptions());
+            var (wall, cpu) = Measure(simulator, new TimeGrid(until, until / 100));
+            Console.WriteLine($"{method,-14} {wall / 1e6,8:F2} M events/s (wall)  {cpu / 1e6,8:F2} M events per CPU-second");
+        }
+    }
+
+    /// <summary>
+    /// Best events per wall-clock second and per CPU second of this process over rounds of about 0.2 s
+    /// each. On a shared machine the CPU figure is the steadier one: time the scheduler gives to other
+    /// processes is not counted.
+    /// </summary>
+    public static (double Wall, double Cpu) Measure(IStochasticSimulator simulator, TimeGrid grid, int rounds = 15)
+    {
+        var observer = new DiscardObserver();
+        var process = Process.GetCurrentProcess();
+        double bestWall = 0.0, bestCpu = 0.0;
+        for (var round = 0; round < rounds; round++)
+        {
+            process.Refresh();
+            var cpuStart = process.TotalProcessorTime;
+            var clock = Stopwatch.StartNew();
+            var events = 0L;
+            var replicate = 0L;
+            while (clock.ElapsedMilliseconds < 200)
+            {
+                var rng = ReplicateStreams.For(2026, replicate++);
+                events += simulator.Run(ref rng, grid, observer).Events;
+            }
+            var wall = clock.Elapsed.TotalSeconds;
+            process.Refresh();
+            var cpu = (process.TotalProcessorTime - cpuStart).TotalSeconds;
+            bestWall = Math.Max(bestWall, events / wall);
+            if (cpu > 0) bestCpu = Math.Max(bestCpu, events / cpu);
+        }
+        return (bestWall, bestCpu);
+    }
+}
