@@ -91,7 +91,7 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
                 state.ThrowRunaway(t, horizon, total, selection.Propensities);
             if (nextGrid < next) nextGrid = recorder.RecordBefore(next, counts);
             t = next;
-            var j = selection.Select(random.NextDouble() * total);
+            var j = selection.Select(random.NextDouble() * total, ref random);
             ref var header = ref Unsafe.Add(ref header0, j);
             program.Fire(ref header, j, ref count0, state, effects, t);
             var u = header.UpdateStart;

@@ -1,4 +1,5 @@
 using System.Runtime.CompilerServices;
+using CopyNumber.Randomness;
 using System.Runtime.InteropServices;
 
 namespace CopyNumber.Stochastic;
@@ -41,6 +42,10 @@ internal struct LinearSelection : IReactionSelection<LinearSelection>
         slot = propensity;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly int Select(double point, ref Xoshiro256StarStar rng) => Select(point);
+
+    /// <summary>The reaction whose cumulative interval holds <paramref name="point"/>; needs no further random numbers.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public readonly int Select(double point)
     {

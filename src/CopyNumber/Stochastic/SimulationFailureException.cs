@@ -38,7 +38,19 @@ public sealed class SimulationFailureException : Exception
     internal static SimulationFailureException CountOverflow(ReactionNetwork network, int reaction, int species, long amount, double time, long[] counts) =>
         new($"reaction '{network.Reactions[reaction].Name}' fired at time {Number(time)} would take species '{network.Species[species]}' from " +
             $"{counts[species].ToString(CultureInfo.InvariantCulture)} by {amount.ToString(CultureInfo.InvariantCulture)} past 2^62 = {FiringProgram.CountLimit.ToString(CultureInfo.InvariantCulture)} copies, " +
-            $"beyond what a 64-bit count holds safely; the network is probably explosive: give '{network.Species[species]}' a decay or bound its production, " +
+            $"beyond what a 64-bit count holds safely; {Explosive(network, species)} (state: {State(network, counts)})", time);
+
+    private static string Explosive(ReactionNetwork network, int species) =>
+        $"the network is probably explosive: give '{network.Species[species]}' a decay or bound its production, or stop replicates earlier with --max-events";
+
+    internal static SimulationFailureException LeapOverflow(ReactionNetwork network, int reaction, int species, double change, long before, double time, long[] counts) =>
+        new($"a tau-leap at time {Number(time)} would change species '{network.Species[species]}' from {before.ToString(CultureInfo.InvariantCulture)} " +
+            $"by {Number(change)} through reaction '{network.Reactions[reaction].Name}', past 2^62 = {FiringProgram.CountLimit.ToString(CultureInfo.InvariantCulture)} copies, " +
+            $"beyond what a 64-bit count holds safely; {Explosive(network, species)} (state: {State(network, counts)})", time);
+
+    internal static SimulationFailureException LeapTooLarge(ReactionNetwork network, int reaction, double mean, double time, long[] counts) =>
+        new($"a tau-leap at time {Number(time)} would fire reaction '{network.Reactions[reaction].Name}' about {Number(mean)} times, " +
+            $"more than the Poisson sampler supports (2^52); the network is probably explosive: add a decay or bound the growth, " +
             $"or stop replicates earlier with --max-events (state: {State(network, counts)})", time);
 
     internal static SimulationFailureException TotalPropensityOverflow(ReactionNetwork network, int largest, double time, long[] counts) =>

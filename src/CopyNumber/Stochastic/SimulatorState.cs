@@ -107,6 +107,14 @@ internal sealed class SimulatorState
         throw SimulationFailureException.CountOverflow(_network, reaction, species, amount, time, Counts);
 
     [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowLeapOverflow(int reaction, int species, double change, double time, long before) =>
+        throw SimulationFailureException.LeapOverflow(_network, reaction, species, change, before, time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowLeapTooLarge(int reaction, double mean, double time) =>
+        throw SimulationFailureException.LeapTooLarge(_network, reaction, mean, time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
     public void ThrowTotalOverflow(double time, ReadOnlySpan<double> propensities) =>
         throw SimulationFailureException.TotalPropensityOverflow(_network, LargestOf(propensities), time, Counts);
 

@@ -1,5 +1,6 @@
 using System.Numerics;
 using System.Runtime.CompilerServices;
+using CopyNumber.Randomness;
 
 namespace CopyNumber.Stochastic;
 
@@ -39,6 +40,10 @@ internal struct SumTreeSelection : IReactionSelection<SumTreeSelection>
         for (i >>= 1; i >= 1; i >>= 1) nodes[i] = nodes[2 * i] + nodes[2 * i + 1];
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly int Select(double point, ref Xoshiro256StarStar rng) => Select(point);
+
+    /// <summary>The reaction whose cumulative interval holds <paramref name="point"/>; needs no further random numbers.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public readonly int Select(double point)
     {
