@@ -28,9 +28,9 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
     private const int MinimumResumEvery = 1024;
     private const double CancellationFloor = 1e-6;
 
-    private double[] _values;      // a_j
-    private int[] _groupOf;        // group of reaction j, −1 while a_j = 0
-    private int[] _slotOf;         // position of reaction j in its group's member list
+    // a_j, its group (−1 while a_j = 0) and its position in the group's member list, side by side so an
+    // update of a large network touches one cache line for them.
+    private Entry[] _entries;
     private double[] _groupSum;
     private int[] _groupCount;
     private int[][] _members;
@@ -45,9 +45,7 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
     {
         var selection = new CompositionRejection
         {
-            _values = new double[reactions],
-            _groupOf = new int[reactions],
-            _slotOf = new int[reactions],
+            _entries = new Entry[reactions],
             _groupSum = new double[Groups],
             _groupCount = new int[Groups],
             _members = new int[Groups][],
@@ -55,7 +53,7 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
             _low = Groups,
             _resumEvery = Math.Max(MinimumResumEvery, reactions),
         };
-        Array.Fill(selection._groupOf, -1);
+        Array.Fill(selection._entries, new Entry { Group = -1 });
         selection._untilResum = selection._resumEvery;
         return selection;
     }
@@ -66,7 +64,8 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
         get => _total;
     }
 
-    public readonly ReadOnlySpan<double> Propensities => _values;
+    /// <remarks>Allocates; for messages only.</remarks>
+    public readonly ReadOnlySpan<double> Propensities => _entries.Select(e => e.Value).ToArray();
 
     /// <summary>The group of a positive finite value: its biased binary exponent.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
@@ -80,13 +79,12 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public void Set(int reaction, double propensity)
     {
-        ref var value = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_values), reaction);
-        ref var group = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_groupOf), reaction);
-        var old = value;
-        value = propensity;
+        ref var entry = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_entries), reaction);
+        var old = entry.Value;
+        entry.Value = propensity;
         _total += propensity - old;
         var target = propensity > 0.0 ? GroupOf(propensity) : -1;
-        if (target == group)
+        if (target == entry.Group)
         {
             if (target >= 0) Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_groupSum), target) += propensity - old;
             return;
@@ -97,15 +95,16 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
     /// <summary>Takes the reaction out of its old group (if any) and into <paramref name="target"/> (if ≥ 0).</summary>
     private void Move(int reaction, double old, double propensity, int target)
     {
-        var source = _groupOf[reaction];
+        ref var entry = ref _entries[reaction];
+        var source = entry.Group;
         if (source >= 0)
         {
             var members = _members[source];
             var last = --_groupCount[source];
-            var slot = _slotOf[reaction];
+            var slot = entry.Slot;
             var moved = members[last];
             members[slot] = moved;
-            _slotOf[moved] = slot;
+            _entries[moved].Slot = slot;
             if (last == 0)
             {
                 _groupSum[source] = 0.0;
@@ -113,7 +112,7 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
             }
             else _groupSum[source] -= old;
         }
-        _groupOf[reaction] = target;
+        entry.Group = target;
         if (target < 0) return;
         var list = _members[target];
         var count = _groupCount[target];
@@ -123,7 +122,7 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
             _members[target] = list;
         }
         list[count] = reaction;
-        _slotOf[reaction] = count;
+        entry.Slot = count;
         _groupCount[target] = count + 1;
         _groupSum[target] += propensity;
         if (target > _high) _high = target;
@@ -164,7 +163,7 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
         var members = _members[group];
         var count = (ulong)_groupCount[group];
         var bound = BoundOf(group);
-        ref var value0 = ref MemoryMarshal.GetArrayDataReference(_values);
+        ref var entry0 = ref MemoryMarshal.GetArrayDataReference(_entries);
         ref var member0 = ref MemoryMarshal.GetArrayDataReference(members);
         while (true)
         {
@@ -172,7 +171,7 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
             // ACM Trans. Model. Comput. Simul. 29:3).
             var index = (int)Math.BigMul(rng.NextUInt64(), count, out _);
             var reaction = Unsafe.Add(ref member0, index);
-            if (rng.NextDouble() * bound < Unsafe.Add(ref value0, reaction)) return reaction;
+            if (rng.NextDouble() * bound < Unsafe.Add(ref entry0, reaction).Value) return reaction;
         }
     }
 
@@ -190,12 +189,19 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
         {
             var sum = 0.0;
             var members = _members[g];
-            for (var i = 0; i < _groupCount[g]; i++) sum += _values[members[i]];
+            for (var i = 0; i < _groupCount[g]; i++) sum += _entries[members[i]].Value;
             _groupSum[g] = sum;
             total += sum;
         }
         _total = total;
         _peak = total;
         _untilResum = _resumEvery;
+    }
+
+    private struct Entry
+    {
+        public double Value;
+        public int Group;
+        public int Slot;
     }
 }

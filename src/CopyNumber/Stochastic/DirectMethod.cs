@@ -60,6 +60,9 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     /// events have fired, or <paramref name="events"/> reaches <paramref name="maxEvents"/>.
     /// Propensities must be current (<see cref="Refresh"/>) on entry.
     /// </summary>
+    // Fully optimised from the first call: a replicate spends its whole life in one call of this loop, so
+    // waiting for tiered compilation would run long replicates in on-stack-replacement code.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     internal SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, long budget, GridRecorder recorder, ref long events, long maxEvents)
     {
         var state = State;

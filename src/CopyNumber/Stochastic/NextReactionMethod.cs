@@ -67,6 +67,9 @@ internal sealed class NextReactionMethod : ExactSimulation
         }
     }
 
+    // Fully optimised from the first call: a replicate spends its whole life in one call of this loop, so
+    // waiting for tiered compilation would run long replicates in on-stack-replacement code.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     protected override SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, GridRecorder recorder, ref long events, long maxEvents)
     {
         var state = State;
