@@ -20,13 +20,15 @@ internal static class QuickTiming
             return;
         }
         var scenario = args.Length > 1 ? args[1] : "promoter_switch.cnet";
-        var until = args.Length > 2 ? double.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture) : 2000.0;
-        var network = BenchmarkModels.Load(scenario);
-        foreach (var method in new[] { SimulationMethod.Direct, SimulationMethod.NextReaction, SimulationMethod.TauLeap })
+        var highCopy = scenario == "high-copy";
+        var until = highCopy ? HighCopyModel.Until : args.Length > 2 ? double.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture) : 2000.0;
+        var network = highCopy ? HighCopyModel.Load() : BenchmarkModels.Load(scenario);
+        var grid = highCopy ? new TimeGrid(until, HighCopyModel.Every) : new TimeGrid(until, until / 100);
+        foreach (var method in Enum.GetValues<SimulationMethod>())
         {
             var simulator = SimulatorFactory.Create(method, network, new SimulatorOptions());
-            var (wall, cpu) = Measure(simulator, new TimeGrid(until, until / 100));
-            Console.WriteLine($"{method,-14} {wall / 1e6,8:F2} M events/s (wall)  {cpu / 1e6,8:F2} M events per CPU-second");
+            var (wall, cpu) = Measure(simulator, grid);
+            Console.WriteLine($"{method,-21} {wall / 1e6,8:F2} M events/s (wall)  {cpu / 1e6,8:F2} M events per CPU-second");
         }
     }
 
