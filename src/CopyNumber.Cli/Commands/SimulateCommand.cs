@@ -12,14 +12,14 @@ namespace CopyNumber.Cli.Commands;
 /// <summary><c>copynumber simulate MODEL --until T --every DT --replicates R</c>: a stochastic ensemble.</summary>
 internal static class SimulateCommand
 {
-    private static readonly string[] MethodNames = ["direct", "next-reaction", "tau-leap"];
+    private static readonly string[] MethodNames = ["auto", "direct", "next-reaction", "tau-leap", "composition-rejection"];
 
     public static Command Create()
     {
         var model = ModelArgument.Create();
         var grid = new GridOptions();
         var replicates = new Option<long>("--replicates") { Description = "Number of independent replicates.", Required = true };
-        var method = new Option<string>("--method") { Description = "direct (Gillespie's direct method), next-reaction (Gibson-Bruck) or tau-leap (adaptive explicit tau-leaping).", DefaultValueFactory = _ => "direct" };
+        var method = new Option<string>("--method") { Description = "auto (chosen from the network's size and copy numbers; the reason is printed), direct (Gillespie's direct method), next-reaction (Gibson-Bruck), tau-leap (adaptive explicit tau-leaping) or composition-rejection (for large networks).", DefaultValueFactory = _ => "auto" };
         method.AcceptOnlyFromAmong(MethodNames);
         var epsilon = new Option<double>("--epsilon") { Description = "Tau-leaping error control: the largest relative change of any propensity in one leap, in (0, 1).", DefaultValueFactory = _ => 0.03 };
         var seed = new Option<ulong?>("--seed") { Description = "Run seed; without it one is drawn and recorded in manifest.json." };
@@ -48,15 +48,17 @@ internal static class SimulateCommand
             if (limit < 1) throw new UserInputException($"--max-events must be at least 1 (got {limit})");
             var pathCount = ReadPaths(parsed.GetValue(paths), replicateCount);
             var chosen = parsed.GetValue(method)!;
-            var simulationMethod = chosen switch
-            {
-                "next-reaction" => SimulationMethod.NextReaction,
-                "tau-leap" => SimulationMethod.TauLeap,
-                _ => SimulationMethod.Direct,
-            };
             var runSeed = parsed.GetValue(seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
 
             var loaded = ModelArgument.Load(parsed.GetValue(model)!);
+            var (simulationMethod, methodReason) = chosen switch
+            {
+                "auto" => MethodChooser.Choose(loaded.Network, timeGrid),
+                "next-reaction" => (SimulationMethod.NextReaction, $"{chosen} was requested"),
+                "tau-leap" => (SimulationMethod.TauLeap, $"{chosen} was requested"),
+                "composition-rejection" => (SimulationMethod.CompositionRejection, $"{chosen} was requested"),
+                _ => (SimulationMethod.Direct, $"{chosen} was requested"),
+            };
             var folder = OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
             var options = new EnsembleOptions
             {
@@ -80,11 +82,12 @@ internal static class SimulateCommand
                 ["paths"] = pathCount.ToString(CultureInfo.InvariantCulture),
                 ["max_events"] = limit == long.MaxValue ? "none" : limit.ToString(CultureInfo.InvariantCulture),
             };
-            var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, $"{chosen} was requested");
+            var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, methodReason);
 
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
-            error.WriteLine($"simulating {loaded.Network.Name}: {replicateCount} replicates, method {chosen}, seed {runSeed}, {threadCount} threads -> {folder}");
+            error.WriteLine($"simulating {loaded.Network.Name}: {replicateCount} replicates, method {NameOf(simulationMethod)}, seed {runSeed}, {threadCount} threads -> {folder}");
+            error.WriteLine($"method: {methodReason}");
             var monitor = new EnsembleMonitor();
             SimulationOutcome outcome;
             using (var interrupt = new InterruptSignal())
@@ -106,6 +109,14 @@ internal static class SimulateCommand
         });
         return command;
     }
+
+    private static string NameOf(SimulationMethod method) => method switch
+    {
+        SimulationMethod.NextReaction => "next-reaction",
+        SimulationMethod.TauLeap => "tau-leap",
+        SimulationMethod.CompositionRejection => "composition-rejection",
+        _ => "direct",
+    };
 
     private static long ReadPaths(string? text, long replicates)
     {
