@@ -1,1 +1,4 @@
-BenchmarkDotNet.Running.BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);
+using CopyNumber.Benchmarks;
+
+if (args.Length > 0 && args[0] == "quick") QuickTiming.Run(args);
+else BenchmarkDotNet.Running.BenchmarkSwitcher.FromAssembly(typeof(Program).Assembly).Run(args);

@@ -12,7 +12,7 @@ namespace CopyNumber.Cli.Commands;
 /// <summary><c>copynumber simulate MODEL --until T --every DT --replicates R</c>: a stochastic ensemble.</summary>
 internal static class SimulateCommand
 {
-    private static readonly string[] MethodNames = ["direct", "next-reaction", "tau-leap"];
+    private static readonly string[] MethodNames = ["auto", "direct", "next-reaction", "tau-leap", "composition-rejection"];
 
     /// <summary>Most worker threads accepted; more only add memory and contention.</summary>
     public static readonly int MaxThreads = Math.Max(1024, 4 * Environment.ProcessorCount);
@@ -22,7 +22,7 @@ internal static class SimulateCommand
         var model = ModelArgument.Create();
         var grid = new GridOptions();
         var replicates = new Option<long>("--replicates") { Description = "Number of independent replicates.", Required = true };
-        var method = new Option<string>("--method") { Description = "direct (Gillespie's direct method), next-reaction (Gibson-Bruck) or tau-leap (adaptive explicit tau-leaping).", DefaultValueFactory = _ => "direct" };
+        var method = new Option<string>("--method") { Description = "auto (chosen from the network's size and copy numbers; the reason is printed), direct (Gillespie's direct method), next-reaction (Gibson-Bruck), tau-leap (adaptive explicit tau-leaping) or composition-rejection (for large networks).", DefaultValueFactory = _ => "auto" };
         method.AcceptOnlyFromAmong(MethodNames);
         var epsilon = new Option<double>("--epsilon") { Description = "Tau-leaping error control: the largest relative change of any propensity in one leap, in (0, 1).", DefaultValueFactory = _ => 0.03 };
         var seed = new Option<ulong?>("--seed") { Description = "Run seed; without it one is drawn and recorded in manifest.json." };
@@ -82,15 +82,17 @@ internal static class SimulateCommand
             var pathCount = ReadPaths(Pick(paths, "paths", t => t == "0" ? null : t), replicateCount);
             var runShard = ReadShard(Pick(shard, ManifestFields.ShardArgument, t => t), replicateCount);
             var chosen = Pick(method, "method", t => MethodNames.Contains(t) ? t : throw new FormatException($"unknown method '{t}'"));
-            var simulationMethod = chosen switch
-            {
-                "next-reaction" => SimulationMethod.NextReaction,
-                "tau-leap" => SimulationMethod.TauLeap,
-                _ => SimulationMethod.Direct,
-            };
             var runSeed = Pick(seed, "seed", t => (ulong?)ulong.Parse(t, CultureInfo.InvariantCulture)) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
 
             var loaded = ModelArgument.Load(parsed.GetValue(model)!);
+            var (simulationMethod, methodReason) = chosen switch
+            {
+                "auto" => MethodChooser.Choose(loaded.Network, timeGrid),
+                "next-reaction" => (SimulationMethod.NextReaction, $"{chosen} was requested"),
+                "tau-leap" => (SimulationMethod.TauLeap, $"{chosen} was requested"),
+                "composition-rejection" => (SimulationMethod.CompositionRejection, $"{chosen} was requested"),
+                _ => (SimulationMethod.Direct, $"{chosen} was requested"),
+            };
             var options = new EnsembleOptions
             {
                 Grid = timeGrid,
@@ -126,7 +128,7 @@ internal static class SimulateCommand
                 return ExitCodes.Done;
             }
             var folder = stored?.Folder ?? OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
-            var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, $"{chosen} was requested")
+            var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, methodReason)
             {
                 WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
                 Resume = stored is not null,
@@ -135,7 +137,7 @@ internal static class SimulateCommand
             var shardText = runShard.IsWhole ? "" : $", shard {runShard}";
             var toRun = ShardReplicates(options) - (stored?.Manifest.ReplicatesFinished ?? 0);
             error.WriteLine(stored is null
-                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {chosen}, seed {runSeed}, {threadCount} threads -> {folder}"
+                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {MethodName(simulationMethod)} ({methodReason}), seed {runSeed}, {threadCount} threads -> {folder}"
                 : $"resuming {loaded.Network.Name} in {folder}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {chosen}, seed {runSeed}, {threadCount} threads");
             var monitor = new EnsembleMonitor();
             SimulationOutcome outcome;
@@ -153,6 +155,22 @@ internal static class SimulateCommand
         });
         return command;
     }
+
+    private static string NameOf(SimulationMethod method) => method switch
+    {
+        SimulationMethod.NextReaction => "next-reaction",
+        SimulationMethod.TauLeap => "tau-leap",
+        SimulationMethod.CompositionRejection => "composition-rejection",
+        _ => "direct",
+    };
+
+    private static string MethodName(SimulationMethod method) => method switch
+    {
+        SimulationMethod.NextReaction => "next-reaction",
+        SimulationMethod.TauLeap => "tau-leap",
+        SimulationMethod.CompositionRejection => "composition-rejection",
+        _ => "direct",
+    };
 
     private static long ReadPaths(string? text, long replicates)
     {

@@ -24,8 +24,8 @@ internal static class SweepCommand
         var grid = new GridOptions();
         var sizes = new Option<string>("--sizes") { Description = "System sizes Ω, comma-separated, e.g. 1,10,100,1000.", Required = true };
         var replicates = new Option<long>("--replicates") { Description = "Replicates at each size.", Required = true };
-        var method = new Option<string>("--method") { Description = "Simulation method, as for simulate.", DefaultValueFactory = _ => "direct" };
-        method.AcceptOnlyFromAmong("direct", "next-reaction", "tau-leap");
+        var method = new Option<string>("--method") { Description = "Simulation method, as for simulate (auto chooses at each size).", DefaultValueFactory = _ => "auto" };
+        method.AcceptOnlyFromAmong("auto", "direct", "next-reaction", "tau-leap", "composition-rejection");
         var epsilon = new Option<double>("--epsilon") { Description = "Tau-leaping error control in (0, 1).", DefaultValueFactory = _ => 0.03 };
         var seed = new Option<ulong?>("--seed") { Description = "Run seed, shared by every size; drawn and recorded when absent." };
         var threads = new Option<int>("--threads") { Description = "Worker threads.", DefaultValueFactory = _ => Environment.ProcessorCount };
@@ -53,7 +53,6 @@ internal static class SweepCommand
             var thresholds = contrastOptions.Thresholds(parsed);
             var histogramTimes = contrastOptions.Times(parsed);
             var chosen = parsed.GetValue(method)!;
-            var simulationMethod = chosen switch { "next-reaction" => SimulationMethod.NextReaction, "tau-leap" => SimulationMethod.TauLeap, _ => SimulationMethod.Direct };
             var runSeed = parsed.GetValue(seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
             var modelPath = parsed.GetValue(model)!;
             var baseModel = ModelArgument.Load(modelPath);
@@ -66,6 +65,15 @@ internal static class SweepCommand
             foreach (var size in sizeList)
             {
                 var loaded = ModelArgument.Load(modelPath, new CompileOptions(SizeOverride: size));
+                // Copy numbers grow with the size, so auto may choose differently at each size.
+                var (simulationMethod, methodReason) = chosen switch
+                {
+                    "auto" => MethodChooser.Choose(loaded.Network, timeGrid),
+                    "next-reaction" => (SimulationMethod.NextReaction, $"{chosen} was requested"),
+                    "tau-leap" => (SimulationMethod.TauLeap, $"{chosen} was requested"),
+                    "composition-rejection" => (SimulationMethod.CompositionRejection, $"{chosen} was requested"),
+                    _ => (SimulationMethod.Direct, $"{chosen} was requested"),
+                };
                 var folder = Path.Combine(root, "size-" + size.ToString("R", CultureInfo.InvariantCulture));
                 Directory.CreateDirectory(folder);
                 var arguments = new Dictionary<string, string>
@@ -88,11 +96,11 @@ internal static class SweepCommand
                     Simulator = new SimulatorOptions(Epsilon: eps),
                     Threads = threadCount,
                 };
-                error.WriteLine($"size {size.ToString(CultureInfo.InvariantCulture)}: {replicateCount} replicates -> {folder}");
+                error.WriteLine($"size {size.ToString(CultureInfo.InvariantCulture)}: {replicateCount} replicates, {methodReason} -> {folder}");
                 var monitor = new EnsembleMonitor();
                 SimulationOutcome outcome;
                 using (new Rendering.ProgressDisplay(monitor, replicateCount, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
-                    outcome = SimulationRun.Execute(new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, $"{chosen} was requested"), monitor, session.Interrupt);
+                    outcome = SimulationRun.Execute(new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, methodReason), monitor, session.Interrupt);
                 if (outcome.Ensemble.Interrupted)
                 {
                     error.WriteLine($"interrupted during size {size}: the sizes finished so far are in {root}");

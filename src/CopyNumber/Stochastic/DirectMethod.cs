@@ -13,14 +13,18 @@ namespace CopyNumber.Stochastic;
 /// <remarks>
 /// After reaction j fires only the propensities that read a species j changes are recomputed (the
 /// dependency graph of Gibson &amp; Bruck 2000), and the selection structure updates a0 from them. Per event
-/// the loop draws two numbers, walks j's changes and dependents through flat arrays without bounds
-/// checks, evaluates mass-action propensities inline and allocates nothing. A schedule time is a stop:
-/// the pending waiting time is discarded there, which is exact because it is memoryless.
+/// the loop draws two numbers (the exponential by Math.Log, exact), runs j's precompiled
+/// <see cref="FiringProgram"/> — count changes with their overflow headroom, then the unimolecular
+/// updates that need no check, then the rest — and allocates nothing. A total propensity that overflows
+/// to +∞ and a replicate that <see cref="RunawayGuard"/> projects to need more than 10^10 events stop the
+/// run with a message. A schedule time is a stop: the pending waiting time is discarded there, which is
+/// exact because it is memoryless.
 /// </remarks>
 internal sealed class DirectMethod<TSelection> : ExactSimulation
     where TSelection : struct, IReactionSelection<TSelection>
 {
     private readonly ReactionEffects _effects;
+    private readonly FiringProgram _program;
     private TSelection _selection;
 
     public DirectMethod(ReactionNetwork network, SimulatorOptions options)
@@ -32,6 +36,7 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     internal DirectMethod(SimulatorState state, ReactionEffects effects, long maxEvents) : base(state, maxEvents)
     {
         _effects = effects;
+        _program = new FiringProgram(effects, state);
         _selection = TSelection.Create(state.ReactionCount);
     }
 
@@ -45,6 +50,7 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     /// <summary>Re-evaluates every propensity from the current state and re-sums a0.</summary>
     internal void Refresh(double time)
     {
+        _program.RefreshConstants(State);
         for (var j = 0; j < State.ReactionCount; j++) _selection.Set(j, State.Evaluate(j, time));
         _selection.Resum();
     }
@@ -54,13 +60,18 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     /// events have fired, or <paramref name="events"/> reaches <paramref name="maxEvents"/>.
     /// Propensities must be current (<see cref="Refresh"/>) on entry.
     /// </summary>
+    // Fully optimised from the first call: a replicate spends its whole life in one call of this loop, so
+    // waiting for tiered compilation would run long replicates in on-stack-replacement code.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     internal SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, long budget, GridRecorder recorder, ref long events, long maxEvents)
     {
         var state = State;
         var effects = _effects;
+        var program = _program;
         var counts = state.Counts;
         ref var count0 = ref MemoryMarshal.GetArrayDataReference(counts);
-        ref var term0 = ref MemoryMarshal.GetArrayDataReference(state.Terms);
+        ref var header0 = ref program.Headers;
+        ref var update0 = ref program.Updates;
         // Locals, not fields, so the generator's and the selection's state can live in registers.
         var random = rng;
         var selection = _selection;
@@ -71,17 +82,33 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
         while (true)
         {
             var total = selection.Total;
-            var next = total > 0.0 ? t + random.NextExponential() / total : double.PositiveInfinity;
+            double next;
+            if (total > 0.0)
+            {
+                if (total > double.MaxValue) state.ThrowTotalOverflow(t, selection.Propensities);
+                next = t + random.NextExponential() / total;
+            }
+            else next = double.PositiveInfinity;
             if (StopsBefore(next, horizon, fired, maxEvents, out end)) break;
+            if (RunawayGuard.Due(fired, maxEvents) && RunawayGuard.Exceeded(total, t, horizon))
+                state.ThrowRunaway(t, horizon, total, selection.Propensities);
             if (nextGrid < next) nextGrid = recorder.RecordBefore(next, counts);
             t = next;
-            var j = selection.Select(random.NextDouble() * total);
-            effects.Fire(j, ref count0, state, t);
-            foreach (var k in effects.DependentsOf(j))
+            var j = selection.Select(random.NextDouble() * total, ref random);
+            ref var header = ref Unsafe.Add(ref header0, j);
+            program.Fire(ref header, j, ref count0, state, effects, t);
+            var u = header.UpdateStart;
+            for (; u < header.PlainEnd; u++)
             {
-                var a = PropensityTerm.Evaluate(ref Unsafe.Add(ref term0, k), ref count0, k, state);
-                if (!PropensityTerm.IsUsable(a)) state.ThrowBadPropensity(k, a, t);
-                selection.Set(k, a);
+                ref var update = ref Unsafe.Add(ref update0, u);
+                selection.Set(update.Reaction, update.Term.Constant * Unsafe.Add(ref count0, update.Term.SpeciesA));
+            }
+            for (; u < header.UpdateEnd; u++)
+            {
+                ref var update = ref Unsafe.Add(ref update0, u);
+                var a = PropensityTerm.Evaluate(ref update.Term, ref count0, update.Reaction, state);
+                if (!PropensityTerm.IsUsable(a)) state.ThrowBadPropensity(update.Reaction, a, t);
+                selection.Set(update.Reaction, a);
             }
             selection.EndEvent();
             fired++;

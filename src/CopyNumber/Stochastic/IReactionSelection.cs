@@ -1,3 +1,5 @@
+using CopyNumber.Randomness;
+
 namespace CopyNumber.Stochastic;
 
 /// <summary>
@@ -20,10 +22,15 @@ internal interface IReactionSelection<TSelf> where TSelf : struct, IReactionSele
     /// The reaction j whose cumulative interval [Σ_{k&lt;j} a_k, Σ_{k≤j} a_k) holds <paramref name="point"/>,
     /// for 0 ≤ point &lt; <see cref="Total"/>; never a reaction with a_j = 0, even under round-off.
     /// </summary>
-    int Select(double point);
+    /// <param name="point">The point.</param>
+    /// <param name="rng">Further random numbers, for selections that sample within a part (rejection).</param>
+    int Select(double point, ref Xoshiro256StarStar rng);
 
     /// <summary>Called once per event after the updates: a place to stop round-off drift in the total.</summary>
     void EndEvent();
+
+    /// <summary>The stored propensities, indexed by reaction (for messages; not for the inner loop).</summary>
+    ReadOnlySpan<double> Propensities { get; }
 
     /// <summary>Recomputes the total exactly from the stored propensities.</summary>
     void Resum();

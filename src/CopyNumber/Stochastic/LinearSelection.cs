@@ -1,4 +1,6 @@
 using System.Runtime.CompilerServices;
+using CopyNumber.Randomness;
+using System.Runtime.InteropServices;
 
 namespace CopyNumber.Stochastic;
 
@@ -29,14 +31,21 @@ internal struct LinearSelection : IReactionSelection<LinearSelection>
         get => _total;
     }
 
+    public readonly ReadOnlySpan<double> Propensities => _values;
+
+    /// <remarks>No bounds check: the simulators pass only reaction indices validated when their programs were built.</remarks>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public void Set(int reaction, double propensity)
     {
-        ref var slot = ref _values[reaction];
+        ref var slot = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_values), reaction);
         _total += propensity - slot;
         slot = propensity;
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly int Select(double point, ref Xoshiro256StarStar rng) => Select(point);
+
+    /// <summary>The reaction whose cumulative interval holds <paramref name="point"/>; needs no further random numbers.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public readonly int Select(double point)
     {

@@ -21,6 +21,7 @@ namespace CopyNumber.Stochastic;
 internal sealed class NextReactionMethod : ExactSimulation
 {
     private readonly ReactionEffects _effects;
+    private readonly FiringProgram _program;
     private readonly IndexedPriorityQueue _queue;
     private readonly double[] _propensity;
     private readonly double[] _parked;   // unit-rate exponential kept while a_j = 0
@@ -30,6 +31,7 @@ internal sealed class NextReactionMethod : ExactSimulation
         : base(new SimulatorState(network), options.MaxEvents)
     {
         _effects = new ReactionEffects(network, includeFired: true);
+        _program = new FiringProgram(_effects, State);
         var m = State.ReactionCount;
         _queue = new IndexedPriorityQueue(m);
         _propensity = new double[m];
@@ -39,6 +41,7 @@ internal sealed class NextReactionMethod : ExactSimulation
 
     protected override void Begin(ref Xoshiro256StarStar rng, double time)
     {
+        _program.RefreshConstants(State);
         for (var j = 0; j < _propensity.Length; j++)
         {
             var a = State.Evaluate(j, time);
@@ -56,6 +59,7 @@ internal sealed class NextReactionMethod : ExactSimulation
 
     protected override void AfterSchedule(double time)
     {
+        _program.RefreshConstants(State);
         for (var j = 0; j < _propensity.Length; j++)
         {
             var a = State.Evaluate(j, time);
@@ -63,14 +67,19 @@ internal sealed class NextReactionMethod : ExactSimulation
         }
     }
 
+    // Fully optimised from the first call: a replicate spends its whole life in one call of this loop, so
+    // waiting for tiered compilation would run long replicates in on-stack-replacement code.
+    [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     protected override SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, GridRecorder recorder, ref long events, long maxEvents)
     {
         var state = State;
         var effects = _effects;
+        var program = _program;
         var counts = state.Counts;
         var queue = _queue;
         ref var count0 = ref MemoryMarshal.GetArrayDataReference(counts);
-        ref var term0 = ref MemoryMarshal.GetArrayDataReference(state.Terms);
+        ref var header0 = ref program.Headers;
+        ref var update0 = ref program.Updates;
         ref var propensity0 = ref MemoryMarshal.GetArrayDataReference(_propensity);
         var random = rng;
         var t = time;
@@ -81,13 +90,17 @@ internal sealed class NextReactionMethod : ExactSimulation
         {
             var next = queue.TopKey;
             if (StopsBefore(next, horizon, fired, maxEvents, out end)) break;
+            if (RunawayGuard.Due(fired, maxEvents)) CheckRunaway(t, horizon);
             if (nextGrid < next) nextGrid = recorder.RecordBefore(next, counts);
             t = next;
             var mu = queue.Top;
-            effects.Fire(mu, ref count0, state, t);
-            foreach (var k in effects.DependentsOf(mu))
+            ref var header = ref Unsafe.Add(ref header0, mu);
+            program.Fire(ref header, mu, ref count0, state, effects, t);
+            for (var u = header.UpdateStart; u < header.UpdateEnd; u++)
             {
-                var a = PropensityTerm.Evaluate(ref Unsafe.Add(ref term0, k), ref count0, k, state);
+                ref var update = ref Unsafe.Add(ref update0, u);
+                var k = update.Reaction;
+                var a = PropensityTerm.Evaluate(ref update.Term, ref count0, k, state);
                 if (!PropensityTerm.IsUsable(a)) state.ThrowBadPropensity(k, a, t);
                 if (k == mu)
                 {
@@ -107,6 +120,15 @@ internal sealed class NextReactionMethod : ExactSimulation
         events = fired;
         time = t;
         return Finish(end, ref time, horizon, recorder, counts);
+    }
+
+    /// <summary>The runaway projection needs a0, which this method does not keep: summed here, every 2^16 events.</summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    private void CheckRunaway(double time, double horizon)
+    {
+        var total = 0.0;
+        foreach (var a in _propensity) total += a;
+        if (RunawayGuard.Exceeded(total, time, horizon)) State.ThrowRunaway(time, horizon, total, _propensity);
     }
 
     /// <summary>Moves reaction k's putative time to its new propensity, reusing its random number.</summary>

@@ -1,5 +1,4 @@
 using System.Runtime.CompilerServices;
-using System.Runtime.InteropServices;
 using CopyNumber.Kinetics;
 using CopyNumber.Network;
 
@@ -8,7 +7,8 @@ namespace CopyNumber.Stochastic;
 /// <summary>
 /// What one firing of each reaction does, flattened for the inner loops: the count changes (the sparse
 /// column of N) and the reactions whose propensities must then be recomputed (the dependency graph's
-/// rows; Gibson &amp; Bruck 2000). Every index is checked here once, so the loops may skip bounds checks.
+/// rows; Gibson &amp; Bruck 2000). Every index is checked here once, so the programs compiled from these
+/// lists (<see cref="FiringProgram"/>) may skip bounds checks.
 /// </summary>
 internal sealed class ReactionEffects
 {
@@ -74,37 +74,6 @@ internal sealed class ReactionEffects
     /// <summary>True for rate-law reactions that consume a species: their firing must be checked.</summary>
     public bool[] MayMakeNegative { get; }
 
-    /// <summary>
-    /// One firing of <paramref name="reaction"/> on the counts whose element 0 is <paramref name="count0"/>,
-    /// checked when a rate law could have over-consumed. For the inner loops: no bounds checks.
-    /// </summary>
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public void Fire(int reaction, ref long count0, SimulatorState state, double time)
-    {
-        ref var start0 = ref MemoryMarshal.GetArrayDataReference(ChangeStart);
-        ref var species0 = ref MemoryMarshal.GetArrayDataReference(ChangeSpecies);
-        ref var amount0 = ref MemoryMarshal.GetArrayDataReference(ChangeAmount);
-        var end = Unsafe.Add(ref start0, reaction + 1);
-        for (var e = Unsafe.Add(ref start0, reaction); e < end; e++)
-            Unsafe.Add(ref count0, Unsafe.Add(ref species0, e)) += Unsafe.Add(ref amount0, e);
-        if (Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(MayMakeNegative), reaction)) CheckFiring(reaction, state, time);
-    }
-
-    /// <summary>The reactions to re-evaluate after <paramref name="reaction"/> fires (sorted); no bounds checks.</summary>
-    [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public ReadOnlySpan<int> DependentsOf(int reaction)
-    {
-        ref var start0 = ref MemoryMarshal.GetArrayDataReference(DependentStart);
-        var start = Unsafe.Add(ref start0, reaction);
-        return MemoryMarshal.CreateReadOnlySpan(ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(Dependents), start), Unsafe.Add(ref start0, reaction + 1) - start);
-    }
-
-    /// <summary>Applies <paramref name="firings"/> firings of <paramref name="reaction"/> to <paramref name="counts"/>.</summary>
-    public void Apply(int reaction, long[] counts, long firings)
-    {
-        for (var e = ChangeStart[reaction]; e < ChangeStart[reaction + 1]; e++)
-            counts[ChangeSpecies[e]] += firings * ChangeAmount[e];
-    }
 
     /// <summary>The first species of <paramref name="reaction"/>'s changes that is negative in <paramref name="counts"/>, or −1.</summary>
     public int FirstNegative(int reaction, long[] counts)

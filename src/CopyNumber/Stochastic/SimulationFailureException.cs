@@ -35,6 +35,39 @@ public sealed class SimulationFailureException : Exception
     internal static SimulationFailureException ScheduleMadeNegative(ScheduledChange change, long result) =>
         new($"at time {Number(change.Time)} the schedule makes species '{change.TargetName}' {result}; copy numbers cannot be negative", change.Time);
 
+    internal static SimulationFailureException CountOverflow(ReactionNetwork network, int reaction, int species, long amount, double time, long[] counts) =>
+        new($"reaction '{network.Reactions[reaction].Name}' fired at time {Number(time)} would take species '{network.Species[species]}' from " +
+            $"{counts[species].ToString(CultureInfo.InvariantCulture)} by {amount.ToString(CultureInfo.InvariantCulture)} past 2^62 = {FiringProgram.CountLimit.ToString(CultureInfo.InvariantCulture)} copies, " +
+            $"beyond what a 64-bit count holds safely; {Explosive(network, species)} (state: {State(network, counts)})", time);
+
+    private static string Explosive(ReactionNetwork network, int species) =>
+        $"the network is probably explosive: give '{network.Species[species]}' a decay or bound its production, or stop replicates earlier with --max-events";
+
+    internal static SimulationFailureException LeapOverflow(ReactionNetwork network, int reaction, int species, double change, long before, double time, long[] counts) =>
+        new($"a tau-leap at time {Number(time)} would change species '{network.Species[species]}' from {before.ToString(CultureInfo.InvariantCulture)} " +
+            $"by {Number(change)} through reaction '{network.Reactions[reaction].Name}', past 2^62 = {FiringProgram.CountLimit.ToString(CultureInfo.InvariantCulture)} copies, " +
+            $"beyond what a 64-bit count holds safely; {Explosive(network, species)} (state: {State(network, counts)})", time);
+
+    internal static SimulationFailureException LeapTooLarge(ReactionNetwork network, int reaction, double mean, double time, long[] counts) =>
+        new($"a tau-leap at time {Number(time)} would fire reaction '{network.Reactions[reaction].Name}' about {Number(mean)} times, " +
+            $"more than the Poisson sampler supports (2^52); the network is probably explosive: add a decay or bound the growth, " +
+            $"or stop replicates earlier with --max-events (state: {State(network, counts)})", time);
+
+    internal static SimulationFailureException TotalPropensityOverflow(ReactionNetwork network, int largest, double time, long[] counts) =>
+        new($"at time {Number(time)} the propensities add up to more than the largest double (the biggest is reaction " +
+            $"'{ReactionName(network, largest)}'), so the next event time cannot be computed; the network is probably explosive: " +
+            $"add a decay or check the rate constants, or stop replicates earlier with --max-events (state: {State(network, counts)})", time);
+
+    internal static SimulationFailureException Runaway(ReactionNetwork network, int largest, double total, double time, double horizon, long[] counts) =>
+        new($"the run looks explosive: at time {Number(time)} the propensities add up to {Number(total)} events per unit time " +
+            $"(the biggest is reaction '{ReactionName(network, largest)}'), so reaching time {Number(horizon)} would take about " +
+            $"{Number(Math.Round(total * (horizon - time), 0))} more events in this replicate, more than {Number(RunawayGuard.EventBound)}; " +
+            $"add a decay or bound the growth, shorten the run, use tau-leaping, or set --max-events to run it anyway with each replicate " +
+            $"stopped after that many events (state: {State(network, counts)})", time);
+
+    private static string ReactionName(ReactionNetwork network, int reaction) =>
+        reaction >= 0 && reaction < network.Reactions.Count ? network.Reactions[reaction].Name : "?";
+
     private static string Number(double value) => value.ToString("G", CultureInfo.InvariantCulture);
 
     /// <summary>The first species as name=count; enough to locate the problem without flooding the terminal.</summary>

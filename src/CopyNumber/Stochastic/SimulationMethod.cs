@@ -12,4 +12,9 @@ public enum SimulationMethod
     /// approximate, the error controlled by <see cref="SimulatorOptions.Epsilon"/>.
     /// </summary>
     TauLeap,
+    /// <summary>
+    /// The direct method with composition–rejection selection (Slepoy, Thompson &amp; Plimpton 2008, J. Chem.
+    /// Phys. 128:205101): exact, with a cost per event that hardly grows with the number of reactions.
+    /// </summary>
+    CompositionRejection,
 }

@@ -26,6 +26,7 @@ public static class SimulatorFactory
             SimulationMethod.Direct when large => new DirectMethod<SumTreeSelection>(network, options),
             SimulationMethod.Direct => new DirectMethod<LinearSelection>(network, options),
             SimulationMethod.NextReaction => new NextReactionMethod(network, options),
+            SimulationMethod.CompositionRejection => new DirectMethod<CompositionRejection>(network, options),
             SimulationMethod.TauLeap when large => new TauLeaping<SumTreeSelection>(network, options),
             SimulationMethod.TauLeap => new TauLeaping<LinearSelection>(network, options),
             _ => throw new ArgumentOutOfRangeException(nameof(method), method, "unknown simulation method"),

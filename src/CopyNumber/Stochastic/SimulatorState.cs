@@ -51,6 +51,9 @@ internal sealed class SimulatorState
     public int SpeciesCount => Counts.Length;
     public int ReactionCount => Terms.Length;
 
+    /// <summary>Changes whenever <see cref="Constants"/> are recomputed, so copies of them know when to follow.</summary>
+    public int ConstantsVersion { get; private set; }
+
     /// <summary>Back to the network's initial counts and parameter values, constants recomputed.</summary>
     public void Reset()
     {
@@ -76,6 +79,7 @@ internal sealed class SimulatorState
     {
         _propensities.ComputeConstants(Parameters, Constants);
         for (var j = 0; j < Terms.Length; j++) Terms[j].Constant = Constants[j];
+        ConstantsVersion++;
     }
 
     /// <summary>The general mass-action product or a rate law, kept out of line so the common forms stay small.</summary>
@@ -97,6 +101,35 @@ internal sealed class SimulatorState
     [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
     public void ThrowFiringMadeNegative(int reaction, int species, double time) =>
         throw SimulationFailureException.FiringMadeNegative(_network, reaction, species, time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowCountOverflow(int reaction, int species, long amount, double time) =>
+        throw SimulationFailureException.CountOverflow(_network, reaction, species, amount, time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowLeapOverflow(int reaction, int species, double change, double time, long before) =>
+        throw SimulationFailureException.LeapOverflow(_network, reaction, species, change, before, time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowLeapTooLarge(int reaction, double mean, double time) =>
+        throw SimulationFailureException.LeapTooLarge(_network, reaction, mean, time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowTotalOverflow(double time, ReadOnlySpan<double> propensities) =>
+        throw SimulationFailureException.TotalPropensityOverflow(_network, LargestOf(propensities), time, Counts);
+
+    [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
+    public void ThrowRunaway(double time, double horizon, double total, ReadOnlySpan<double> propensities) =>
+        throw SimulationFailureException.Runaway(_network, LargestOf(propensities), total, time, horizon, Counts);
+
+    /// <summary>The reaction with the largest propensity (ties: the first), or −1 for an empty span.</summary>
+    private static int LargestOf(ReadOnlySpan<double> propensities)
+    {
+        var best = -1;
+        for (var j = 0; j < propensities.Length; j++)
+            if (best < 0 || propensities[j] > propensities[best] || double.IsNaN(propensities[j])) best = j;
+        return best;
+    }
 
     private static int CheckedSpecies(int index, int species) =>
         (uint)index < (uint)species ? index : throw new ArgumentException($"a propensity reads species index {index}, outside the network's {species} species");

@@ -1,5 +1,6 @@
 using System.Numerics;
 using System.Runtime.CompilerServices;
+using CopyNumber.Randomness;
 
 namespace CopyNumber.Stochastic;
 
@@ -14,11 +15,12 @@ internal struct SumTreeSelection : IReactionSelection<SumTreeSelection>
     // Node 1 is the root; node i has children 2i and 2i+1; leaf of reaction j is node _leaves + j.
     private double[] _nodes;
     private int _leaves;
+    private int _reactions;
 
     public static SumTreeSelection Create(int reactions)
     {
         var leaves = (int)BitOperations.RoundUpToPowerOf2((uint)Math.Max(reactions, 1));
-        return new SumTreeSelection { _nodes = new double[2 * leaves], _leaves = leaves };
+        return new SumTreeSelection { _nodes = new double[2 * leaves], _leaves = leaves, _reactions = reactions };
     }
 
     public readonly double Total
@@ -26,6 +28,8 @@ internal struct SumTreeSelection : IReactionSelection<SumTreeSelection>
         [MethodImpl(MethodImplOptions.AggressiveInlining)]
         get => _nodes[1];
     }
+
+    public readonly ReadOnlySpan<double> Propensities => _nodes.AsSpan(_leaves, _reactions);
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public readonly void Set(int reaction, double propensity)
@@ -36,6 +40,10 @@ internal struct SumTreeSelection : IReactionSelection<SumTreeSelection>
         for (i >>= 1; i >= 1; i >>= 1) nodes[i] = nodes[2 * i] + nodes[2 * i + 1];
     }
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly int Select(double point, ref Xoshiro256StarStar rng) => Select(point);
+
+    /// <summary>The reaction whose cumulative interval holds <paramref name="point"/>; needs no further random numbers.</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public readonly int Select(double point)
     {

@@ -79,6 +79,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
                 continue;
             }
             var a0 = EvaluateAll(t);
+            if (a0 > double.MaxValue) _state.ThrowTotalOverflow(t, _propensity);
             if (!(a0 > 0.0))
             {
                 t = stop;
@@ -116,7 +117,13 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             var firings = 0L;
             for (var j = 0; j < _firings.Length; j++)
             {
-                var k = !critical[j] && _propensity[j] > 0.0 ? _poisson(ref rng, _propensity[j] * tau) : 0L;
+                var k = 0L;
+                if (!critical[j] && _propensity[j] > 0.0)
+                {
+                    var mean = _propensity[j] * tau;
+                    if (mean > PoissonSampler.MaxMean) _state.ThrowLeapTooLarge(j, mean, t);
+                    k = _poisson(ref rng, mean);
+                }
                 _firings[j] = k;
                 firings += k;
             }
@@ -127,9 +134,10 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             }
 
             Array.Copy(counts, _trial, counts.Length);
+            var overdrawn = false;
             for (var j = 0; j < _firings.Length; j++)
-                if (_firings[j] != 0) _effects.Apply(j, _trial, _firings[j]);
-            if (AnyNegative(_trial))
+                if (_firings[j] != 0) overdrawn |= !ApplyWithinLimit(j, _firings[j], t);
+            if (overdrawn || AnyNegative(_trial))
             {
                 tauPrime = tau / 2;
                 continue;
@@ -142,6 +150,31 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             steps++;
             return true;
         }
+    }
+
+    /// <summary>
+    /// Adds <paramref name="firings"/> firings of reaction <paramref name="reaction"/> to the trial counts;
+    /// stops the run when a count would pass <see cref="FiringProgram.CountLimit"/>, and returns false
+    /// (without finishing) for a loss of more than 2^62 copies, which overdraws the count as surely as any
+    /// rejected leap, before the product can overflow.
+    /// </summary>
+    private bool ApplyWithinLimit(int reaction, long firings, double time)
+    {
+        var start = _effects.ChangeStart;
+        for (var e = start[reaction]; e < start[reaction + 1]; e++)
+        {
+            var species = _effects.ChangeSpecies[e];
+            var amount = _effects.ChangeAmount[e];
+            if (amount > 0)
+            {
+                if (firings > (FiringProgram.CountLimit - _trial[species]) / amount)
+                    _state.ThrowLeapOverflow(reaction, species, firings * (double)amount, time, _trial[species]);
+                _trial[species] += firings * amount;
+            }
+            else if (firings > FiringProgram.CountLimit / -amount) return false;
+            else _trial[species] += firings * amount;
+        }
+        return true;
     }
 
     private double EvaluateAll(double time)

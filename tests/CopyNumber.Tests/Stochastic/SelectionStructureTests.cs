@@ -61,4 +61,38 @@ public sealed class SelectionStructureTests
             Assert.Equal(keys[item], queue.Key(item));
         }
     }
+
+    [Fact]
+    public void CompositionRejectionPicksReactionsInProportionToTheirPropensities()
+    {
+        // The selection is random (rejection within a group), so its frequencies are tested: after many
+        // updates that move reactions between groups (values spread over 2^-20 … 2^20, some 0), 200 000
+        // selections must follow a_j/a0 by Pearson's chi-square test (Pearson 1900), the exact
+        // composition–rejection distribution (Slepoy, Thompson & Plimpton 2008, J. Chem. Phys. 128:205101).
+        const int m = 40;
+        var rng = new Xoshiro256StarStar(2008);
+        var selection = CompositionRejection.Create(m);
+        var values = new double[m];
+        for (var change = 0; change < 5_000; change++)
+        {
+            var j = (int)(rng.NextUInt64() % m);
+            values[j] = rng.NextDouble() < 0.2 ? 0.0 : Math.Pow(2, 40 * rng.NextDouble() - 20);
+            selection.Set(j, values[j]);
+        }
+        selection.Resum();
+        var total = values.Sum();
+        Assert.Equal(total, selection.Total, 9);
+        const int draws = 200_000;
+        var hits = new long[m];
+        for (var draw = 0; draw < draws; draw++)
+        {
+            var j = selection.Select(rng.NextDouble() * selection.Total, ref rng);
+            Assert.True(values[j] > 0, $"reaction {j} with propensity 0 was selected");
+            hits[j]++;
+        }
+        // One sample per draw (the index), so the goodness-of-fit test of SamplingChecks applies to it.
+        var samples = new List<long>(draws);
+        for (var j = 0; j < m; j++) for (var h = 0; h < hits[j]; h++) samples.Add(j);
+        SamplingChecks.FollowsDistribution(samples, k => values[k] / total, "composition-rejection selection");
+    }
 }

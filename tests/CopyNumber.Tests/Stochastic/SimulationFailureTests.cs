@@ -18,7 +18,7 @@ public sealed class SimulationFailureTests
     public static TheoryData<SimulationMethod, double> BadValues()
     {
         var data = new TheoryData<SimulationMethod, double>();
-        foreach (var method in new[] { SimulationMethod.Direct, SimulationMethod.NextReaction, SimulationMethod.TauLeap })
+        foreach (var method in new[] { SimulationMethod.Direct, SimulationMethod.NextReaction, SimulationMethod.TauLeap, SimulationMethod.CompositionRejection })
             foreach (var value in new[] { -1.0, double.NaN, double.PositiveInfinity })
                 data.Add(method, value);
         return data;

@@ -11,12 +11,14 @@ internal static class Simulators
         SimulationMethod.Direct,
         SimulationMethod.NextReaction,
         SimulationMethod.TauLeap,
+        SimulationMethod.CompositionRejection,
     };
 
     public static readonly TheoryData<SimulationMethod> ExactMethods = new()
     {
         SimulationMethod.Direct,
         SimulationMethod.NextReaction,
+        SimulationMethod.CompositionRejection,
     };
 
     public static IStochasticSimulator Create(SimulationMethod method, ReactionNetwork network, SimulatorOptions options) =>

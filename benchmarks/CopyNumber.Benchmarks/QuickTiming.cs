@@ -1,0 +1,97 @@
+using System.Diagnostics;
+using CopyNumber.Network;
+using CopyNumber.Randomness;
+using CopyNumber.Stochastic;
+
+namespace CopyNumber.Benchmarks;
+
+/// <summary>
+/// A quick events-per-second probe for development on a loaded machine: the best of several timed rounds
+/// of fixed-seed replicates (the minimum is the round least disturbed by other processes). Not a
+/// replacement for the BenchmarkDotNet suites, whose figures go into docs/performance.md.
+/// </summary>
+internal static class QuickTiming
+{
+    public static void Run(string[] args)
+    {
+        if (args.Length > 1 && args[1] == "large")
+        {
+            RunLarge(args.Skip(2).Select(int.Parse).DefaultIfEmpty(0).ToArray());
+            return;
+        }
+        var scenario = args.Length > 1 ? args[1] : "promoter_switch.cnet";
+        var highCopy = scenario == "high-copy";
+        var until = highCopy ? HighCopyModel.Until : args.Length > 2 ? double.Parse(args[2], System.Globalization.CultureInfo.InvariantCulture) : 2000.0;
+        var network = highCopy ? HighCopyModel.Load() : BenchmarkModels.Load(scenario);
+        var grid = highCopy ? new TimeGrid(until, HighCopyModel.Every) : new TimeGrid(until, until / 100);
+        foreach (var method in Enum.GetValues<SimulationMethod>())
+        {
+            var simulator = SimulatorFactory.Create(method, network, new SimulatorOptions());
+            var (wall, cpu) = Measure(simulator, grid);
+            Console.WriteLine($"{method,-21} {wall / 1e6,8:F2} M events/s (wall)  {cpu / 1e6,8:F2} M events per CPU-second");
+        }
+    }
+
+    private static void RunLarge(int[] sizes)
+    {
+        if (sizes is [0]) sizes = [10, 100, 1_000, 10_000, 100_000];
+        foreach (var m in sizes)
+        {
+            var network = SyntheticNetwork.Create(m);
+            Console.WriteLine($"M = {m,7}: {DependentsPerEvent(network):F1} propensity updates per event (initial state, propensity-weighted)");
+            foreach (var method in new[] { SimulationMethod.Direct, SimulationMethod.NextReaction, SimulationMethod.CompositionRejection })
+            {
+                var simulator = SimulatorFactory.Create(method, network, new SimulatorOptions(MaxEvents: LargeNetworkBenchmarks.EventsPerInvocation));
+                var (wall, cpu) = Measure(simulator, new TimeGrid(1e9, 1e7), rounds: 5, sameReplicate: true);
+                Console.WriteLine($"M = {m,7} {method,-21} {wall / 1e6,7:F2} M events/s (wall) {cpu / 1e6,7:F2} M events per CPU-second  {1e9 / cpu,7:F1} CPU-ns per event");
+            }
+        }
+    }
+
+    /// <summary>Σ_j a_j·|dependents of j| / a0 at the initial state: the updates an event costs on average.</summary>
+    private static double DependentsPerEvent(ReactionNetwork network)
+    {
+        var effects = new ReactionEffects(network, includeFired: false);
+        var state = new SimulatorState(network);
+        state.Reset();
+        double weighted = 0, total = 0;
+        for (var j = 0; j < state.ReactionCount; j++)
+        {
+            var a = state.Evaluate(j, 0);
+            weighted += a * (effects.DependentStart[j + 1] - effects.DependentStart[j]);
+            total += a;
+        }
+        return weighted / total;
+    }
+
+    /// <summary>
+    /// Best events per wall-clock second and per CPU second of this process over rounds of about 0.2 s
+    /// each. On a shared machine the CPU figure is the steadier one: time the scheduler gives to other
+    /// processes is not counted.
+    /// </summary>
+    public static (double Wall, double Cpu) Measure(IStochasticSimulator simulator, TimeGrid grid, int rounds = 15, bool sameReplicate = false)
+    {
+        var observer = new DiscardObserver();
+        var process = Process.GetCurrentProcess();
+        double bestWall = 0.0, bestCpu = 0.0;
+        for (var round = 0; round < rounds; round++)
+        {
+            process.Refresh();
+            var cpuStart = process.TotalProcessorTime;
+            var clock = Stopwatch.StartNew();
+            var events = 0L;
+            var replicate = 0L;
+            while (clock.ElapsedMilliseconds < 200)
+            {
+                var rng = ReplicateStreams.For(2026, sameReplicate ? 0 : replicate++);
+                events += simulator.Run(ref rng, grid, observer).Events;
+            }
+            var wall = clock.Elapsed.TotalSeconds;
+            process.Refresh();
+            var cpu = (process.TotalProcessorTime - cpuStart).TotalSeconds;
+            bestWall = Math.Max(bestWall, events / wall);
+            if (cpu > 0) bestCpu = Math.Max(bestCpu, events / cpu);
+        }
+        return (bestWall, bestCpu);
+    }
+}

@@ -1,0 +1,153 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
+using CopyNumber.Kinetics;
+
+namespace CopyNumber.Stochastic;
+
+/// <summary>
+/// What one firing of each reaction does, precompiled as a flat instruction list for the exact methods'
+/// inner loops: the count changes, each with its overflow headroom, then the propensity updates of the
+/// reactions that read a changed species (the dependency graph of Gibson &amp; Bruck 2000, J. Phys. Chem. A
+/// 104:1876), each carrying its own propensity term so an update reads one small record and one count.
+/// </summary>
+/// <remarks>
+/// Overflow: no count may exceed <see cref="CountLimit"/> = 2^62. A change of +d is allowed only while
+/// the count is at most 2^62 − d, one compare per change (negative changes get a headroom that never
+/// trips). Below 2^62 a count converts to double and multiplies in the bimolecular forms without
+/// overflowing, and the sum of two counts still fits in a long.
+/// The terms' constants are copies: <see cref="RefreshConstants"/> must follow every parameter change.
+/// </remarks>
+internal sealed class FiringProgram
+{
+    /// <summary>The largest copy number a simulator lets a species reach: 2^62.</summary>
+    public const long CountLimit = 1L << 62;
+
+    private readonly Header[] _headers;
+    private readonly CountChange[] _changes;
+    private readonly PropensityUpdate[] _updates;
+    private int _constantsVersion = -1;
+
+    /// <summary>Compiles the program from the effects' changes and dependents and the state's terms.</summary>
+    public FiringProgram(ReactionEffects effects, SimulatorState state)
+    {
+        var reactions = state.ReactionCount;
+        _headers = new Header[reactions];
+        _changes = new CountChange[effects.ChangeSpecies.Length];
+        _updates = new PropensityUpdate[effects.Dependents.Length];
+        for (var j = 0; j < reactions; j++)
+        {
+            _headers[j] = new Header
+            {
+                ChangeStart = effects.ChangeStart[j],
+                ChangeEnd = effects.ChangeStart[j + 1],
+                UpdateStart = effects.DependentStart[j],
+                UpdateEnd = effects.DependentStart[j + 1],
+                CheckConsumption = effects.MayMakeNegative[j],
+            };
+        }
+        for (var e = 0; e < _changes.Length; e++)
+        {
+            var amount = effects.ChangeAmount[e];
+            _changes[e] = new CountChange
+            {
+                Species = effects.ChangeSpecies[e],
+                Amount = amount,
+                Headroom = amount > 0 ? CountLimit - amount : long.MaxValue,
+            };
+        }
+        for (var u = 0; u < _updates.Length; u++)
+        {
+            var k = effects.Dependents[u];
+            _updates[u] = new PropensityUpdate { Term = state.Terms[k], Reaction = k };
+        }
+    }
+
+    /// <summary>
+    /// Copies the state's constants c_j into the update records, when they changed since the last copy,
+    /// and puts each reaction's plain unimolecular updates first (up to <see cref="Header.PlainEnd"/>).
+    /// </summary>
+    public void RefreshConstants(SimulatorState state)
+    {
+        if (_constantsVersion == state.ConstantsVersion) return;
+        var terms = state.Terms;
+        for (var u = 0; u < _updates.Length; u++) _updates[u].Term.Constant = terms[_updates[u].Reaction].Constant;
+        for (var j = 0; j < _headers.Length; j++)
+        {
+            ref var header = ref _headers[j];
+            var slice = _updates.AsSpan(header.UpdateStart, header.UpdateEnd - header.UpdateStart);
+            var plain = 0;
+            for (var u = 0; u < slice.Length; u++)
+            {
+                if (!IsPlain(slice[u].Term)) continue;
+                (slice[plain], slice[u]) = (slice[u], slice[plain]);
+                plain++;
+            }
+            header.PlainEnd = header.UpdateStart + plain;
+        }
+        _constantsVersion = state.ConstantsVersion;
+    }
+
+    /// <summary>
+    /// A unimolecular term whose value c·x cannot be unusable: 0 ≤ c ≤ 10^290 and 0 ≤ x ≤ 2^62 (mass
+    /// action never takes a count below 0, and counts never pass <see cref="CountLimit"/>), so c·x is
+    /// finite and ≥ 0 and the inner loop need not check it.
+    /// </summary>
+    private static bool IsPlain(in PropensityTerm term) =>
+        term.Form == PropensityForm.Unimolecular && term.Constant >= 0.0 && term.Constant <= 1e290;
+
+    /// <summary>Reference to reaction 0's header; index with <see cref="Unsafe.Add{T}(ref T, int)"/> (indices are reactions).</summary>
+    public ref Header Headers => ref MemoryMarshal.GetArrayDataReference(_headers);
+
+    /// <summary>Reference to change 0; a header's change range indexes from here.</summary>
+    public ref CountChange Changes => ref MemoryMarshal.GetArrayDataReference(_changes);
+
+    /// <summary>Reference to update 0; a header's update range indexes from here.</summary>
+    public ref PropensityUpdate Updates => ref MemoryMarshal.GetArrayDataReference(_updates);
+
+    /// <summary>
+    /// Applies reaction <paramref name="reaction"/>'s count changes to the counts whose element 0 is
+    /// <paramref name="count0"/>, stopping the run before a count would pass <see cref="CountLimit"/> and
+    /// after a rate law has over-consumed.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void Fire(ref Header header, int reaction, ref long count0, SimulatorState state, ReactionEffects effects, double time)
+    {
+        ref var change0 = ref MemoryMarshal.GetArrayDataReference(_changes);
+        for (var e = header.ChangeStart; e < header.ChangeEnd; e++)
+        {
+            ref var change = ref Unsafe.Add(ref change0, e);
+            ref var count = ref Unsafe.Add(ref count0, change.Species);
+            if (count > change.Headroom) state.ThrowCountOverflow(reaction, change.Species, change.Amount, time);
+            count += change.Amount;
+        }
+        if (header.CheckConsumption) effects.CheckFiring(reaction, state, time);
+    }
+
+    /// <summary>One reaction's slices of the change and update lists.</summary>
+    [StructLayout(LayoutKind.Sequential)]
+    internal struct Header
+    {
+        public int ChangeStart;
+        public int ChangeEnd;
+        public int UpdateStart;
+        public int UpdateEnd;
+        /// <summary>Updates UpdateStart .. PlainEnd−1 are plain unimolecular ones: a = c·x, no check needed.</summary>
+        public int PlainEnd;
+        public bool CheckConsumption;
+    }
+
+    /// <summary>Count of <see cref="Species"/> += <see cref="Amount"/>, allowed while the count is ≤ <see cref="Headroom"/>.</summary>
+    internal struct CountChange
+    {
+        public long Amount;
+        public long Headroom;
+        public int Species;
+    }
+
+    /// <summary>Re-evaluate reaction <see cref="Reaction"/>'s propensity from <see cref="Term"/>.</summary>
+    internal struct PropensityUpdate
+    {
+        public PropensityTerm Term;
+        public int Reaction;
+    }
+}
