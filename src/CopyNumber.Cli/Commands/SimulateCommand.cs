@@ -12,7 +12,7 @@ namespace CopyNumber.Cli.Commands;
 /// <summary><c>copynumber simulate MODEL --until T --every DT --replicates R</c>: a stochastic ensemble.</summary>
 internal static class SimulateCommand
 {
-    private static readonly string[] MethodNames = ["auto", "direct", "next-reaction", "tau-leap", "composition-rejection"];
+    private static readonly string[] MethodNames = MethodArgument.Names;
 
     /// <summary>Most worker threads accepted; more only add memory and contention.</summary>
     public static readonly int MaxThreads = Math.Max(1024, 4 * Environment.ProcessorCount);
@@ -85,14 +85,7 @@ internal static class SimulateCommand
             var runSeed = Pick(seed, "seed", t => (ulong?)ulong.Parse(t, CultureInfo.InvariantCulture)) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
 
             var loaded = ModelArgument.Load(parsed.GetValue(model)!);
-            var (simulationMethod, methodReason) = chosen switch
-            {
-                "auto" => MethodChooser.Choose(loaded.Network, timeGrid),
-                "next-reaction" => (SimulationMethod.NextReaction, $"{chosen} was requested"),
-                "tau-leap" => (SimulationMethod.TauLeap, $"{chosen} was requested"),
-                "composition-rejection" => (SimulationMethod.CompositionRejection, $"{chosen} was requested"),
-                _ => (SimulationMethod.Direct, $"{chosen} was requested"),
-            };
+            var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
             var options = new EnsembleOptions
             {
                 Grid = timeGrid,
@@ -137,7 +130,7 @@ internal static class SimulateCommand
             var shardText = runShard.IsWhole ? "" : $", shard {runShard}";
             var toRun = ShardReplicates(options) - (stored?.Manifest.ReplicatesFinished ?? 0);
             error.WriteLine(stored is null
-                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {MethodName(simulationMethod)} ({methodReason}), seed {runSeed}, {threadCount} threads -> {folder}"
+                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {MethodArgument.NameOf(simulationMethod)} ({methodReason}), seed {runSeed}, {threadCount} threads -> {folder}"
                 : $"resuming {loaded.Network.Name} in {folder}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {chosen}, seed {runSeed}, {threadCount} threads");
             var monitor = new EnsembleMonitor();
             SimulationOutcome outcome;
@@ -157,14 +150,6 @@ internal static class SimulateCommand
     }
 
     private static string NameOf(SimulationMethod method) => method switch
-    {
-        SimulationMethod.NextReaction => "next-reaction",
-        SimulationMethod.TauLeap => "tau-leap",
-        SimulationMethod.CompositionRejection => "composition-rejection",
-        _ => "direct",
-    };
-
-    private static string MethodName(SimulationMethod method) => method switch
     {
         SimulationMethod.NextReaction => "next-reaction",
         SimulationMethod.TauLeap => "tau-leap",

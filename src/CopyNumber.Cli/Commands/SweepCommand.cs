@@ -25,7 +25,7 @@ internal static class SweepCommand
         var sizes = new Option<string>("--sizes") { Description = "System sizes Ω, comma-separated, e.g. 1,10,100,1000.", Required = true };
         var replicates = new Option<long>("--replicates") { Description = "Replicates at each size.", Required = true };
         var method = new Option<string>("--method") { Description = "Simulation method, as for simulate (auto chooses at each size).", DefaultValueFactory = _ => "auto" };
-        method.AcceptOnlyFromAmong("auto", "direct", "next-reaction", "tau-leap", "composition-rejection");
+        method.AcceptOnlyFromAmong(MethodArgument.Names);
         var epsilon = new Option<double>("--epsilon") { Description = "Tau-leaping error control in (0, 1).", DefaultValueFactory = _ => 0.03 };
         var seed = new Option<ulong?>("--seed") { Description = "Run seed, shared by every size; drawn and recorded when absent." };
         var threads = new Option<int>("--threads") { Description = "Worker threads.", DefaultValueFactory = _ => Environment.ProcessorCount };
@@ -66,14 +66,7 @@ internal static class SweepCommand
             {
                 var loaded = ModelArgument.Load(modelPath, new CompileOptions(SizeOverride: size));
                 // Copy numbers grow with the size, so auto may choose differently at each size.
-                var (simulationMethod, methodReason) = chosen switch
-                {
-                    "auto" => MethodChooser.Choose(loaded.Network, timeGrid),
-                    "next-reaction" => (SimulationMethod.NextReaction, $"{chosen} was requested"),
-                    "tau-leap" => (SimulationMethod.TauLeap, $"{chosen} was requested"),
-                    "composition-rejection" => (SimulationMethod.CompositionRejection, $"{chosen} was requested"),
-                    _ => (SimulationMethod.Direct, $"{chosen} was requested"),
-                };
+                var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
                 var folder = Path.Combine(root, "size-" + size.ToString("R", CultureInfo.InvariantCulture));
                 Directory.CreateDirectory(folder);
                 var arguments = new Dictionary<string, string>
