@@ -51,7 +51,7 @@ internal sealed class SimulatorState
     public int SpeciesCount => Counts.Length;
     public int ReactionCount => Terms.Length;
 
-    /// <summary>Changes whenever <see cref="Constants"/> are recomputed, so copies of them know when to follow.</summary>
+    /// <summary>Changes whenever recomputing <see cref="Constants"/> changed one (and at the first computation), so copies know when to follow.</summary>
     public int ConstantsVersion { get; private set; }
 
     /// <summary>Back to the network's initial counts and parameter values, constants recomputed.</summary>
@@ -78,8 +78,16 @@ internal sealed class SimulatorState
     public void RefreshConstants()
     {
         _propensities.ComputeConstants(Parameters, Constants);
-        for (var j = 0; j < Terms.Length; j++) Terms[j].Constant = Constants[j];
-        ConstantsVersion++;
+        // The version moves only when a constant really changed, so the reset at every replicate's start
+        // does not make the simulators recopy the constants of a large network each time.
+        var changed = false;
+        for (var j = 0; j < Terms.Length; j++)
+        {
+            if (Terms[j].Constant.Equals(Constants[j]) && ConstantsVersion > 0) continue;
+            Terms[j].Constant = Constants[j];
+            changed = true;
+        }
+        if (changed) ConstantsVersion++;
     }
 
     /// <summary>The general mass-action product or a rate law, kept out of line so the common forms stay small.</summary>
