@@ -14,6 +14,11 @@ internal static class QuickTiming
 {
     public static void Run(string[] args)
     {
+        if (args.Length > 1 && args[1] == "ensemble")
+        {
+            RunEnsemble();
+            return;
+        }
         if (args.Length > 1 && args[1] == "large")
         {
             RunLarge(args.Skip(2).Select(int.Parse).DefaultIfEmpty(0).ToArray());
@@ -29,6 +34,38 @@ internal static class QuickTiming
             var simulator = SimulatorFactory.Create(method, network, new SimulatorOptions());
             var (wall, cpu) = Measure(simulator, grid);
             Console.WriteLine($"{method,-21} {wall / 1e6,8:F2} M events/s (wall)  {cpu / 1e6,8:F2} M events per CPU-second");
+        }
+    }
+
+    /// <summary>
+    /// Replicates per wall second and per CPU second through the ensemble runner at 1 and 2 threads. On a
+    /// shared machine the wall figure depends on what else runs; equal figures per CPU second at 1 and 2
+    /// threads show that the runner itself adds no serial work or contention.
+    /// </summary>
+    private static void RunEnsemble()
+    {
+        var network = BenchmarkModels.Load("promoter_switch.cnet");
+        var process = Process.GetCurrentProcess();
+        foreach (var threads in new[] { 1, 2, 1, 2 })
+        {
+            double bestWall = 0, bestCpu = 0;
+            for (var round = 0; round < 5; round++)
+            {
+                var options = new Ensembles.EnsembleOptions
+                {
+                    Grid = new TimeGrid(200, 1), Replicates = 2048, Seed = 7, Method = SimulationMethod.Direct, Threads = threads,
+                };
+                process.Refresh();
+                var cpuStart = process.TotalProcessorTime;
+                var clock = Stopwatch.StartNew();
+                var done = Ensembles.EnsembleRunner.Run(network, options).ReplicatesFinished;
+                var wall = clock.Elapsed.TotalSeconds;
+                process.Refresh();
+                var cpu = (process.TotalProcessorTime - cpuStart).TotalSeconds;
+                bestWall = Math.Max(bestWall, done / wall);
+                bestCpu = Math.Max(bestCpu, done / cpu);
+            }
+            Console.WriteLine($"{threads} thread(s): {bestWall,8:F0} replicates/s (wall) {bestCpu,8:F0} replicates per CPU-second");
         }
     }
 
