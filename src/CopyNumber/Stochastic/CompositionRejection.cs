@@ -75,22 +75,27 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     private static double BoundOf(int group) => BitConverter.UInt64BitsToDouble((ulong)(group + 1) << 52);
 
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void Set(int reaction, double propensity) => _total += Replace(reaction, propensity);
+
     /// <remarks>No bounds check on <paramref name="reaction"/>: the simulators pass only validated indices.</remarks>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public void Set(int reaction, double propensity)
+    public double Replace(int reaction, double propensity)
     {
         ref var entry = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_entries), reaction);
         var old = entry.Value;
         entry.Value = propensity;
-        _total += propensity - old;
         var target = propensity > 0.0 ? GroupOf(propensity) : -1;
         if (target == entry.Group)
         {
             if (target >= 0) Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_groupSum), target) += propensity - old;
-            return;
         }
-        Move(reaction, old, propensity, target);
+        else Move(reaction, old, propensity, target);
+        return propensity - old;
     }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void AddToTotal(double change) => _total += change;
 
     /// <summary>Takes the reaction out of its old group (if any) and into <paramref name="target"/> (if ≥ 0).</summary>
     private void Move(int reaction, double old, double propensity, int target)

@@ -97,19 +97,22 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
             var j = selection.Select(random.NextDouble() * total, ref random);
             ref var header = ref Unsafe.Add(ref header0, j);
             program.Fire(ref header, j, ref count0, state, effects, t);
+            // The event's change of a0 is summed here, in a register, and added once.
+            var change = 0.0;
             var u = header.UpdateStart;
             for (; u < header.PlainEnd; u++)
             {
                 ref var update = ref Unsafe.Add(ref update0, u);
-                selection.Set(update.Reaction, update.Term.Constant * Unsafe.Add(ref count0, update.Term.SpeciesA));
+                change += selection.Replace(update.Reaction, update.Term.Constant * Unsafe.Add(ref count0, update.Term.SpeciesA));
             }
             for (; u < header.UpdateEnd; u++)
             {
                 ref var update = ref Unsafe.Add(ref update0, u);
                 var a = PropensityTerm.Evaluate(ref update.Term, ref count0, update.Reaction, state);
                 if (!PropensityTerm.IsUsable(a)) state.ThrowBadPropensity(update.Reaction, a, t);
-                selection.Set(update.Reaction, a);
+                change += selection.Replace(update.Reaction, a);
             }
+            selection.AddToTotal(change);
             selection.EndEvent();
             fired++;
             if (--budget == 0)

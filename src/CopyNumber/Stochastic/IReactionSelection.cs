@@ -19,6 +19,16 @@ internal interface IReactionSelection<TSelf> where TSelf : struct, IReactionSele
     void Set(int reaction, double propensity);
 
     /// <summary>
+    /// Sets a_j like <see cref="Set"/> but leaves a0 to the caller: returns a_j(new) − a_j(old), which the
+    /// caller adds up over an event's updates and hands to <see cref="AddToTotal"/> before the next
+    /// <see cref="Total"/> or <see cref="Select"/>. The running sum can then stay in a register.
+    /// </summary>
+    double Replace(int reaction, double propensity);
+
+    /// <summary>Adds the summed changes of <see cref="Replace"/> calls to a0.</summary>
+    void AddToTotal(double change);
+
+    /// <summary>
     /// The reaction j whose cumulative interval [Σ_{k&lt;j} a_k, Σ_{k≤j} a_k) holds <paramref name="point"/>,
     /// for 0 ≤ point &lt; <see cref="Total"/>; never a reaction with a_j = 0, even under round-off.
     /// </summary>

@@ -43,6 +43,18 @@ internal struct LinearSelection : IReactionSelection<LinearSelection>
     }
 
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly double Replace(int reaction, double propensity)
+    {
+        ref var slot = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_values), reaction);
+        var change = propensity - slot;
+        slot = propensity;
+        return change;
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void AddToTotal(double change) => _total += change;
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public readonly int Select(double point, ref Xoshiro256StarStar rng) => Select(point);
 
     /// <summary>The reaction whose cumulative interval holds <paramref name="point"/>; needs no further random numbers.</summary>

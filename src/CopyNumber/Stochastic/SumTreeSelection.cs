@@ -40,6 +40,20 @@ internal struct SumTreeSelection : IReactionSelection<SumTreeSelection>
         for (i >>= 1; i >= 1; i >>= 1) nodes[i] = nodes[2 * i] + nodes[2 * i + 1];
     }
 
+    /// <remarks>The root is recomputed from its children, so the total needs nothing from the caller.</remarks>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly double Replace(int reaction, double propensity)
+    {
+        var change = propensity - _nodes[_leaves + reaction];
+        Set(reaction, propensity);
+        return change;
+    }
+
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public readonly void AddToTotal(double change)
+    {
+    }
+
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public readonly int Select(double point, ref Xoshiro256StarStar rng) => Select(point);
 
