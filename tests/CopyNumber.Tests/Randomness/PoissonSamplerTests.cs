@@ -85,10 +85,17 @@ public class PoissonSamplerTests
         var rng = new Xoshiro256StarStar(3);
         double[] means = [0, 0.2, 4, 12, 1e5, 1e12];
         var sum = 0L;
-        foreach (var mean in means) sum += PoissonSampler.Sample(ref rng, mean);
-        var before = GC.GetAllocatedBytesForCurrentThread();
-        for (var i = 0; i < 10_000; i++) sum += PoissonSampler.Sample(ref rng, means[i % means.Length]);
-        Assert.Equal(before, GC.GetAllocatedBytesForCurrentThread());
+        for (var i = 0; i < 2_000; i++) sum += PoissonSampler.Sample(ref rng, means[i % means.Length]);
+        // The JIT's tier-up can allocate on this thread while a round runs; a per-call allocation would show
+        // in every round, so one clean round out of five shows the sampler itself allocates nothing.
+        var fewest = long.MaxValue;
+        for (var round = 0; round < 5 && fewest > 0; round++)
+        {
+            var before = GC.GetAllocatedBytesForCurrentThread();
+            for (var i = 0; i < 10_000; i++) sum += PoissonSampler.Sample(ref rng, means[i % means.Length]);
+            fewest = Math.Min(fewest, GC.GetAllocatedBytesForCurrentThread() - before);
+        }
+        Assert.Equal(0, fewest);
         Assert.True(sum > 0);
     }
 
