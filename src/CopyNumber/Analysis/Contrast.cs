@@ -1,4 +1,5 @@
 using System.Globalization;
+using CopyNumber.Network;
 
 namespace CopyNumber.Analysis;
 
@@ -7,7 +8,7 @@ namespace CopyNumber.Analysis;
 /// noise approximation and the first-order corrected mean) on the time grid, and draws verdicts with
 /// the thresholds of <see cref="ContrastThresholds"/>. docs/methods-analysis.md states every rule.
 /// </summary>
-public static class Contrast
+public static partial class Contrast
 {
     /// <summary>The caution every report of verdicts should carry.</summary>
     public const string Caution =
@@ -18,8 +19,9 @@ public static class Contrast
     /// <param name="quantity">The species or readout name, used in the verdicts.</param>
     /// <param name="points">One point per grid time, times strictly increasing.</param>
     /// <param name="thresholds">The thresholds; <see cref="ContrastThresholds.Default"/> when null.</param>
+    /// <param name="lattice">The quantity's lattice from the model, on which its histograms are read; the plain integers when null.</param>
     /// <exception cref="AnalysisInputException">No points, times not increasing or not finite, a replicate count below 1, or a threshold out of range.</exception>
-    public static QuantityContrast Analyze(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds = null)
+    public static QuantityContrast Analyze(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds = null, QuantityLattice? lattice = null)
     {
         ArgumentNullException.ThrowIfNull(quantity);
         ArgumentNullException.ThrowIfNull(points);
@@ -35,7 +37,7 @@ public static class Contrast
         var varianceRatio = new double[count];
         var cv = new double[count];
         var fano = new double[count];
-        var modes = new ModeCountResult?[count];
+        var modes = CountModes(points, thresholds.ModeRule, lattice);
         for (var k = 0; k < count; k++)
         {
             var p = points[k];
@@ -51,7 +53,6 @@ public static class Contrast
             varianceRatio[k] = p.LnaVariance > 0 ? p.Variance / p.LnaVariance : double.NaN;
             cv[k] = p.Mean > 0 ? Math.Sqrt(Math.Max(p.Variance, 0)) / p.Mean : double.NaN;
             fano[k] = p.Mean > 0 ? p.Variance / p.Mean : double.NaN;
-            modes[k] = p.Histogram is null ? null : ModeCount.Count(p.Histogram, thresholds.ModeRule);
         }
 
         MeanDeviation? largest = null, largestRelative = null;
@@ -166,24 +167,6 @@ public static class Contrast
         return (indices, e.Points[indices[0]].Time);
     }
 
-    private static QuantityVerdict? Multimodal(Evidence e)
-    {
-        var t = e.Thresholds;
-        var counted = Enumerable.Range(0, e.Points.Count).Where(k => e.Modes[k] is not null).ToArray();
-        if (counted.Length == 0) return null;
-        var many = counted.Where(k => e.Modes[k]!.Count > 1).ToArray();
-        var final = e.Modes[^1];
-        var atEnd = final is { Count: > 1 };
-        var fraction = (double)many.Length / counted.Length;
-        if (!atEnd && !(fraction >= t.MultimodalFraction)) return null;
-        var rule = $"threshold: ≥ 2 modes at the final time or at ≥ {Percent(t.MultimodalFraction)} of the grid times";
-        var spread = $"≥ 2 modes at {many.Length} of {counted.Length} grid times" + (many.Length > 0 ? $" from t = {Time(e.Points[many[0]].Time)}" : "");
-        var text = atEnd
-            ? $"{final!.Count} modes at the final time t = {Time(e.Points[^1].Time)} (near {Modes(final)} copies); {spread}; {rule}"
-            : $"{spread} ({Percent(fraction)}), {(final is null ? "no histogram" : "1 mode")} at the final time; {rule}";
-        return new QuantityVerdict(e.Quantity, VerdictKind.Multimodal, text);
-    }
-
     private static QuantityVerdict? ExtinctionProne(Evidence e)
     {
         var t = e.Thresholds;
@@ -217,9 +200,6 @@ public static class Contrast
             $"{deviation}{cv}{modes}{zero}; thresholds {Percent(t.RelativeDeviation)} deviation, coefficient of variation {Number(t.CoefficientOfVariation)}, "
             + $"P(0) {Number(t.ExtinctionProbability)}");
     }
-
-    private static string Modes(ModeCountResult result) =>
-        string.Join(" and ", result.Modes.Select(m => m.Value.ToString(CultureInfo.InvariantCulture)));
 
     private static string Time(double t) => t.ToString("G6", CultureInfo.InvariantCulture);
 

@@ -21,7 +21,8 @@ public sealed record RunContrastResult(
 /// <summary>
 /// Sets a finished run against its deterministic descriptions: recompiles the model from the text
 /// stored with the run, solves the rate equations with the linear noise approximation and the
-/// first-order mean correction on the run's grid, and contrasts every quantity.
+/// first-order mean correction on the run's grid, and contrasts every quantity, reading each count
+/// quantity's histograms on the lattice its reactions and schedule allow (<see cref="QuantityLattice"/>).
 /// </summary>
 public static class RunContrast
 {
@@ -68,7 +69,7 @@ public static class RunContrast
                     column >= 0 ? expansion!.Variance(k, column) : double.NaN,
                     column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN));
             }
-            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds));
+            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, series.Name)));
         }
         return new RunContrastResult(run, network, contrasts, expansion, failure);
     }
