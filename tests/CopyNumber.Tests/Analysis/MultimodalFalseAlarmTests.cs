@@ -1,5 +1,4 @@
 using CopyNumber.Analysis;
-using CopyNumber.Ensembles;
 using CopyNumber.Randomness;
 using MathNet.Numerics;
 using Xunit.Abstractions;
@@ -10,8 +9,8 @@ namespace CopyNumber.Tests.Analysis;
 /// The false-alarm rate of the verdict "multimodal", measured: Poisson and binomial laws are unimodal for
 /// every parameter (discrete log-concave; Keilson &amp; Gerber 1971, J. Am. Stat. Assoc. 66:386; quoted from
 /// memory), so every "multimodal" on them is a false alarm. Each run is a grid of many times at each of
-/// which a histogram of n replicates is drawn from the law (multinomially, one conditional binomial per
-/// count, fixed seeds); 200 runs per law and sample size. The verdict's documented rate is ≤ 1% per
+/// which a histogram of n replicates is drawn from the law (multinomially, <see cref="LawSampling"/>,
+/// fixed seeds); 200 runs per law and sample size. The verdict's documented rate is ≤ 1% per
 /// quantity and run; the check allows the binomial sampling error of a rate measured over 200 runs.
 /// </summary>
 public sealed class MultimodalFalseAlarmTests(ITestOutputHelper output)
@@ -50,24 +49,6 @@ public sealed class MultimodalFalseAlarmTests(ITestOutputHelper output)
         return (from, probabilities.Select(q => q / sum).ToArray());
     }
 
-    // A multinomial sample of size n over the law's support, as a chain of conditional binomials
-    // (common practice): the count at value i is Binomial(n left, p_i / mass left).
-    private static CountHistogram Sample(ref Xoshiro256StarStar rng, long from, double[] probabilities, long n)
-    {
-        var histogram = new CountHistogram();
-        var left = n;
-        var massLeft = 1.0;
-        for (var i = 0; i < probabilities.Length && left > 0; i++)
-        {
-            var share = massLeft > 0 ? Math.Min(1.0, probabilities[i] / massLeft) : 1.0;
-            var k = i == probabilities.Length - 1 ? left : BinomialSampler.Sample(ref rng, left, share);
-            if (k > 0) histogram.Add(from + i, k);
-            left -= k;
-            massLeft -= probabilities[i];
-        }
-        return histogram;
-    }
-
     // The largest number of alarms in `runs` runs that is still consistent, at the one-sided level 0.001,
     // with a true rate of `rate`: the 99.9% quantile of Binomial(runs, rate) (common practice).
     private static int Allowance(int runs, double rate)
@@ -82,6 +63,7 @@ public sealed class MultimodalFalseAlarmTests(ITestOutputHelper output)
     public void Multimodal_is_a_false_alarm_in_at_most_one_run_in_a_hundred(string law)
     {
         var (from, probabilities) = Law(law);
+        var values = LawSampling.Consecutive(from, probabilities.Length);
         var lawMean = probabilities.Select((q, i) => q * (from + i)).Sum();
         var lawVariance = probabilities.Select((q, i) => q * (from + i - lawMean) * (from + i - lawMean)).Sum();
         var alarms = 0;
@@ -96,10 +78,11 @@ public sealed class MultimodalFalseAlarmTests(ITestOutputHelper output)
                 var points = new List<ContrastPoint>(GridTimes);
                 for (var k = 0; k < GridTimes; k++)
                 {
-                    var histogram = Sample(ref rng, from, probabilities, n);
-                    var summary = DistributionSummary.From(histogram);
-                    points.Add(ContrastPoint.FromHistogram(k, summary, histogram, summary.Mean));
-                    sampledMean += summary.Mean / (Runs * GridTimes);
+                    var histogram = LawSampling.Sample(ref rng, values, probabilities, n);
+                    var mean = histogram.Mean;
+                    var variance = histogram.Variance * n / (n - 1.0);
+                    points.Add(new ContrastPoint(k, n, mean, variance, Math.Sqrt(variance / n), histogram.ProbabilityOfZero, histogram, mean));
+                    sampledMean += mean / (Runs * GridTimes);
                 }
                 var contrast = Contrast.Analyze("X", points);
                 timesWithTwoModes += contrast.MultimodalTimes.Count;
