@@ -69,9 +69,9 @@ internal sealed class SimulatorState
     public void StartReplicate(ScheduleCursor schedule, GridRecorder recorder, TimeGrid grid, ITrajectoryObserver observer)
     {
         Reset();
-        schedule.Start(grid.Until);
+        schedule.Start(grid);
         schedule.ApplyDue(0.0, this);
-        recorder.Start(grid, observer);
+        recorder.Start(grid, observer, Parameters);
     }
 
     /// <summary>Recomputes c_j from the current parameters; call after a parameter changes.</summary>
