@@ -53,6 +53,8 @@ internal sealed class ScheduleCursor
         var changes = _timeline!.Changes;
         var applied = false;
         var parametersChanged = false;
+        var switches = state.Switches;
+        if (switches.Counting) switches.BeforeSchedule(state.Counts);
         while (_next < changes.Length && changes[_next].Time <= time)
         {
             var change = changes[_next++];
@@ -60,8 +62,7 @@ internal sealed class ScheduleCursor
             if (change.Target == ScheduleTarget.Species)
             {
                 if (!double.IsFinite(value) || Math.Abs(value) > LargestCount) throw SimulationFailureException.ScheduleNotFinite(change, value);
-                var before = state.Counts[change.TargetIndex];
-                var result = change.Combine(before, (long)Math.Round(value, MidpointRounding.AwayFromZero));
+                var result = change.Combine(state.Counts[change.TargetIndex], (long)Math.Round(value, MidpointRounding.AwayFromZero));
                 if (result < 0) throw SimulationFailureException.ScheduleMadeNegative(change, result);
                 state.Counts[change.TargetIndex] = result;
             }
@@ -75,6 +76,7 @@ internal sealed class ScheduleCursor
             applied = true;
         }
         if (parametersChanged) state.RefreshConstants();
+        if (applied && switches.Counting) switches.AfterSchedule(state.Counts, countFlips: time > 0);
         UpdateNextTime();
         return applied;
     }
