@@ -111,7 +111,7 @@ public sealed class TimelineTests
     public void The_rate_equations_LNA_and_corrected_mean_evaluate_readouts_with_the_parameters_in_force()
     {
         // Immigration–death (α = 100, μ = 1) started at its fixed point 100: φ = 100 and the LNA variance
-        // of A is 100·(1 − e^(−2t)) (van Kampen 2007, Stochastic Processes in Physics and Chemistry, ch. X;
+        // of A is 100·(1 − e^(−2t)) (van Kampen 2007, Stochastic Processes in Physics and Chemistry, 3rd ed., the linear noise approximation;
         // exact for a linear network; quoted from memory). The readout A/K has mean φ/K and variance
         // Var(A)/K², with K = 1 before t = 2 and 10 from t = 2; the first-order correction of a linear network
         // is 0, so the corrected mean is φ/K too.
@@ -119,6 +119,7 @@ public sealed class TimelineTests
             "species\n  A = 100\nparameters\n  K = 1\nreactions\n  make: 0 -> A mass 100\n  decay: A -> 0 mass 1\nschedule\n  at 2: K = 10\nreadouts\n  scaled = A / K\n");
         var grid = new TimeGrid(3, 0.3);
         var rateEquations = RateEquationSolver.Solve(network, grid, AnalysisModels.Tight);
+        var lna = LinearNoiseApproximation.Solve(network, grid, AnalysisModels.Tight);
         var emre = EffectiveMesoscopicRateEquations.Solve(network, grid, AnalysisModels.Tight);
         var column = rateEquations.ColumnIndex("scaled");
         for (var k = 0; k < grid.Count; k++)
@@ -126,6 +127,8 @@ public sealed class TimelineTests
             var t = grid[k];
             var scale = t < 2 ? 1.0 : 10.0;
             Assert.Equal(100 / scale, rateEquations[k, column], 1e-6);
+            Assert.Equal(100 / scale, lna.RateEquationValue(k, column), 1e-6);
+            Assert.Equal(100 * (1 - Math.Exp(-2 * t)) / (scale * scale), lna.Variance(k, column), 1e-6);
             Assert.Equal(100 / scale, emre.RateEquationValue(k, column), 1e-6);
             Assert.Equal(100 / scale, emre.CorrectedMean(k, column), 1e-6);
             Assert.Equal(100 * (1 - Math.Exp(-2 * t)) / (scale * scale), emre.Variance(k, column), 1e-6);
