@@ -40,5 +40,5 @@ internal sealed class DiscardObserver : ITrajectoryObserver
 {
     public long Last;
 
-    public void Record(int gridIndex, double time, long[] counts) => Last = counts[0];
+    public void Record(int gridIndex, double time, long[] counts, double[] parameters) => Last = counts[0];
 }

@@ -1,14 +1,13 @@
 using CopyNumber.Deterministic;
-using CopyNumber.Language;
 using CopyNumber.Network;
 
 namespace CopyNumber.Analysis;
 
 /// <summary>
-/// Integrates <see cref="ExpansionSystem"/> over a time grid, piecewise between schedule events, with
-/// the same event semantics as <see cref="RateEquationSolver"/> (changes at or before 0 act on the
-/// initial state, changes past the grid's end are ignored, a grid point within 10⁻⁹·Δ of a change's time
-/// records the state after it). At a change x_i ← f(x) (set), x_i + f(x) (add) or x_i − f(x) (subtract)
+/// Integrates <see cref="ExpansionSystem"/> over a time grid, segment by segment of the network's
+/// <see cref="Timeline"/>, the same segments <see cref="RateEquationSolver"/> and the simulators use (a
+/// grid point at a change's instant records the state after it). Readouts, their variances and their
+/// corrected means read the parameter values in force at each point. At a change x_i ← f(x) (set), x_i + f(x) (add) or x_i − f(x) (subtract)
 /// the fluctuations are mapped linearly: ξ ↦ M·ξ with M the identity except row i, which is ∇f (set),
 /// e_i + ∇f (add) or e_i − ∇f (subtract); so C ↦ M·C·Mᵀ and δ ↦ M·δ. Adding or subtracting a constant
 /// leaves C unchanged (a deterministic jump); setting a species to a constant zeroes its row and column.
@@ -63,31 +62,7 @@ internal static class ExpansionIntegration
         }
 
         var run = new OdeRun(system, options);
-        var offset = 0;
-        OutputSink sink = (index, _, state) => Record(offset + index, state);
-        var schedule = network.Schedule;
-        var nextChange = 0;
-        while (nextChange < schedule.Count && schedule[nextChange].Time <= 0)
-            Apply(schedule[nextChange++], 0.0, y, system);
-
-        var until = grid.Until;
-        var slack = 1e-9 * grid.Every;
-        var time = 0.0;
-        var point = 0;
-        while (true)
-        {
-            var end = nextChange < schedule.Count && schedule[nextChange].Time <= until ? schedule[nextChange].Time : until;
-            var stop = point;
-            while (stop < grid.Count && grid[stop] < end - slack) stop++;
-            offset = point;
-            run.Advance(time, y, end, grid.Times[point..stop], sink);
-            point = stop;
-            time = end;
-            while (nextChange < schedule.Count && schedule[nextChange].Time <= end)
-                Apply(schedule[nextChange++], end, y, system);
-            if (end >= until) break;
-        }
-        for (; point < grid.Count; point++) Record(point, y);
+        TimelineIntegration.Run(run, Timeline.Of(network, grid), y, change => Apply(change, y, system), Record);
 
         return new SystemSizeExpansionSolution(grid, columns, s, states, system.CorrectionOffset,
             rateEquations, variances, corrected, withMeanCorrection, run.Statistics);
@@ -104,20 +79,16 @@ internal static class ExpansionIntegration
         return sum;
     }
 
-    private static void Apply(ScheduledChange change, double time, double[] y, ExpansionSystem system)
+    private static void Apply(ScheduledChange change, double[] y, ExpansionSystem system)
     {
+        var time = change.Time;
         var s = system.SpeciesCount;
         var parameters = system.ParameterArray;
         var phi = y.AsSpan(0, s).ToArray();
         var value = change.OnState(phi, parameters);
         var isSpecies = change.Target == ScheduleTarget.Species;
         var old = isSpecies ? phi[change.TargetIndex] : parameters[change.TargetIndex];
-        var updated = change.Operation switch
-        {
-            ScheduleOperation.Set => value,
-            ScheduleOperation.Add => old + value,
-            _ => old - value,
-        };
+        var updated = change.Combine(old, value);
         var what = isSpecies ? $"species {change.TargetName}" : $"parameter {change.TargetName}";
         if (!double.IsFinite(updated))
             throw new SolverFailureException(time, what, $"the scheduled change gives the non-finite value {updated}");
@@ -157,15 +128,15 @@ internal static class ExpansionIntegration
         y[offset + target] = shifted;
     }
 
-    // Row `target` of M: ∇f for set, e_target ± ∇f for add and subtract. ∇f by central differences,
-    // so a constant value (the usual case) gives exactly 0.
+    // Row `target` of M, the gradient of the new value: the operations are linear in (old value, f), so
+    // the row is the change's own Combine applied to the gradients e_target and ∇f, entry by entry (∇f for
+    // set, e_target ± ∇f for add and subtract). ∇f by central differences, so a constant value (the usual
+    // case) gives exactly 0.
     private static double[] ChangeRow(ScheduledChange change, double[] phi, double[] parameters)
     {
         var row = new double[phi.Length];
         CentralDifferences.Gradient(change.OnState, (double[])phi.Clone(), parameters, row);
-        if (change.Operation == ScheduleOperation.Subtract)
-            for (var k = 0; k < row.Length; k++) row[k] = -row[k];
-        if (change.Operation != ScheduleOperation.Set) row[change.TargetIndex] += 1.0;
+        for (var k = 0; k < row.Length; k++) row[k] = change.Combine(k == change.TargetIndex ? 1.0 : 0.0, row[k]);
         return row;
     }
 }

@@ -1,4 +1,3 @@
-using CopyNumber.Language;
 using CopyNumber.Network;
 
 namespace CopyNumber.Deterministic;
@@ -6,12 +5,11 @@ namespace CopyNumber.Deterministic;
 /// <summary>
 /// Solves a network's rate equations dx/dt = N·v(x) from its initial counts (as real numbers) and
 /// records species and readouts on a <see cref="TimeGrid"/>. Schedule changes act exactly at their
-/// times: the integration stops there, the changes apply in schedule order (values evaluated on the
-/// state and parameters in force just before each change), and the integrator restarts, since a jump
-/// invalidates its step history. A change at a grid time is in force when that point is recorded;
-/// changes at or before time 0 act on the initial state; changes after the grid's end are ignored. A grid
-/// point within 10⁻⁹·Δ of a change's time counts as at that time, so k·Δ rounding a hair below a change
-/// written as the same number does not record the state before it.
+/// times, segment by segment of the network's <see cref="Timeline"/> (which decides when a change
+/// coincides with a grid time): the integration stops at a change, the changes apply in schedule order
+/// (values evaluated on the state and parameters in force just before each change), and the integrator
+/// restarts, since a jump invalidates its step history. A change at a grid time is in force when that
+/// point is recorded, and readouts are evaluated with the parameter values in force at each point.
 /// States are not clipped at zero: small negative round-off is left as computed.
 /// </summary>
 public static class RateEquationSolver
@@ -48,46 +46,17 @@ public static class RateEquationSolver
             for (var r = 0; r < readouts.Count; r++) values[point, speciesCount + r] = readouts[r].OnState(x, parameters);
         }
 
-        var offset = 0;
-        OutputSink sink = (index, _, x) => Record(offset + index, x);
-
-        var schedule = network.Schedule;
-        var nextChange = 0;
-        while (nextChange < schedule.Count && schedule[nextChange].Time <= 0)
-            Apply(schedule[nextChange++], 0.0, state, system);
-
-        var until = grid.Until;
-        var slack = 1e-9 * grid.Every;
-        var time = 0.0;
-        var point = 0;
-        while (true)
-        {
-            var end = nextChange < schedule.Count && schedule[nextChange].Time <= until ? schedule[nextChange].Time : until;
-            var stop = point;
-            while (stop < grid.Count && grid[stop] < end - slack) stop++;
-            offset = point;
-            run.Advance(time, state, end, grid.Times[point..stop], sink);
-            point = stop;
-            time = end;
-            while (nextChange < schedule.Count && schedule[nextChange].Time <= end)
-                Apply(schedule[nextChange++], end, state, system);
-            if (end >= until) break;
-        }
-        for (; point < grid.Count; point++) Record(point, state);
+        TimelineIntegration.Run(run, Timeline.Of(network, grid), state, change => Apply(change, state, system), Record);
 
         return new DeterministicSolution(grid, columns, speciesCount, values, run.Statistics);
     }
 
-    private static void Apply(ScheduledChange change, double time, double[] state, RateEquationSystem system)
+    private static void Apply(ScheduledChange change, double[] state, RateEquationSystem system)
     {
+        var time = change.Time;
         var value = change.OnState(state, system.ParameterArray);
         var old = change.Target == ScheduleTarget.Species ? state[change.TargetIndex] : system.ParameterArray[change.TargetIndex];
-        var updated = change.Operation switch
-        {
-            ScheduleOperation.Set => value,
-            ScheduleOperation.Add => old + value,
-            _ => old - value,
-        };
+        var updated = change.Combine(old, value);
         var what = change.Target == ScheduleTarget.Species ? $"species {change.TargetName}" : $"parameter {change.TargetName}";
         if (!double.IsFinite(updated))
             throw new SolverFailureException(time, what, $"the scheduled change gives the non-finite value {updated}");

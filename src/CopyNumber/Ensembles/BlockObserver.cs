@@ -5,7 +5,7 @@ namespace CopyNumber.Ensembles;
 
 /// <summary>
 /// Copies each recorded state of the current replicate into its slot of the block, with readouts
-/// evaluated. It is also where a long replicate notices a cancellation: the simulators call nothing
+/// evaluated on the counts and the parameter values in force at that grid time. It is also where a long replicate notices a cancellation: the simulators call nothing
 /// else between events, so <see cref="Record"/> checks the token (one field read per grid point) and
 /// abandons the replicate by throwing <see cref="ReplicateAbandoned"/>, which the worker catches; the
 /// block is then dropped whole.
@@ -15,7 +15,6 @@ internal sealed class BlockObserver : ITrajectoryObserver
     private readonly int _species;
     private readonly Readout[] _countReadouts;
     private readonly Readout[] _realReadouts;
-    private readonly double[] _parameters;
     private readonly CancellationToken _cancel;
     private ReplicateBlock _block = null!;
     private int _slot;
@@ -25,8 +24,6 @@ internal sealed class BlockObserver : ITrajectoryObserver
         _species = network.Species.Count;
         _countReadouts = network.Readouts.Where(r => r.IsCount).ToArray();
         _realReadouts = network.Readouts.Where(r => !r.IsCount).ToArray();
-        // Readouts see the parameters' initial values; a schedule that changes a parameter does not change a readout.
-        _parameters = network.InitialParameterValues.ToArray();
         _cancel = cancel;
     }
 
@@ -37,7 +34,8 @@ internal sealed class BlockObserver : ITrajectoryObserver
         block.RecordedPoints[slot] = 0;
     }
 
-    public void Record(int gridIndex, double time, long[] counts)
+    /// <remarks>Readouts read <paramref name="parameters"/>, the values in force at the grid time, as the rate equations do.</remarks>
+    public void Record(int gridIndex, double time, long[] counts, double[] parameters)
     {
         if (_cancel.IsCancellationRequested) throw ReplicateAbandoned.Instance;
         var block = _block;
@@ -45,12 +43,12 @@ internal sealed class BlockObserver : ITrajectoryObserver
         var target = block.Counts;
         for (var i = 0; i < _species; i++) target[baseIndex + i] = counts[i];
         for (var r = 0; r < _countReadouts.Length; r++)
-            target[baseIndex + _species + r] = (long)Math.Round(_countReadouts[r].OnCounts(counts, _parameters));
+            target[baseIndex + _species + r] = (long)Math.Round(_countReadouts[r].OnCounts(counts, parameters));
         if (_realReadouts.Length > 0)
         {
             var realBase = ((long)_slot * block.GridPoints + gridIndex) * block.RealStride;
             for (var r = 0; r < _realReadouts.Length; r++)
-                block.Reals[realBase + r] = _realReadouts[r].OnCounts(counts, _parameters);
+                block.Reals[realBase + r] = _realReadouts[r].OnCounts(counts, parameters);
         }
         block.RecordedPoints[_slot] = gridIndex + 1;
     }

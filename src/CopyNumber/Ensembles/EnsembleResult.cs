@@ -27,7 +27,8 @@ public sealed class EnsembleResult
         long replicatesRequested,
         Shard shard,
         bool interrupted,
-        TimeSpan wallTime)
+        TimeSpan wallTime,
+        IReadOnlyList<SwitchingStatistics>? switching = null)
     {
         Grid = grid;
         Quantities = quantities;
@@ -46,6 +47,7 @@ public sealed class EnsembleResult
         Shard = shard;
         WallTime = wallTime;
         Interrupted = interrupted;
+        Switching = switching ?? [];
     }
 
     /// <summary>Recording times.</summary>
@@ -97,6 +99,13 @@ public sealed class EnsembleResult
 
     /// <summary>Wall-clock duration of the run (for a combination, the sum of its parts).</summary>
     public TimeSpan WallTime { get; }
+
+    /// <summary>
+    /// Switches per replicate over [0, T] of each species the model confines to 0 and 1 (empty when it
+    /// has none), counted at the events; see <see cref="SwitchingStatistics"/> and
+    /// <see cref="Network.TwoStateSpecies"/>.
+    /// </summary>
+    public IReadOnlyList<SwitchingStatistics> Switching { get; }
 
     /// <summary>The real readouts' moments over the finished blocks, in their fixed combination order.</summary>
     public MomentTree MomentTree { get; }
@@ -151,7 +160,15 @@ public sealed class EnsembleResult
             first.ReplicatesStoppedEarly + second.ReplicatesStoppedEarly,
             finished, first.BlockSize, first.ReplicatesRequested, shard,
             !Covers(finished, shard.Blocks(first.TotalBlocks)),
-            first.WallTime + second.WallTime);
+            first.WallTime + second.WallTime,
+            CombineSwitching(first.Switching, second.Switching));
+    }
+
+    private static SwitchingStatistics[] CombineSwitching(IReadOnlyList<SwitchingStatistics> first, IReadOnlyList<SwitchingStatistics> second)
+    {
+        // A part may lack the statistics (a run stored before they existed): the sum would then be wrong, so none is given.
+        if (first.Count != second.Count) return [];
+        return first.Zip(second, (a, b) => a.Add(b)).ToArray();
     }
 
     /// <summary>True when the sorted <paramref name="blocks"/> include every block of [First, End).</summary>

@@ -155,7 +155,8 @@ public static class EnsembleRunner
         var result = new EnsembleResult(
             grid, quantities, histograms, tree,
             workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
-            finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed);
+            finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed,
+            SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()));
         List<(long Replicate, Exception Cause)> failed;
         lock (failures) failed = failures.ToList();
         if (failed.Count == 0) return result;
@@ -194,12 +195,14 @@ public static class EnsembleRunner
             _monitor = monitor;
             _grid = options.Grid;
             Cancel = cancel;
+            Switching = new SwitchingAccumulator(network, options.Grid.Until);
             Histograms = new CountHistogram[options.Grid.Count * countQuantities];
             for (var h = 0; h < Histograms.Length; h++) Histograms[h] = new CountHistogram();
         }
 
         public CancellationToken Cancel { get; }
         public CountHistogram[] Histograms { get; }
+        public SwitchingAccumulator Switching { get; }
         public List<long> FinishedBlocks { get; } = [];
         public long Replicates { get; private set; }
         public long Events { get; private set; }
@@ -220,6 +223,7 @@ public static class EnsembleRunner
             block.Length = (int)Math.Min(options.BlockSize, options.Replicates - block.FirstReplicate);
             _pendingEvents = 0;
             _pendingStoppedEarly = 0;
+            Switching.StartBlock();
             for (var slot = 0; slot < block.Length; slot++)
             {
                 if (Cancel.IsCancellationRequested) return false;
@@ -242,6 +246,7 @@ public static class EnsembleRunner
                 }
                 _pendingEvents += result.Events;
                 if (result.HitEventLimit) _pendingStoppedEarly++;
+                Switching.AddReplicate(result);
                 _monitor.AddReplicate(result.Events);
             }
             return true;
@@ -261,6 +266,7 @@ public static class EnsembleRunner
             Replicates += block.Length;
             Events += _pendingEvents;
             StoppedEarly += _pendingStoppedEarly;
+            Switching.CommitBlock();
             FinishedBlocks.Add(index);
         }
     }

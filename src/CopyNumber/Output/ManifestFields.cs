@@ -33,6 +33,14 @@ public static class ManifestFields
     /// <summary>Why the rate equations could not be solved, when they could not.</summary>
     public const string DeterministicFailure = "deterministic_failure";
 
+    /// <summary>
+    /// Switches per replicate of each two-state species over [0, T] (array of objects, one per species:
+    /// species, over, replicates, excluded_replicates, mean, variance, std_error, mean_rate, switches_sum,
+    /// switches_sum_of_squares; see <see cref="Ensembles.SwitchingStatistics"/>). The integer sums are read
+    /// back to resume and merge runs exactly.
+    /// </summary>
+    public const string Switching = "switching";
+
     /// <summary>The folders a merged run was made from (array of full paths).</summary>
     public const string MergedFrom = "merged_from";
 

@@ -157,7 +157,8 @@ public sealed class StoredRun
         return new EnsembleResult(
             Grid, quantities, histograms, tree, Manifest.ReplicatesFinished, Manifest.EventsFired, stoppedEarly,
             finished, BlockSize, Manifest.ReplicatesRequested, Shard,
-            !EnsembleResult.Covers(finished, Shard.Blocks(TotalBlocks)), TimeSpan.FromSeconds(Manifest.WallSeconds));
+            !EnsembleResult.Covers(finished, Shard.Blocks(TotalBlocks)), TimeSpan.FromSeconds(Manifest.WallSeconds),
+            SwitchingJson.Read(Manifest, network, Grid.Until));
     }
 
     private static IEnumerable<long> Range(long first, long end)

@@ -72,6 +72,7 @@ internal static class SummaryFiles
         manifest.Extra[ManifestFields.TotalBlocks] = result.TotalBlocks;
         manifest.Extra[ManifestFields.FinishedBlocks] = BlockRanges.Format(result.FinishedBlocks);
         manifest.Extra[ManifestFields.StopReason] = stop.Name();
+        manifest.Extra[ManifestFields.Switching] = SwitchingJson.Write(result.Switching);
         if (failure is not null) manifest.Extra[ManifestFields.Failure] = failure;
         if (deterministicFailure is not null) manifest.Extra[ManifestFields.DeterministicFailure] = deterministicFailure;
         return manifest;

@@ -97,6 +97,7 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
             var j = selection.Select(random.NextDouble() * total, ref random);
             ref var header = ref Unsafe.Add(ref header0, j);
             program.Fire(ref header, j, ref count0, state, effects, t);
+            if (header.CountsSwitch) state.Switches.Fired(j);
             // The event's change of a0 is summed here, in a register, and added once.
             var change = 0.0;
             var u = header.UpdateStart;

@@ -36,7 +36,7 @@ internal abstract class ExactSimulation : IStochasticSimulator
             var scheduled = _schedule.NextTime;
             var horizon = Math.Min(scheduled, grid.Until);
             var end = Advance(ref rng, ref time, horizon, _recorder, ref events, _maxEvents);
-            if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true);
+            if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true) { Switches = State.Switches.Finish() };
             if (scheduled <= grid.Until)
             {
                 _schedule.ApplyDue(time, State);
@@ -44,7 +44,7 @@ internal abstract class ExactSimulation : IStochasticSimulator
                 continue;
             }
             _recorder.RecordThrough(grid.Until, State.Counts);
-            return new ReplicateResult(events, events, false);
+            return new ReplicateResult(events, events, false) { Switches = State.Switches.Finish() };
         }
     }
 

@@ -43,6 +43,7 @@ internal sealed class FiringProgram
                 UpdateStart = effects.DependentStart[j],
                 UpdateEnd = effects.DependentStart[j + 1],
                 CheckConsumption = effects.MayMakeNegative[j],
+                CountsSwitch = state.Switches.TwoState.ChangedBy(j),
             };
         }
         for (var e = 0; e < _changes.Length; e++)
@@ -134,6 +135,8 @@ internal sealed class FiringProgram
         /// <summary>Updates UpdateStart .. PlainEnd−1 are plain unimolecular ones: a = c·x, no check needed.</summary>
         public int PlainEnd;
         public bool CheckConsumption;
+        /// <summary>The reaction changes a two-state species: its firing is a switch (<see cref="TransitionCounter"/>).</summary>
+        public bool CountsSwitch;
     }
 
     /// <summary>Count of <see cref="Species"/> += <see cref="Amount"/>, allowed while the count is ≤ <see cref="Headroom"/>.</summary>

@@ -11,5 +11,9 @@ public interface ITrajectoryObserver
     /// <param name="gridIndex">Index of the grid point, 0-based; consecutive calls have consecutive indices from 0.</param>
     /// <param name="time">The grid time, in model time units.</param>
     /// <param name="counts">Copy numbers, indexed like the network's species.</param>
-    void Record(int gridIndex, double time, long[] counts);
+    /// <param name="parameters">
+    /// The parameter values in force at <paramref name="time"/> (after the schedule's changes up to it),
+    /// indexed like the network's parameters; reused like <paramref name="counts"/>. Readouts read these.
+    /// </param>
+    void Record(int gridIndex, double time, long[] counts, double[] parameters);
 }

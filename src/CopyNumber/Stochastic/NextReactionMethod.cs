@@ -96,6 +96,7 @@ internal sealed class NextReactionMethod : ExactSimulation
             var mu = queue.Top;
             ref var header = ref Unsafe.Add(ref header0, mu);
             program.Fire(ref header, mu, ref count0, state, effects, t);
+            if (header.CountsSwitch) state.Switches.Fired(mu);
             for (var u = header.UpdateStart; u < header.UpdateEnd; u++)
             {
                 ref var update = ref Unsafe.Add(ref update0, u);

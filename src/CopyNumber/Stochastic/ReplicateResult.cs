@@ -7,4 +7,14 @@ namespace CopyNumber.Stochastic;
 /// True when the replicate stopped before the end of the grid because it reached
 /// <see cref="SimulatorOptions.MaxEvents"/>; only the grid points before its last event were recorded.
 /// </param>
-public readonly record struct ReplicateResult(long Events, long Steps, bool HitEventLimit);
+public readonly record struct ReplicateResult(long Events, long Steps, bool HitEventLimit)
+{
+    /// <summary>
+    /// Switches of each two-state species over the replicate (slot s is
+    /// <see cref="Network.TwoStateSpecies.Of"/>(network).Species[s]): firings of reactions that change it,
+    /// plus flips made by schedule changes after t = 0; −1 where a schedule change broke the species'
+    /// confining law. Empty for a network without two-state species. A view of the simulator's buffer,
+    /// valid until its next replicate.
+    /// </summary>
+    public ReadOnlyMemory<long> Switches { get; init; }
+}

@@ -31,6 +31,7 @@ internal sealed class SimulatorState
         Parameters = new double[network.Parameters.Count];
         Constants = new double[reactions];
         Terms = new PropensityTerm[reactions];
+        Switches = new TransitionCounter(network);
         for (var j = 0; j < reactions; j++)
         {
             var form = _propensities.Form(j);
@@ -48,6 +49,9 @@ internal sealed class SimulatorState
     public double[] Parameters { get; }
     public double[] Constants { get; }
     public PropensityTerm[] Terms { get; }
+
+    /// <summary>This replicate's switches of the two-state species, counted at the events.</summary>
+    public TransitionCounter Switches { get; }
     public int SpeciesCount => Counts.Length;
     public int ReactionCount => Terms.Length;
 
@@ -69,9 +73,10 @@ internal sealed class SimulatorState
     public void StartReplicate(ScheduleCursor schedule, GridRecorder recorder, TimeGrid grid, ITrajectoryObserver observer)
     {
         Reset();
-        schedule.Start(grid.Until);
+        Switches.Start();
+        schedule.Start(grid);
         schedule.ApplyDue(0.0, this);
-        recorder.Start(grid, observer);
+        recorder.Start(grid, observer, Parameters);
     }
 
     /// <summary>Recomputes c_j from the current parameters; call after a parameter changes.</summary>

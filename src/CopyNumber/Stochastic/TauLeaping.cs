@@ -75,7 +75,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             {
                 if (_schedule.NextTime <= t) _schedule.ApplyDue(t, _state);
                 _recorder.RecordThrough(t, counts);
-                if (_recorder.Finished) return new ReplicateResult(events, steps, false);
+                if (_recorder.Finished) return new ReplicateResult(events, steps, false) { Switches = _state.Switches.Finish() };
                 continue;
             }
             var a0 = EvaluateAll(t);
@@ -88,7 +88,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             var a0c = _critical.Classify(counts, _propensity);
             var tauPrime = _stepSize.Select(counts, _propensity, _critical.IsCritical);
             if (!Step(ref rng, ref t, stop, a0, a0c, tauPrime, ref events, ref steps))
-                return new ReplicateResult(events, steps, true);
+                return new ReplicateResult(events, steps, true) { Switches = _state.Switches.Finish() };
         }
     }
 
@@ -145,6 +145,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             if (firings > _maxEvents - events) return false;
 
             Array.Copy(_trial, counts, counts.Length);
+            if (_state.Switches.Counting) CountSwitches();
             t = reachesStop ? stop : Math.Min(t + tau, stop);
             events += firings;
             steps++;
@@ -175,6 +176,13 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             else _trial[species] += firings * amount;
         }
         return true;
+    }
+
+    /// <summary>Every firing of a reaction that changes a two-state species is one switch.</summary>
+    private void CountSwitches()
+    {
+        for (var j = 0; j < _firings.Length; j++)
+            if (_firings[j] != 0 && _state.Switches.TwoState.ChangedBy(j)) _state.Switches.Fired(j, _firings[j]);
     }
 
     private double EvaluateAll(double time)

@@ -48,7 +48,7 @@ internal sealed class GridSamples : ITrajectoryObserver
         return samples;
     }
 
-    public void Record(int gridIndex, double time, long[] counts)
+    public void Record(int gridIndex, double time, long[] counts, double[] parameters)
     {
         // Plain tests, failing through Assert only when broken: this runs at every grid point.
         if (gridIndex != _recorded[_replicate]) Assert.Fail($"grid point {gridIndex} recorded when {_recorded[_replicate]} was due");

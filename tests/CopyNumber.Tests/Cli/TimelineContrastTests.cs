@@ -1,0 +1,40 @@
+using CopyNumber.Tests.Output;
+
+namespace CopyNumber.Tests.Cli;
+
+/// <summary>
+/// Deterministic models with a schedule: the ensemble must equal its rate equations exactly, so the
+/// contrast may say nothing but "adequate" (common practice: nothing in these models is random).
+/// </summary>
+public sealed class TimelineContrastTests
+{
+    private static void OnlyAdequate(string model, string[] quantities, params string[] arguments)
+    {
+        using var scratch = new ScratchFolder();
+        var path = scratch.File("model.cnet");
+        File.WriteAllText(path, model);
+        var run = CliRun.Of(["simulate", path, "--replicates", "100", "--seed", "2", "--out", scratch.File("run"), .. arguments]);
+        Assert.True(run.ExitCode == 0, run.Error);
+        foreach (var quantity in quantities)
+        {
+            var verdict = run.Output.Split('\n').Where(l => l.StartsWith(quantity + " ", StringComparison.Ordinal) && l.Contains("adequate", StringComparison.Ordinal)).ToArray();
+            Assert.Single(verdict);
+        }
+        foreach (var word in new[] { "mean shifted", "noise-dominated", "multimodal", "extinction-prone" })
+            Assert.DoesNotContain(word, run.Output, StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData("direct")]
+    [InlineData("next-reaction")]
+    [InlineData("tau-leap")]
+    public void A_change_on_a_grid_time_computed_differently_raises_no_alarm(string method) =>
+        // 3 × 0.3 = 0.8999999999999999 on the grid against the change at 0.9.
+        OnlyAdequate("species\n  X = 0\nparameters\n  k = 0\nreactions\n  decay: X -> 0 mass k\nschedule\n  at 0.9: X = 100\n",
+            ["X"], "--until", "1.5", "--every", "0.3", "--method", method);
+
+    [Fact]
+    public void A_readout_of_a_scheduled_parameter_raises_no_alarm() =>
+        OnlyAdequate("species\n  A = 100\nparameters\n  K = 1\n  k = 0\nreactions\n  decay: A -> 0 mass k\nschedule\n  at 2: K = 10\nreadouts\n  scaled = A / K\n",
+            ["A", "scaled"], "--until", "4", "--every", "0.5");
+}
