@@ -69,7 +69,7 @@ public static class RunContrast
                     column >= 0 ? expansion!.Variance(k, column) : double.NaN,
                     column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN));
             }
-            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, series.Name)));
+            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name)));
         }
         return new RunContrastResult(run, network, contrasts, expansion, failure);
     }

@@ -39,8 +39,9 @@ public readonly record struct CountLattice(long Spacing, long Offset)
 /// number v contributes cᵢ·(v − xᵢ(0)) and cᵢ·gᵢ (gᵢ species i's own spacing, since the value replaced
 /// was anywhere on species i's lattice); a change whose value depends on the state or on parameters
 /// breaks the lattice (spacing 1) from its time on. The offset is the quantity's initial value. The
-/// spacings only get finer with time, so the lattice at a time also holds every earlier value; a grid
-/// time within 1e-9 of a change (relative to max(1, |t|)) is read as after it.
+/// spacings only get finer with time, so the lattice at a time also holds every earlier value. When a
+/// change takes effect is the <see cref="Timeline"/>'s rule (one coincidence rule for every consumer):
+/// a grid time on a change reads as after it.
 /// </summary>
 public sealed class QuantityLattice
 {
@@ -60,12 +61,15 @@ public sealed class QuantityLattice
     /// <summary>A quantity on the plain integers at all times (no lattice known).</summary>
     public static QuantityLattice Integers { get; } = new(0, [double.NegativeInfinity], [1]);
 
-    /// <summary>The lattice in force at <paramref name="time"/> (model time units).</summary>
+    /// <summary>
+    /// The lattice in force at <paramref name="time"/> (model time units): a grid time of the timeline
+    /// the lattice was built on, compared exactly with the changes' effective times.
+    /// </summary>
     public CountLattice At(double time)
     {
         var s = 0;
         for (var k = 1; k < _from.Length; k++)
-            if (time >= _from[k] - 1e-9 * Math.Max(1.0, Math.Abs(_from[k]))) s = k;
+            if (time >= _from[k]) s = k;
         return new CountLattice(_spacing[s], Offset);
     }
 
@@ -73,29 +77,36 @@ public sealed class QuantityLattice
     /// The lattice of the quantity named <paramref name="name"/>: a species, or a readout that is an
     /// integer combination of species (<see cref="Readout.IsCount"/>); null for anything else.
     /// </summary>
-    public static QuantityLattice? For(ReactionNetwork network, string name)
+    /// <param name="network">The compiled network.</param>
+    /// <param name="name">A species or readout name.</param>
+    /// <param name="grid">The run's grid, which decides when each change takes effect (<see cref="Timeline"/>).</param>
+    public static QuantityLattice? For(ReactionNetwork network, TimeGrid grid, string name)
     {
         ArgumentNullException.ThrowIfNull(network);
+        ArgumentNullException.ThrowIfNull(grid);
         var species = network.SpeciesIndex(name);
         if (species >= 0)
         {
             var unit = new long[network.Species.Count];
             unit[species] = 1;
-            return ForCombination(network, 0, unit);
+            return ForCombination(network, grid, 0, unit);
         }
         var readout = network.Readouts.FirstOrDefault(r => r.Name == name);
         if (readout is null || !readout.IsCount) return null;
         var (constant, coefficients) = Coefficients(network, readout);
-        return ForCombination(network, constant, coefficients);
+        return ForCombination(network, grid, constant, coefficients);
     }
 
     /// <summary>The lattice of c₀ + Σ cᵢ·xᵢ (counts xᵢ of the network's species).</summary>
     /// <param name="network">The compiled network.</param>
+    /// <param name="grid">The run's grid, which decides when each change takes effect (<see cref="Timeline"/>).</param>
     /// <param name="constant">c₀.</param>
     /// <param name="coefficients">cᵢ, one per species.</param>
-    public static QuantityLattice ForCombination(ReactionNetwork network, long constant, IReadOnlyList<long> coefficients)
+    public static QuantityLattice ForCombination(ReactionNetwork network, TimeGrid grid, long constant, IReadOnlyList<long> coefficients)
     {
         ArgumentNullException.ThrowIfNull(network);
+        ArgumentNullException.ThrowIfNull(grid);
+        var schedule = Timeline.Of(network, grid).Changes.ToArray();
         ArgumentNullException.ThrowIfNull(coefficients);
         if (coefficients.Count != network.Species.Count)
             throw new ArgumentException($"a combination needs one coefficient per species ({network.Species.Count}), not {coefficients.Count}", nameof(coefficients));
@@ -121,7 +132,7 @@ public sealed class QuantityLattice
             if (coefficients[i] == 0) continue;
             long g = 0;
             for (var j = 0; j < n.ReactionCount; j++) g = Gcd(g, n[i, j]);
-            foreach (var change in network.Schedule)
+            foreach (var change in schedule)
                 if (change.Target == ScheduleTarget.Species && change.TargetIndex == i && FixedValue(network, change) is { } v)
                     g = Gcd(g, change.Operation == ScheduleOperation.Set ? v - network.InitialCounts[i] : v);
             ownSpacing[i] = g;
@@ -130,7 +141,7 @@ public sealed class QuantityLattice
         var from = new List<double> { double.NegativeInfinity };
         var spacings = new List<long> { Positive(spacing) };
         var broken = false;
-        foreach (var change in network.Schedule)
+        foreach (var change in schedule)
         {
             if (change.Target != ScheduleTarget.Species) continue;
             var c = coefficients[change.TargetIndex];

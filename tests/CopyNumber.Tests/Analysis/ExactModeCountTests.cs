@@ -94,7 +94,7 @@ public sealed class ExactModeCountTests(ITestOutputHelper output)
     public void The_trimer_law_is_unimodal_on_its_lattice_and_so_is_the_count()
     {
         var network = ModelLoader.LoadText(Trimer, "trimer.cnet").Model!.Network;
-        var lattice = QuantityLattice.For(network, "A")!.At(0);
+        var lattice = QuantityLattice.For(network, new TimeGrid(1, 1), "A")!.At(0);
         Assert.Equal(new CountLattice(3, 60), lattice);
         foreach (var time in new[] { 0.02, 0.2, 2.0, double.PositiveInfinity })
         {
