@@ -1,4 +1,5 @@
 using System.Globalization;
+using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Deterministic;
 using CopyNumber.Network;
 using CopyNumber.Output;
@@ -52,6 +53,7 @@ public static class RunContrast
             failure = e.Message;
         }
 
+        var zeroOne = ZeroOneSpecies.Of(network);
         var contrasts = new List<QuantityContrast>();
         foreach (var series in run.Quantities)
         {
@@ -68,7 +70,7 @@ public static class RunContrast
                     column >= 0 ? expansion!.Variance(k, column) : double.NaN,
                     column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN));
             }
-            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds));
+            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, zeroOne.GetValueOrDefault(series.Name)));
         }
         return new RunContrastResult(run, network, contrasts, expansion, failure);
     }
