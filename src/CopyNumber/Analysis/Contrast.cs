@@ -170,11 +170,11 @@ public static class Contrast
             deviation = $"no grid time where the rate equations hold ≥ {Number(t.DeterministicFloor)} {(t.DeterministicFloor == 1 ? "copy" : "copies")} to judge a relative deviation on";
         else
         {
-            var top = shift.Eligible.MaxBy(k => Math.Abs(e.Deviations[k].Relative));
-            var d = e.Deviations[top];
-            var half = shift.BandZ * e.Points[top].StandardError / Math.Abs(e.Points[top].RateEquationValue);
-            deviation = $"no deviation from the rate equations beyond {Percent(t.RelativeDeviation)} is resolved at false-alarm rate {Percent(t.FalseAlarmRate)} over {shift.Eligible.Length} grid times "
-                + $"(largest {VerdictText.SignedPercent(d.Relative, half)} ± {Percent(half)} at t = {Time(d.Time)})";
+            var rule = $"no deviation from the rate equations beyond {Percent(t.RelativeDeviation)} is resolved at false-alarm rate {Percent(t.FalseAlarmRate)} over {VerdictText.Count(shift.Eligible.Length, "grid time", "grid times")}";
+            var top = shift.LargestResolved(e.Points, e.Deviations);
+            deviation = top < 0
+                ? $"{rule}; none differs from 0 beyond the simultaneous band"
+                : $"{rule}; largest resolved from 0 {VerdictText.SignedPercent(e.Deviations[top].Relative)} ± {Percent(shift.RelativeBand(e.Points[top]))} at t = {Time(e.Deviations[top].Time)}";
         }
         var last = e.Points[^1];
         var (window, _) = LateWindow(e);

@@ -138,7 +138,7 @@ public sealed class ContrastTests
         var contrast = Contrast.Analyze("total", points);
         var sentence = Assert.Single(contrast.Verdicts).Sentence;
         Assert.DoesNotContain("E-", sentence);
-        Assert.Contains("largest 0% ± 0%", sentence);
+        Assert.Contains("none differs from 0 beyond the simultaneous band", sentence);
         Assert.All(contrast.Resolved, Assert.False);
     }
 

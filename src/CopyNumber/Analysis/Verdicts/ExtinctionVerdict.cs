@@ -24,7 +24,7 @@ internal static class ExtinctionVerdict
         if (!(tail <= t.FalseAlarmRate)) return null;
         var lower = Beta.InvCDF(zeros, n - zeros + 1, t.FalseAlarmRate);
         return new QuantityVerdict(e.Quantity, VerdictKind.ExtinctionProne,
-            $"P(0) = {Number(last.ProbabilityOfZero, 1.0 / n)} ({zeros} of {n} replicates at 0; lower {Percent(1 - t.FalseAlarmRate)} confidence bound {Number(lower)}) at the final time t = {Time(last.Time)} "
+            $"P(0) = {Number(last.ProbabilityOfZero, 1.0 / n)} ({zeros} of {n} replicates at 0; lower {Level(1 - t.FalseAlarmRate)} confidence bound {Number(lower)}) at the final time t = {Time(last.Time)} "
             + $"while the rate equations hold {Number(last.RateEquationValue)} copies; "
             + $"threshold P(0) > {Number(t.ExtinctionProbability)} by an exact binomial test at false-alarm rate {Percent(t.FalseAlarmRate)}, "
             + $"with the rate equations at ≥ {Number(t.ExtinctionFloor)} {(t.ExtinctionFloor == 1 ? "copy" : "copies")}");

@@ -46,6 +46,14 @@ internal sealed record MeanShiftTest(int[] Eligible, int[] Flagged, int TooSkewe
         return Math.Min(1, 2 * Normal.CDF(0, 1, -excess / p.StandardError));
     }
 
+    /// <summary>Half-width of the simultaneous band of the relative deviation at grid time k.</summary>
+    public double RelativeBand(ContrastPoint p) => BandZ * p.StandardError / Math.Abs(p.RateEquationValue);
+
+    /// <summary>The eligible time whose relative deviation the simultaneous band resolves from 0 by the most, or −1.</summary>
+    public int LargestResolved(IReadOnlyList<ContrastPoint> points, IReadOnlyList<MeanDeviation> deviations) =>
+        Eligible.Where(k => Math.Abs(deviations[k].Relative) > Math.Max(RelativeBand(points[k]), RelativeRoundOff))
+            .DefaultIfEmpty(-1).MaxBy(k => k < 0 ? 0 : Math.Abs(deviations[k].Relative));
+
     /// <summary>The verdict, or null when no grid time is flagged.</summary>
     public QuantityVerdict? Verdict(string quantity, IReadOnlyList<ContrastPoint> points, IReadOnlyList<MeanDeviation> deviations, ContrastThresholds t)
     {
@@ -54,7 +62,7 @@ internal sealed record MeanShiftTest(int[] Eligible, int[] Flagged, int TooSkewe
         var d = deviations[top];
         var p = points[top];
         var scale = Math.Abs(p.RateEquationValue);
-        var half = BandZ * p.StandardError / scale;
+        var half = RelativeBand(p);
         var magnitude = Math.Abs(d.Relative);
         var direction = d.Relative > 0 ? "above" : "below";
         var first = Flagged[0];
@@ -62,14 +70,14 @@ internal sealed record MeanShiftTest(int[] Eligible, int[] Flagged, int TooSkewe
         string when;
         if (Flagged.Length == 1) when = $"at t = {Time(p.Time)}";
         else if (tail.Length == Flagged.Length) when = $"from t = {Time(points[first].Time)} on";
-        else when = $"at {Flagged.Length} of {Eligible.Length} grid times between t = {Time(points[first].Time)} and t = {Time(points[Flagged[^1]].Time)}";
+        else when = $"at {Flagged.Length} of {Count(Eligible.Length, "grid time", "grid times")} between t = {Time(points[first].Time)} and t = {Time(points[Flagged[^1]].Time)}";
         var prediction = double.IsNaN(p.CorrectedMean) ? ""
             : $", where the first-order correction predicts {SignedPercent((p.CorrectedMean - p.RateEquationValue) / scale, half)}";
         var extent = Flagged.Length == 1 ? "" : "up to ";
-        var skipped = TooSkewed == 0 ? "" : $"; {TooSkewed} grid {(TooSkewed == 1 ? "time" : "times")} not judged, too skewed for a normal mean (n ≤ 25·skewness²)";
+        var skipped = TooSkewed == 0 ? "" : $"; {Count(TooSkewed, "grid time", "grid times")} not judged, too skewed for a normal mean (n ≤ 25·skewness²)";
         return new QuantityVerdict(quantity, VerdictKind.MeanShifted,
             $"ensemble mean {extent}{Percent(magnitude, half)} (simultaneous interval {Percent(Math.Max(magnitude - half, 0))} to {Percent(magnitude + half)}) {direction} the rate equations "
             + $"(t = {Time(p.Time)}: {Number(p.Mean, p.StandardError)} against {Number(p.RateEquationValue)}{prediction}), beyond {Percent(t.RelativeDeviation)} {when}; "
-            + $"threshold {Percent(t.RelativeDeviation)}, false-alarm rate {Percent(t.FalseAlarmRate)} over {Eligible.Length} grid times (Holm){skipped}");
+            + $"threshold {Percent(t.RelativeDeviation)}, false-alarm rate {Percent(t.FalseAlarmRate)} over {Count(Eligible.Length, "grid time", "grid times")} (Holm){skipped}");
     }
 }

@@ -36,7 +36,7 @@ internal static class NoiseStatement
         var low = ones == 0 ? 0 : Beta.InvCDF(ones, n - ones + 1, t.FalseAlarmRate / 2);
         var high = ones == n ? 1 : Beta.InvCDF(ones + 1, n - ones, 1 - t.FalseAlarmRate / 2);
         var deterministic = double.IsFinite(p.RateEquationValue) ? $", {Number(p.RateEquationValue)} by the rate equations" : "";
-        return $"occupancy (fraction of replicates at 1) {Number(p.Mean, 1.0 / n)} at the final time t = {Time(p.Time)} ({Percent(level)} interval {Number(low)} to {Number(high)}){deterministic}";
+        return $"occupancy (fraction of replicates at 1) {Number(p.Mean, 1.0 / n)} at the final time t = {Time(p.Time)} ({Level(level)} interval {Number(low)} to {Number(high)}){deterministic}";
     }
 
     // The switches are counted per replicate at the events themselves (not from grid snapshots) by the caller.

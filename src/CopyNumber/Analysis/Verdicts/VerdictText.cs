@@ -40,6 +40,12 @@ public static class VerdictText
         return Minus(text) + "%";
     }
 
+    /// <summary>A confidence level as a percentage with the digits it needs ("99%", "99.5%").</summary>
+    public static string Level(double probability) => Math.Round(100 * probability, 2).ToString("0.##", CultureInfo.InvariantCulture) + "%";
+
+    /// <summary>"1 grid time", "26 grid times".</summary>
+    public static string Count(long n, string singular, string plural) => $"{n} {(n == 1 ? singular : plural)}";
+
     /// <summary>A signed percentage ("+14%", "−3%"); no sign when it prints as 0.</summary>
     public static string SignedPercent(double fraction, double resolution = 0)
     {
