@@ -1,4 +1,5 @@
 using System.Globalization;
+using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Network;
 
 namespace CopyNumber.Analysis;
@@ -20,8 +21,10 @@ public static partial class Contrast
     /// <param name="points">One point per grid time, times strictly increasing.</param>
     /// <param name="thresholds">The thresholds; <see cref="ContrastThresholds.Default"/> when null.</param>
     /// <param name="lattice">The quantity's lattice from the model, on which its histograms are read; the plain integers when null.</param>
+    /// <param name="zeroOneLaw">When the model bounds this species to {0, 1} by a conservation law, that law written out
+    /// (e.g. "g_off + g_on = 1"); null to decide from the histograms' support.</param>
     /// <exception cref="AnalysisInputException">No points, times not increasing or not finite, a replicate count below 1, or a threshold out of range.</exception>
-    public static QuantityContrast Analyze(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds = null, QuantityLattice? lattice = null)
+    public static QuantityContrast Analyze(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds = null, QuantityLattice? lattice = null, string? zeroOneLaw = null)
     {
         ArgumentNullException.ThrowIfNull(quantity);
         ArgumentNullException.ThrowIfNull(points);
@@ -31,6 +34,7 @@ public static partial class Contrast
 
         var count = points.Count;
         var z = thresholds.Z;
+        var scale = NoiseScale.Of(points, zeroOneLaw);
         var deviations = new MeanDeviation[count];
         var resolved = new bool[count];
         var fromCorrected = new double[count];
@@ -38,21 +42,25 @@ public static partial class Contrast
         var cv = new double[count];
         var fano = new double[count];
         var modes = CountModes(points, thresholds.ModeRule, lattice);
+        var shapes = new SampleShape[count];
         for (var k = 0; k < count; k++)
         {
             var p = points[k];
             var absolute = p.Mean - p.RateEquationValue;
             var halfWidth = z * p.StandardError;
-            var scale = Math.Abs(p.RateEquationValue);
-            var aboveFloor = scale >= thresholds.DeterministicFloor && scale > 0;
+            var size = Math.Abs(p.RateEquationValue);
+            var aboveFloor = size >= thresholds.DeterministicFloor && size > 0;
             deviations[k] = new MeanDeviation(p.Time, absolute, halfWidth,
-                aboveFloor ? absolute / scale : double.NaN, aboveFloor ? halfWidth / scale : double.NaN);
-            // A deviation at round-off level (a conserved readout with zero variance) is not a deviation.
-            resolved[k] = Math.Abs(absolute) > halfWidth && Math.Abs(absolute) > 1e-9 * Math.Max(1.0, scale);
+                aboveFloor ? absolute / size : double.NaN, aboveFloor ? halfWidth / size : double.NaN);
+            // Pointwise and descriptive (contrast.parquet); the verdicts use family-wise rules. A deviation within
+            // the rate equations' round-off (a conserved readout with zero variance) is not a deviation.
+            resolved[k] = Math.Abs(absolute) > halfWidth && Math.Abs(absolute) > VerdictText.RelativeRoundOff * Math.Max(1.0, size);
             fromCorrected[k] = p.Mean - p.CorrectedMean;
             varianceRatio[k] = p.LnaVariance > 0 ? p.Variance / p.LnaVariance : double.NaN;
-            cv[k] = p.Mean > 0 ? Math.Sqrt(Math.Max(p.Variance, 0)) / p.Mean : double.NaN;
-            fano[k] = p.Mean > 0 ? p.Variance / p.Mean : double.NaN;
+            var measurable = scale.Measurable(p, z);
+            cv[k] = measurable ? Math.Sqrt(Math.Max(p.Variance, 0)) / p.Mean : double.NaN;
+            fano[k] = measurable ? p.Variance / p.Mean : double.NaN;
+            shapes[k] = SampleShape.Of(p.Histogram);
         }
 
         MeanDeviation? largest = null, largestRelative = null;
@@ -65,17 +73,22 @@ public static partial class Contrast
         }
 
         var minimumReplicates = points.Min(p => p.Replicates);
-        var context = new Evidence(quantity, points, thresholds, deviations, resolved, cv, modes);
+        var context = new Evidence(quantity, points, thresholds, deviations, resolved, cv, modes, shapes, scale);
+        var (window, windowStart) = LateWindow(context);
         var verdicts = new List<QuantityVerdict>();
         if (minimumReplicates < thresholds.MinimumReplicates)
             verdicts.Add(TooFewReplicates(context, minimumReplicates));
         else
         {
-            if (MeanShifted(context) is { } shifted) verdicts.Add(shifted);
-            if (NoiseDominated(context) is { } noisy) verdicts.Add(noisy);
+            var shift = MeanShiftTest.Run(points, deviations, shapes, thresholds);
+            if (shift.Verdict(quantity, points, deviations, thresholds) is { } shifted) verdicts.Add(shifted);
+            if (NoiseVerdict.Judge(context, window, windowStart) is { } noisy) verdicts.Add(noisy);
             if (Multimodal(context) is { } multimodal) verdicts.Add(multimodal);
-            if (ExtinctionProne(context) is { } extinction) verdicts.Add(extinction);
-            if (verdicts.Count == 0) verdicts.Add(Adequate(context, largestRelative ?? largest));
+            if (ExtinctionVerdict.Judge(context) is { } extinction) verdicts.Add(extinction);
+            if (verdicts.Count == 0) verdicts.Add(Adequate(context, shift));
+            // Why there is no CV verdict, said wherever the quantity's verdicts are read.
+            else if (NoiseStatement.For(context, window) is { } statement)
+                verdicts[^1] = verdicts[^1] with { Sentence = verdicts[^1].Sentence + "; " + statement };
         }
 
         return new QuantityContrast(quantity)
@@ -97,9 +110,11 @@ public static partial class Contrast
         };
     }
 
-    private sealed record Evidence(
+    /// <summary>What the verdicts read about one quantity.</summary>
+    internal sealed record Evidence(
         string Quantity, IReadOnlyList<ContrastPoint> Points, ContrastThresholds Thresholds,
-        MeanDeviation[] Deviations, bool[] Resolved, double[] CoefficientOfVariation, ModeCountResult?[] Modes);
+        MeanDeviation[] Deviations, bool[] Resolved, double[] CoefficientOfVariation, ModeCountResult?[] Modes,
+        SampleShape[] Shapes, NoiseScale Scale);
 
     private static void Check(string quantity, IReadOnlyList<ContrastPoint> points)
     {
@@ -114,50 +129,6 @@ public static partial class Contrast
         }
     }
 
-    // Resolved (|dev| > z·SE) and beyond the relative threshold, where the rate equations are above the floor.
-    private static QuantityVerdict? MeanShifted(Evidence e)
-    {
-        var t = e.Thresholds;
-        var eligible = Enumerable.Range(0, e.Points.Count).Where(k => !double.IsNaN(e.Deviations[k].Relative)).ToArray();
-        var flagged = eligible.Where(k => e.Resolved[k] && Math.Abs(e.Deviations[k].Relative) > t.RelativeDeviation).ToArray();
-        if (flagged.Length == 0) return null;
-        var top = flagged.MaxBy(k => Math.Abs(e.Deviations[k].Relative));
-        var d = e.Deviations[top];
-        var p = e.Points[top];
-        var direction = d.Relative > 0 ? "above" : "below";
-        var first = flagged[0];
-        var tail = eligible.SkipWhile(k => k < first).ToArray();
-        string when;
-        if (flagged.Length == 1) when = $"at t = {Time(p.Time)}";
-        else if (tail.Length == flagged.Length) when = $"from t = {Time(e.Points[first].Time)} on";
-        else when = $"at {flagged.Length} of {eligible.Length} grid times between t = {Time(e.Points[first].Time)} and t = {Time(e.Points[flagged[^1]].Time)}";
-        var prediction = double.IsNaN(p.CorrectedMean) ? ""
-            : $", where the first-order correction predicts {Signed((p.CorrectedMean - p.RateEquationValue) / Math.Abs(p.RateEquationValue))}";
-        var extent = flagged.Length == 1 ? "" : "up to ";
-        return new QuantityVerdict(e.Quantity, VerdictKind.MeanShifted,
-            $"ensemble mean {extent}{Percent(Math.Abs(d.Relative))} (±{Percent(d.RelativeHalfWidth)}) {direction} the rate equations "
-            + $"(t = {Time(p.Time)}: {Number(p.Mean)} against {Number(p.RateEquationValue)}{prediction}), beyond {Percent(t.RelativeDeviation)} {when}; "
-            + $"threshold {Percent(t.RelativeDeviation)}");
-    }
-
-    // The median CV over the late window, so one noisy point neither makes nor spoils the verdict.
-    private static QuantityVerdict? NoiseDominated(Evidence e)
-    {
-        var t = e.Thresholds;
-        var (window, start) = LateWindow(e);
-        var values = window.Select(k => e.CoefficientOfVariation[k]).Where(double.IsFinite).Order().ToArray();
-        if (values.Length == 0) return null;
-        var median = values.Length % 2 == 1 ? values[values.Length / 2] : 0.5 * (values[values.Length / 2 - 1] + values[values.Length / 2]);
-        if (!(median > t.CoefficientOfVariation)) return null;
-        var last = e.Points[^1];
-        var final = e.CoefficientOfVariation[^1];
-        var lna = last.LnaVariance >= 0 && last.RateEquationValue > 0
-            ? $"; the linear noise approximation gives {Number(Math.Sqrt(last.LnaVariance) / last.RateEquationValue)}" : "";
-        return new QuantityVerdict(e.Quantity, VerdictKind.NoiseDominated,
-            $"coefficient of variation {Number(median)} over the last {Percent(t.LateFraction)} of the run (median of {values.Length} grid times from t = {Time(start)}; "
-            + $"{Number(final)} at the final time t = {Time(last.Time)}{lna}); threshold {Number(t.CoefficientOfVariation)}");
-    }
-
     private static (int[] Indices, double Start) LateWindow(Evidence e)
     {
         var first = e.Points[0].Time;
@@ -167,16 +138,6 @@ public static partial class Contrast
         return (indices, e.Points[indices[0]].Time);
     }
 
-    private static QuantityVerdict? ExtinctionProne(Evidence e)
-    {
-        var t = e.Thresholds;
-        var last = e.Points[^1];
-        if (!(last.ProbabilityOfZero >= t.ExtinctionProbability) || !(last.RateEquationValue >= t.ExtinctionFloor)) return null;
-        return new QuantityVerdict(e.Quantity, VerdictKind.ExtinctionProne,
-            $"P(0) = {Number(last.ProbabilityOfZero)} at the final time t = {Time(last.Time)} while the rate equations hold {Number(last.RateEquationValue)} copies; "
-            + $"threshold P(0) ≥ {Number(t.ExtinctionProbability)} with the rate equations at ≥ {Number(t.ExtinctionFloor)} {(t.ExtinctionFloor == 1 ? "copy" : "copies")}");
-    }
-
     private static QuantityVerdict TooFewReplicates(Evidence e, long minimum)
     {
         var at = e.Points.First(p => p.Replicates == minimum);
@@ -184,39 +145,34 @@ public static partial class Contrast
             $"only {minimum} replicates at t = {Time(at.Time)}; at least {e.Thresholds.MinimumReplicates} are needed before any other verdict is drawn");
     }
 
-    private static QuantityVerdict Adequate(Evidence e, MeanDeviation? largest)
+    private static QuantityVerdict Adequate(Evidence e, MeanShiftTest shift)
     {
         var t = e.Thresholds;
-        var deviation = largest is null
-            ? $"no deviation from the rate equations is resolved at {Number(t.Z)} standard errors"
-            : double.IsNaN(largest.Relative)
-                ? $"largest resolved deviation from the rate equations {Signed(largest.Absolute, percent: false)} copies at t = {Time(largest.Time)}"
-                : $"largest resolved deviation from the rate equations {Signed(largest.Relative)} (±{Percent(largest.RelativeHalfWidth)}) at t = {Time(largest.Time)}";
+        string deviation;
+        if (shift.Eligible.Length == 0)
+            deviation = $"no grid time where the rate equations hold ≥ {Number(t.DeterministicFloor)} {(t.DeterministicFloor == 1 ? "copy" : "copies")} to judge a relative deviation on";
+        else
+        {
+            var rule = $"no deviation from the rate equations beyond {Percent(t.RelativeDeviation)} is resolved at false-alarm rate {Percent(t.FalseAlarmRate)} over {VerdictText.Count(shift.Eligible.Length, "grid time", "grid times")}";
+            var top = shift.LargestResolved(e.Points, e.Deviations);
+            deviation = top < 0
+                ? $"{rule}; none differs from 0 beyond the simultaneous band"
+                : $"{rule}; largest resolved from 0 {VerdictText.SignedPercent(e.Deviations[top].Relative)} ± {Percent(shift.RelativeBand(e.Points[top]))} at t = {Time(e.Deviations[top].Time)}";
+        }
         var last = e.Points[^1];
-        var cv = double.IsFinite(e.CoefficientOfVariation[^1]) ? $", coefficient of variation {Number(e.CoefficientOfVariation[^1])} at the end" : "";
+        var (window, _) = LateWindow(e);
+        var noise = NoiseStatement.For(e, window) is { } statement ? "; " + statement
+            : double.IsFinite(e.CoefficientOfVariation[^1]) ? $", coefficient of variation {Number(e.CoefficientOfVariation[^1])} at the end" : "";
         var modes = e.Modes[^1] is null ? "" : ", one mode";
-        var zero = double.IsNaN(last.ProbabilityOfZero) ? "" : $", P(0) = {Number(last.ProbabilityOfZero)}";
+        var zero = double.IsNaN(last.ProbabilityOfZero) ? "" : $", P(0) = {VerdictText.Number(last.ProbabilityOfZero, 1.0 / last.Replicates)}";
         return new QuantityVerdict(e.Quantity, VerdictKind.Adequate,
-            $"{deviation}{cv}{modes}{zero}; thresholds {Percent(t.RelativeDeviation)} deviation, coefficient of variation {Number(t.CoefficientOfVariation)}, "
+            $"{deviation}{modes}{zero}{noise}; thresholds {Percent(t.RelativeDeviation)} deviation, coefficient of variation {Number(t.CoefficientOfVariation)}, "
             + $"P(0) {Number(t.ExtinctionProbability)}");
     }
 
-    private static string Time(double t) => t.ToString("G6", CultureInfo.InvariantCulture);
+    private static string Time(double t) => VerdictText.Time(t);
 
-    private static string Number(double x) => x.ToString(Math.Abs(x) >= 100 ? "F0" : "G3", CultureInfo.InvariantCulture);
+    private static string Number(double x) => VerdictText.Number(x);
 
-    private static string Percent(double fraction)
-    {
-        var p = 100 * fraction;
-        var text = Math.Abs(p) >= 10 ? p.ToString("F0", CultureInfo.InvariantCulture)
-            : Math.Abs(p) >= 1 ? p.ToString("0.#", CultureInfo.InvariantCulture)
-            : p.ToString("G2", CultureInfo.InvariantCulture);
-        return text + "%";
-    }
-
-    private static string Signed(double value, bool percent = true)
-    {
-        var text = percent ? Percent(Math.Abs(value)) : Number(Math.Abs(value));
-        return (value < 0 ? "−" : "+") + text;
-    }
+    private static string Percent(double fraction) => VerdictText.Percent(fraction);
 }

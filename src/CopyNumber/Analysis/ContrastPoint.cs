@@ -16,6 +16,9 @@ namespace CopyNumber.Analysis;
 /// <param name="RateEquationValue">The rate-equation value at this time.</param>
 /// <param name="LnaVariance">The linear-noise variance, or NaN.</param>
 /// <param name="CorrectedMean">The first-order corrected (EMRE) mean, or NaN.</param>
+/// <param name="Minimum">The smallest value over the replicates, or NaN when unknown (the histogram's is used when there is one).</param>
+/// <param name="SwitchesPerReplicate">For a 0/1 quantity, the mean number of 0↔1 transitions per replicate from the first grid time
+/// to this one, counted at the events; NaN when unknown.</param>
 public sealed record ContrastPoint(
     double Time,
     long Replicates,
@@ -26,7 +29,9 @@ public sealed record ContrastPoint(
     CountDistribution? Histogram,
     double RateEquationValue,
     double LnaVariance = double.NaN,
-    double CorrectedMean = double.NaN)
+    double CorrectedMean = double.NaN,
+    double Minimum = double.NaN,
+    double SwitchesPerReplicate = double.NaN)
 {
     /// <summary>A point from the ensemble statistics of a count quantity and its histogram.</summary>
     /// <param name="time">The grid time.</param>
@@ -41,7 +46,7 @@ public sealed record ContrastPoint(
         ArgumentNullException.ThrowIfNull(summary);
         ArgumentNullException.ThrowIfNull(histogram);
         return new ContrastPoint(time, summary.Replicates, summary.Mean, summary.Variance, summary.StandardError,
-            summary.ZeroFraction, CountDistribution.FromHistogram(histogram), rateEquationValue, lnaVariance, correctedMean);
+            summary.ZeroFraction, CountDistribution.FromHistogram(histogram), rateEquationValue, lnaVariance, correctedMean, summary.Minimum);
     }
     /// <summary>A point from the moments of a quantity that is not a count (no histogram, no P(0)).</summary>
     /// <param name="time">The grid time.</param>
@@ -54,6 +59,6 @@ public sealed record ContrastPoint(
     {
         ArgumentNullException.ThrowIfNull(moments);
         return new ContrastPoint(time, moments.Count, moments.Mean, moments.Variance, moments.StandardError,
-            double.NaN, null, rateEquationValue, lnaVariance, correctedMean);
+            double.NaN, null, rateEquationValue, lnaVariance, correctedMean, moments.Minimum);
     }
 }

@@ -1,4 +1,5 @@
 using System.Globalization;
+using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Deterministic;
 using CopyNumber.Network;
 using CopyNumber.Output;
@@ -53,6 +54,8 @@ public static class RunContrast
             failure = e.Message;
         }
 
+        var zeroOne = ZeroOneSpecies.Of(network);
+        var switching = SwitchingJson.Read(manifest, network, grid.Until).Where(x => x.Replicates > 0).ToDictionary(x => x.Species);
         var contrasts = new List<QuantityContrast>();
         foreach (var series in run.Quantities)
         {
@@ -69,7 +72,10 @@ public static class RunContrast
                     column >= 0 ? expansion!.Variance(k, column) : double.NaN,
                     column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN));
             }
-            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name)));
+            // The switches are counted over the whole run [0, T]: they belong to the final grid time, when the run reached it.
+            if (points.Count > 0 && points[^1].Time == grid.Until && switching.TryGetValue(series.Name, out var switches))
+                points[^1] = points[^1] with { SwitchesPerReplicate = switches.Mean };
+            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name)));
         }
         return new RunContrastResult(run, network, contrasts, expansion, failure);
     }

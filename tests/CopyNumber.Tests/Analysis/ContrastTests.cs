@@ -63,7 +63,7 @@ public sealed class ContrastTests
         Assert.Contains("threshold 0.5", noisy);
         Assert.Contains("linear noise approximation gives 0.707", noisy);
         var extinction = contrast.Verdicts[1].Sentence;
-        Assert.Contains("threshold P(0) ≥ 0.05", extinction);
+        Assert.Contains("threshold P(0) > 0.05 by an exact binomial test", extinction);
         Assert.Contains("rate equations hold 2 copies", extinction);
     }
 
@@ -126,7 +126,33 @@ public sealed class ContrastTests
         Assert.All(contrast.Modes, Assert.Null);
         Assert.True(double.IsNaN(contrast.FinalProbabilityOfZero));
         Assert.Equal(VerdictKind.Adequate, Assert.Single(contrast.Verdicts).Kind);
-        Assert.Contains("no deviation from the rate equations is resolved", contrast.Verdicts[0].Sentence);
+        Assert.Contains("no deviation from the rate equations beyond 5% is resolved", contrast.Verdicts[0].Sentence);
+    }
+
+    [Fact]
+    public void A_deviation_at_round_off_prints_as_zero_and_is_not_resolved()
+    {
+        // A conserved readout: every replicate holds exactly 100, the rate equations 100·(1 + 7.4·10⁻⁸), their
+        // round-off (relative tolerance 10⁻⁶; common practice). No deviation, and no "−7.4E-06%".
+        var points = Enumerable.Range(0, 11).Select(k => new ContrastPoint(k, 500, 100.0, 0.0, 0.0, double.NaN, null, 100.0 * (1 + 7.4e-8))).ToList();
+        var contrast = Contrast.Analyze("total", points);
+        var sentence = Assert.Single(contrast.Verdicts).Sentence;
+        Assert.DoesNotContain("E-", sentence);
+        Assert.Contains("none differs from 0 beyond the simultaneous band", sentence);
+        Assert.All(contrast.Resolved, Assert.False);
+    }
+
+    [Fact]
+    public void A_shift_exactly_at_the_threshold_is_not_flagged()
+    {
+        // Poisson(105) against rate equations at 100 (Bailey 1964 for the law), n = 1000: a 5% shift, resolved
+        // from 0 (SE ≈ 0.32%) and with the point estimate beyond 5% at about half of the 101 grid times, but
+        // "beyond 5%" is false (the boundary case, flagged in at most 1% of seeds); a 9% shift (12 SE beyond) is flagged.
+        var near = Contrast.Analyze("P", Series(6, 1000, _ => PoissonLaw(105), _ => 100));
+        Assert.DoesNotContain(near.Verdicts, v => v.Kind == VerdictKind.MeanShifted);
+        var far = Contrast.Analyze("P", Series(6, 1000, _ => PoissonLaw(109), _ => 100));
+        var shifted = Assert.Single(far.Verdicts, v => v.Kind == VerdictKind.MeanShifted);
+        Assert.Contains("false-alarm rate 1% over 101 grid times (Holm)", shifted.Sentence);
     }
 
     [Fact]
