@@ -9,7 +9,7 @@ namespace CopyNumber.Stochastic;
 /// <remarks>
 /// <para>1. τ·ρ ≤ θ: the explicit (Euler) leap of Gillespie (2001, J. Chem. Phys. 115:1716). For a linear
 /// mode of rate d its stationary variance is 2b/(d(2 − dτ)) against the true b/d: the relative error
-/// dτ/(2 − dτ) ≤ θ/(2 − θ) (0.5% at θ = 0.01). Its mean of a growing mode of rate λ is multiplied per
+/// dτ/(2 − dτ) ≤ θ/(2 − θ) (0.1% at the default θ = 0.002). Its mean of a growing mode of rate λ is multiplied per
 /// leap by 1 + λτ instead of e^(λτ): a relative bias of about −λ²τ/2 ≥ −λθ/2 per unit time.</para>
 /// <para>2. τ·ρ &gt; θ: the relaxation bound would force τ below the leap condition's — the fast modes
 /// of a stiff network, or a slow network recorded rarely — so instead of shortening the leap the
@@ -21,8 +21,8 @@ namespace CopyNumber.Stochastic;
 /// </remarks>
 internal static class LeapFormulaRule
 {
-    /// <summary>θ unless told otherwise: an explicit leap's stationary variance error ≤ θ/(2 − θ) ≈ 0.5%.</summary>
-    public const double DefaultRelaxation = 0.01;
+    /// <summary>θ unless told otherwise: an explicit leap's stationary variance error ≤ θ/(2 − θ) ≈ 0.1%.</summary>
+    public const double DefaultRelaxation = 0.002;
 
     /// <summary>The largest leap any formula may take when a mode may grow at rate up to <paramref name="growth"/>.</summary>
     public static double GrowthCap(double growth) => growth > 0.0 ? 1.0 / growth : double.PositiveInfinity;
