@@ -75,7 +75,11 @@ internal sealed class LeapStepSize
         _mean = new double[speciesCount];
         _variance = new double[speciesCount];
         _reverse = ReversePartners(network.Stoichiometry);
+        HasReversiblePairs = _reverse.Any(r => r >= 0);
     }
+
+    /// <summary>Whether some reaction has a reverse; without one, skipping partial equilibria changes nothing.</summary>
+    public bool HasReversiblePairs { get; }
 
     /// <summary>Per reaction j, some reaction j' whose column of N is −ν_j (its reverse); −1 if none.</summary>
     private static int[] ReversePartners(Stoichiometry n)

@@ -106,7 +106,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             var tauPrime = Math.Min(_stepSize.Select(counts, _propensity, _critical.IsCritical), growthCap);
             // A leap past the explicit formula's relaxation bound is trapezoidal; its leap condition may
             // then leave out the fast pairs in partial equilibrium (LeapStepSize).
-            if (LeapFormulaRule.UsesTrapezoid(tauPrime, _jacobian.Relaxation, _theta))
+            if (_stepSize.HasReversiblePairs && LeapFormulaRule.UsesTrapezoid(tauPrime, _jacobian.Relaxation, _theta))
                 tauPrime = Math.Min(_stepSize.Select(counts, _propensity, _critical.IsCritical, skipEquilibrium: true), growthCap);
             if (!Step(ref rng, ref t, stop, a0, a0c, tauPrime, ref events, ref steps))
                 return new ReplicateResult(events, steps, true);

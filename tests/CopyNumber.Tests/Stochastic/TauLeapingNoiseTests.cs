@@ -59,13 +59,15 @@ public sealed class TauLeapingNoiseTests
     }
 
     [Fact]
-    public void ForcedTauLeapingOnPureGrowthKeepsTheMeanWithinHalfAPercent()
+    public void ForcedTauLeapingOnPureGrowthKeepsTheMeanWithinHalfAPercentBeyondSamplingError()
     {
         // X -> 2X at rate 1·x from X = 10 (the Yule–Furry process): X(t) is negative binomial with mean
         // x0·e^t and variance x0·e^t(e^t − 1) (Bailey 1964, The Elements of Stochastic Processes, Wiley,
         // the simple birth process; quoted from memory). At t = 8 the mean is 29 809.6 and the SD 9 425.
-        // Before the relaxation rule the explicit leap at τ = ε = 0.03 fell 5.6% short (28 128 ± 190).
-        // The check: |mean − exact| ≤ 5 SE (from the exact variance) + 0.5% of the exact mean.
+        // Before the relaxation rule the explicit leap at τ = ε = 0.03 fell 6% short (28 006 ± 190).
+        // The check: |mean − exact| ≤ 5 SE (from the exact variance, 1.1%) + 0.5% of the exact mean, so it
+        // resolves biases beyond 1.6%: it catches the explicit leap's −6%, and passes the remaining ≈ −1%
+        // that docs/methods.md reports (measured, arising around the hand-over from exact steps to leaps).
         const int replicates = 20_000;
         var network = ModelLoader.LoadText("# illustrative\nspecies\n  X = 10\nreactions\n  grow: X -> 2 X mass 1\n", "growth.cnet").Model!.Network;
         var grid = new TimeGrid(until: 8, every: 1);
