@@ -151,7 +151,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             var trapezoidal = LeapFormulaRule.UsesTrapezoid(tau, _jacobian.Relaxation, _theta);
             if (trapezoidal)
             {
-                if (!_trapezoid.Correct(_firings, critical, tau))
+                if (!_trapezoid.Correct(_firings, critical, tau, ref rng))
                 {
                     tauPrime = tau / 2;
                     continue;

@@ -1,3 +1,5 @@
+using CopyNumber.Randomness;
+
 namespace CopyNumber.Stochastic;
 
 /// <summary>
@@ -5,7 +7,8 @@ namespace CopyNumber.Stochastic;
 /// x' = x + Σ_j ν_j [P_j(a_j(x)τ) − a_j(x)τ/2 + a_j(x')τ/2], firing counts rounded to integers,
 /// solved here with one Newton step from x (a linearly implicit form): with A = ∂a/∂x at x and
 /// J = N·A, the change δ = x' − x on the fed-back species R solves (I − τJ/2)·δ = N·P, and reaction j
-/// fires K_j = round(P_j + (τ/2)·A_j·δ) times.
+/// fires K_j = P_j + (τ/2)·A_j·δ times, rounded to an integer at random, up with probability equal to the
+/// fractional part, so that E[K_j] is the unrounded value.
 /// </summary>
 /// <remarks>
 /// <para>Why this formula: on a network whose propensities are linear in the counts the one Newton step is
@@ -17,6 +20,11 @@ namespace CopyNumber.Stochastic;
 /// 2b/(d(2 − dτ)) and the implicit leap 2b/(d(2 + dτ)). The mean of a linear growth x' = λx is
 /// multiplied per leap by (1 + λτ/2)/(1 − λτ/2) = e^(λτ + (λτ)³/12 + …): a relative error λ³τ²/12 per unit
 /// time, second order, where the explicit leap's (1 + λτ) = e^(λτ − (λτ)²/2 + …) errs by λ²τ/2.</para>
+/// <para>Why random rounding: the correction (τ/2)·A_j·δ is often below one firing (for X → 2X at τ = 0.03
+/// it is 1.5% of P_j, under ½ while P_j &lt; 33); rounding to the nearest integer then drops it and the
+/// leap is explicit in effect. Measured on X → 2X from 200 copies: mean −1.2% at t = 2 with nearest
+/// rounding (the explicit leap's −λτ/2 per unit time while counts were below ~1 000), 0.0% with random
+/// rounding. The rounding adds at most ¼ to the variance of each K_j.</para>
 /// <para>K_j may come out negative when the implicit correction outweighs a small P_j; it is then applied
 /// as |K_j| reverse firings, and a leap that would leave a count negative is rejected by the caller like
 /// any other. Scratch is allocated once; a leap allocates nothing. The solve is dense Gaussian elimination
@@ -46,7 +54,7 @@ internal sealed class TrapezoidalLeap
     /// size <paramref name="tau"/> into the trapezoidal firing counts K_j, in place. False when
     /// I − τJ/2 is singular to working precision (the caller then shortens the leap).
     /// </summary>
-    public bool Correct(long[] firings, bool[] critical, double tau)
+    public bool Correct(long[] firings, bool[] critical, double tau, ref Xoshiro256StarStar rng)
     {
         var n = _delta.Length;
         if (n == 0) return true;
@@ -80,7 +88,7 @@ internal sealed class TrapezoidalLeap
                 if (r >= 0) correction += derivatives[p] * _delta[r];
             }
             if (correction == 0.0) continue;
-            var k = Math.Round(firings[j] + 0.5 * tau * correction);
+            var k = Math.Floor(firings[j] + 0.5 * tau * correction + rng.NextDouble());
             if (!(Math.Abs(k) < 4e18)) return false;
             firings[j] = (long)k;
         }
