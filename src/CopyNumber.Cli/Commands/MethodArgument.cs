@@ -13,7 +13,7 @@ internal static class MethodArgument
     {
         "auto" => MethodChooser.Choose(network, grid),
         "next-reaction" => (SimulationMethod.NextReaction, $"{name} was requested"),
-        "tau-leap" => (SimulationMethod.TauLeap, $"{name} was requested"),
+        "tau-leap" => (SimulationMethod.TauLeap, $"{name} was requested; {MethodChooser.LeapFormulas}"),
         "composition-rejection" => (SimulationMethod.CompositionRejection, $"{name} was requested"),
         _ => (SimulationMethod.Direct, $"{name} was requested"),
     };

@@ -19,6 +19,13 @@ namespace CopyNumber.Stochastic;
 /// treated as a first-order reactant (g ≥ 1). That bounds the relative change of the species, not of a
 /// steep law such as a Hill function of high coefficient, whose propensity can change by up to its
 /// coefficient times as much.
+/// <para>For the trapezoidal leap (<see cref="LeapFormulaRule"/>) the drift μ_i may leave out the reversible
+/// pairs in partial equilibrium, |a_j − a_j'| ≤ δ·min(a_j, a_j') with δ = 0.05, whose net drift is the
+/// restoring pull on the fluctuations of a fast mode, not a transient (Cao, Gillespie &amp; Petzold 2007,
+/// J. Chem. Phys. 126:224101; quoted from memory); their noise stays in σ_i². Counting that pull would make
+/// the leap shorter the further a fast mode has strayed, so the leap would damp large excursions more than
+/// small ones and the trapezoidal leap would lose its exact stationary variance (measured: the stiff test
+/// network's A had Fano factor 0.94 at ε = 0.03 and 0.70 at ε = 0.1 with the pull counted).</para>
 /// </remarks>
 internal sealed class LeapStepSize
 {
@@ -29,6 +36,10 @@ internal sealed class LeapStepSize
     private readonly (int Order, int Multiplicity)[] _forms;
     private readonly double[] _mean;        // μ_i, per species
     private readonly double[] _variance;    // σ_i², per species
+    private readonly int[] _reverse;        // per reaction, a reaction with the opposite change, or −1
+
+    /// <summary>The relative imbalance δ below which a reversible pair counts as in partial equilibrium.</summary>
+    public const double PartialEquilibrium = 0.05;
 
     public LeapStepSize(ReactionNetwork network, ReactionEffects effects, double epsilon)
     {
@@ -63,10 +74,39 @@ internal sealed class LeapStepSize
         _forms = forms.ToArray();
         _mean = new double[speciesCount];
         _variance = new double[speciesCount];
+        _reverse = ReversePartners(network.Stoichiometry);
+        HasReversiblePairs = _reverse.Any(r => r >= 0);
+    }
+
+    /// <summary>Whether some reaction has a reverse; without one, skipping partial equilibria changes nothing.</summary>
+    public bool HasReversiblePairs { get; }
+
+    /// <summary>Per reaction j, some reaction j' whose column of N is −ν_j (its reverse); −1 if none.</summary>
+    private static int[] ReversePartners(Stoichiometry n)
+    {
+        var reverse = Enumerable.Repeat(-1, n.ReactionCount).ToArray();
+        var byColumn = new Dictionary<string, int>();
+        string Key(int j, long sign) =>
+            string.Join(",", n.ChangedSpecies(j).ToArray().Zip(n.Changes(j).ToArray()).OrderBy(p => p.First).Select(p => $"{p.First}:{sign * p.Second}"));
+        for (var j = 0; j < n.ReactionCount; j++)
+        {
+            if (n.ChangedSpecies(j).Length == 0) continue;
+            if (byColumn.TryGetValue(Key(j, -1), out var partner) && reverse[partner] < 0)
+            {
+                reverse[j] = partner;
+                reverse[partner] = j;
+            }
+            else byColumn.TryAdd(Key(j, 1), j);
+        }
+        return reverse;
     }
 
     /// <summary>τ' for the current state; +∞ when no bound applies (no non-critical reaction changes a read species).</summary>
-    public double Select(long[] counts, double[] propensities, bool[] critical)
+    /// <param name="counts">The state.</param>
+    /// <param name="propensities">a_j at the state.</param>
+    /// <param name="critical">The critical reactions, left out of μ and σ².</param>
+    /// <param name="skipEquilibrium">Leave the reversible pairs in partial equilibrium out of μ (trapezoidal leaps only).</param>
+    public double Select(long[] counts, double[] propensities, bool[] critical, bool skipEquilibrium = false)
     {
         Array.Clear(_mean);
         Array.Clear(_variance);
@@ -77,10 +117,11 @@ internal sealed class LeapStepSize
         {
             var a = propensities[j];
             if (critical[j] || !(a > 0.0)) continue;
+            var drifts = !skipEquilibrium || !InPartialEquilibrium(j, propensities, critical);
             for (var e = start[j]; e < start[j + 1]; e++)
             {
                 double nu = amount[e];
-                _mean[changed[e]] += nu * a;
+                if (drifts) _mean[changed[e]] += nu * a;
                 _variance[changed[e]] += nu * nu * a;
             }
         }
@@ -101,6 +142,15 @@ internal sealed class LeapStepSize
             if (variance > 0.0) tau = Math.Min(tau, bound * bound / variance);
         }
         return tau;
+    }
+
+    private bool InPartialEquilibrium(int reaction, double[] propensities, bool[] critical)
+    {
+        var partner = _reverse[reaction];
+        if (partner < 0 || critical[partner]) return false;
+        var a = propensities[reaction];
+        var b = propensities[partner];
+        return Math.Abs(a - b) <= PartialEquilibrium * Math.Min(a, b);
     }
 
     /// <summary>

@@ -14,7 +14,8 @@ namespace CopyNumber.Stochastic;
 /// 2. Otherwise, when every species that some reaction changes starts with and, by the rate equations,
 ///    keeps at least <see cref="HighCopies"/> copies over the whole grid: tau-leaping. At ε = 0.03 a leap
 ///    may then change each propensity by ~30 molecules' worth, so a leap stands for many events; with
-///    fewer copies most leaps would fall back to exact steps, and discreteness matters.
+///    fewer copies most leaps would fall back to exact steps, and discreteness matters. Each leap is
+///    explicit or trapezoidal by the relaxation rule (<see cref="LeapFormulaRule"/>); the reason says so.
 /// 3. Otherwise the direct method, exact, the fastest for the small networks of most models.
 /// The rate equations are a proxy for the ensemble mean; they say nothing about rare excursions, so the
 /// high-copy condition is deliberately strict (the smallest value anywhere on the grid).
@@ -66,7 +67,7 @@ public static class MethodChooser
         var name = network.Species[scarce];
         if (fewest >= HighCopies)
             return (SimulationMethod.TauLeap,
-                $"auto: {reactions}, and every species that changes keeps at least {Count(HighCopies)} copies by the rate equations (fewest: '{name}', {Count(fewest)}), so tau-leaping");
+                $"auto: {reactions}, and every species that changes keeps at least {Count(HighCopies)} copies by the rate equations (fewest: '{name}', {Count(fewest)}), so tau-leaping; {LeapFormulas}");
         return (SimulationMethod.Direct,
             $"auto: {reactions}; '{name}' has as few as {Count(fewest)} copies by the rate equations (tau-leaping needs at least {Count(HighCopies)}), so the exact direct method");
     }
@@ -89,6 +90,13 @@ public static class MethodChooser
         }
         return best;
     }
+
+    /// <summary>
+    /// How tau-leaping picks each leap's formula (<see cref="LeapFormulaRule"/>), for the reason text and
+    /// so for manifest.json: the same words whether auto chose tau-leaping or the user did.
+    /// </summary>
+    public static string LeapFormulas { get; } =
+        $"each leap explicit while tau times the drift Jacobian's fastest rate is at most theta = {LeapFormulaRule.DefaultRelaxation.ToString(CultureInfo.InvariantCulture)}, trapezoidal (Cao & Petzold 2005) beyond it";
 
     private static string Count(double value) => Math.Round(value).ToString("N0", CultureInfo.InvariantCulture);
 }

@@ -14,13 +14,22 @@ namespace CopyNumber.Stochastic;
 /// species it consumes is critical and fires at most once per leap (Cao, Gillespie &amp; Petzold 2005,
 /// J. Chem. Phys. 123:054104). Ignored by the exact methods.
 /// </param>
-public sealed record SimulatorOptions(double Epsilon = 0.03, long MaxEvents = long.MaxValue, int CriticalThreshold = 10)
+/// <param name="Relaxation">
+/// Tau-leaping's relaxation bound θ (dimensionless, 0 &lt; θ &lt; 1): a leap of size τ uses the explicit
+/// formula only while τ·ρ ≤ θ, ρ bounding the fastest relaxation or growth rate of the network's mean
+/// drift; otherwise it uses the trapezoidal formula (<see cref="LeapFormulaRule"/>). On linear death the
+/// explicit leap's stationary variance is then at most 2/(2 − θ) − 1 = θ/(2 − θ) too high. Ignored by
+/// the exact methods.
+/// </param>
+public sealed record SimulatorOptions(double Epsilon = 0.03, long MaxEvents = long.MaxValue, int CriticalThreshold = 10, double Relaxation = LeapFormulaRule.DefaultRelaxation)
 {
     /// <summary>Throws <see cref="ArgumentOutOfRangeException"/> with a readable message when a setting is out of range.</summary>
     public void Validate()
     {
         if (!(Epsilon > 0 && Epsilon < 1))
             throw new ArgumentOutOfRangeException(nameof(Epsilon), Epsilon, "the tau-leaping error parameter epsilon must lie strictly between 0 and 1");
+        if (!(Relaxation > 0 && Relaxation < 1))
+            throw new ArgumentOutOfRangeException(nameof(Relaxation), Relaxation, "the tau-leaping relaxation bound theta must lie strictly between 0 and 1");
         if (MaxEvents < 0)
             throw new ArgumentOutOfRangeException(nameof(MaxEvents), MaxEvents, "the event limit per replicate cannot be negative");
         if (CriticalThreshold < 0)

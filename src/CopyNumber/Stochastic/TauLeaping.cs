@@ -4,18 +4,21 @@ using CopyNumber.Randomness;
 namespace CopyNumber.Stochastic;
 
 /// <summary>
-/// Adaptive explicit tau-leaping: the leap size of Cao, Gillespie &amp; Petzold (2006, J. Chem. Phys.
+/// Adaptive tau-leaping: the leap size of Cao, Gillespie &amp; Petzold (2006, J. Chem. Phys.
 /// 124:044109) with the critical reactions of Cao, Gillespie &amp; Petzold (2005, J. Chem. Phys.
-/// 123:054104). Approximate; the error is controlled by ε.
+/// 123:054104), each leap explicit (Gillespie 2001, J. Chem. Phys. 115:1716) or trapezoidal
+/// (Cao &amp; Petzold 2005, J. Comput. Phys. 206:395; quoted from memory) by the relaxation rule of
+/// <see cref="LeapFormulaRule"/>. Approximate; the error is controlled by ε and θ.
 /// </summary>
 /// <remarks>
 /// Each step, in the state x at time t:
 /// 1. propensities a_j and a0; the critical reactions (a_j &gt; 0, fewer than n_c firings left) and a0c;
-/// 2. τ' from the non-critical reactions (<see cref="LeapStepSize"/>);
+/// 2. τ' from the non-critical reactions (<see cref="LeapStepSize"/>), capped at 1/ρ₊ when a mode may
+///    grow; the drift's Jacobian J = N·∂a/∂x and its rate bounds ρ, ρ₊ (<see cref="PropensityJacobian"/>);
 /// 3. if τ' &lt; 10/a0 a leap would gain little: up to 100 steps of the direct method instead;
 /// 4. otherwise τ'' ~ Exp(a0c); the leap is τ = min(τ', τ'', time to the next stop). Non-critical
-///    reactions fire Poisson(a_j τ) times; when τ'' is the minimum one critical reaction, chosen with
-///    probability a_j/a0c, fires once; otherwise none does;
+///    reactions fire Poisson(a_j τ) times — corrected by the trapezoidal formula when τ·ρ &gt; θ; when τ''
+///    is the minimum one critical reaction, chosen with probability a_j/a0c, fires once; otherwise none does;
 /// 5. a leap that would make a count negative is rejected and tried again from step 3 with τ' = τ/2.
 /// Grid and schedule times are stops: a leap that reaches one is cut there, so the state recorded at a
 /// grid time is the state at that time. Counts are never negative.
@@ -35,6 +38,9 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     private readonly GridRecorder _recorder = new();
     private readonly CriticalReactions _critical;
     private readonly LeapStepSize _stepSize;
+    private readonly PropensityJacobian _jacobian;
+    private readonly TrapezoidalLeap _trapezoid;
+    private readonly double _theta;
     private readonly PoissonDraw _poisson;
     private readonly long _maxEvents;
     private readonly double[] _propensity;
@@ -54,12 +60,21 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
         _schedule = new ScheduleCursor(network);
         _critical = new CriticalReactions(_effects, options.CriticalThreshold);
         _stepSize = new LeapStepSize(network, _effects, options.Epsilon);
+        _jacobian = new PropensityJacobian(_state, _effects);
+        _trapezoid = new TrapezoidalLeap(_jacobian, _effects, _state.SpeciesCount);
+        _theta = options.Relaxation;
         _poisson = poisson;
         _maxEvents = options.MaxEvents;
         _propensity = new double[_state.ReactionCount];
         _firings = new long[_state.ReactionCount];
         _trial = new long[_state.SpeciesCount];
     }
+
+    /// <summary>Leaps taken with the trapezoidal formula since this simulator was made (for tests and diagnostics).</summary>
+    internal long TrapezoidalLeaps { get; private set; }
+
+    /// <summary>Leaps taken with the explicit formula since this simulator was made.</summary>
+    internal long ExplicitLeaps { get; private set; }
 
     public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
     {
@@ -86,7 +101,13 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
                 continue;
             }
             var a0c = _critical.Classify(counts, _propensity);
-            var tauPrime = _stepSize.Select(counts, _propensity, _critical.IsCritical);
+            _jacobian.Update(_critical.IsCritical);
+            var growthCap = LeapFormulaRule.GrowthCap(_jacobian.Growth);
+            var tauPrime = Math.Min(_stepSize.Select(counts, _propensity, _critical.IsCritical), growthCap);
+            // A leap past the explicit formula's relaxation bound is trapezoidal; its leap condition may
+            // then leave out the fast pairs in partial equilibrium (LeapStepSize).
+            if (_stepSize.HasReversiblePairs && LeapFormulaRule.UsesTrapezoid(tauPrime, _jacobian.Relaxation, _theta))
+                tauPrime = Math.Min(_stepSize.Select(counts, _propensity, _critical.IsCritical, skipEquilibrium: true), growthCap);
             if (!Step(ref rng, ref t, stop, a0, a0c, tauPrime, ref events, ref steps))
                 return new ReplicateResult(events, steps, true) { Switches = _state.Switches.Finish() };
         }
@@ -127,6 +148,17 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
                 _firings[j] = k;
                 firings += k;
             }
+            var trapezoidal = LeapFormulaRule.UsesTrapezoid(tau, _jacobian.Relaxation, _theta);
+            if (trapezoidal)
+            {
+                if (!_trapezoid.Correct(_firings, critical, tau, ref rng))
+                {
+                    tauPrime = tau / 2;
+                    continue;
+                }
+                firings = 0;
+                foreach (var k in _firings) firings += Math.Abs(k);
+            }
             if (criticalFires)
             {
                 _firings[PickCritical(rng.NextDouble() * a0c)]++;
@@ -149,12 +181,15 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             t = reachesStop ? stop : Math.Min(t + tau, stop);
             events += firings;
             steps++;
+            if (trapezoidal) TrapezoidalLeaps++;
+            else ExplicitLeaps++;
             return true;
         }
     }
 
     /// <summary>
-    /// Adds <paramref name="firings"/> firings of reaction <paramref name="reaction"/> to the trial counts;
+    /// Adds <paramref name="firings"/> firings of reaction <paramref name="reaction"/> to the trial counts
+    /// (a negative number, which only the trapezoidal formula yields, as that many reverse firings);
     /// stops the run when a count would pass <see cref="FiringProgram.CountLimit"/>, and returns false
     /// (without finishing) for a loss of more than 2^62 copies, which overdraws the count as surely as any
     /// rejected leap, before the product can overflow.
@@ -162,10 +197,12 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     private bool ApplyWithinLimit(int reaction, long firings, double time)
     {
         var start = _effects.ChangeStart;
+        var sign = firings < 0 ? -1L : 1L;
+        firings *= sign;
         for (var e = start[reaction]; e < start[reaction + 1]; e++)
         {
             var species = _effects.ChangeSpecies[e];
-            var amount = _effects.ChangeAmount[e];
+            var amount = sign * _effects.ChangeAmount[e];
             if (amount > 0)
             {
                 if (firings > (FiringProgram.CountLimit - _trial[species]) / amount)
