@@ -75,7 +75,7 @@ public sealed record ValidationResult(
     public string Describe()
     {
         var text = new System.Text.StringBuilder();
-        text.Append($"validation sample: {Sample.Replicates} exact (direct-method) replicates, {Format(Sample.WallTime.TotalSeconds)} s = {Format(CostPercent)}% of the tau-leaping run's {Format(MainWallTime.TotalSeconds)} s; ");
+        text.Append($"validation sample: {Sample.Replicates} exact (direct-method) replicates, {Format(Sample.WallTime.TotalSeconds)} s = {Format(CostPercent)}% of the tau-leaping run's {Format(MainWallTime.TotalSeconds)} s (it may take 10% of the run or 1 s, whichever is longer); ");
         if (Verdict == ValidationVerdict.NotJudged)
         {
             text.Append("no grid time could be compared (too few replicates, or means indistinguishable from 0), so the leaping error is not measured.");

@@ -168,6 +168,7 @@ public static class SimulationRun
                 {
                     // auto falls back to the exact method: the whole run again, every replicate with its own stream.
                     var exact = options with { Method = SimulationMethod.Direct, SkipBlocks = new HashSet<long>() };
+                    monitor?.Restart();
                     (combined, failure) = RunEnsemble(request, exact, prior: null, priorHasPaths: false, identity, monitor, stop.Token, files: null);
                     method = SimulationMethod.Direct;
                     options = exact;
