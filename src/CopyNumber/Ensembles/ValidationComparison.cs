@@ -31,13 +31,13 @@ public enum ValidationVerdict
 /// </summary>
 /// <remarks>
 /// <para>Mean: the log of the ratio of the means, with the delta-method standard error
-/// se² = s_L²/(n_L·m_L²) + s_E²/(n_E·m_E²) (the two ensembles are independent). A cell is compared only
-/// when both means are positive and more than 3 standard errors from 0: a relative error of a mean
-/// indistinguishable from 0 means nothing.</para>
-/// <para>Standard deviation: ln(s_L/s_E) = ½·ln(s_L²/s_E²) with Var(ln s²) ≈ (κ − (n − 3)/(n − 1))/n for
-/// each ensemble, κ = m4/s⁴ the sample kurtosis (the large-sample variance of a sample variance, e.g.
-/// Casella &amp; Berger 2002, Statistical Inference, ex. 5.8, quoted from memory), which does not assume
-/// normal data.</para>
+/// se² = s_L²/(n_L·m_L²) + s_E²/(n_E·m_E²) (the two ensembles are independent) and Student's t quantile at
+/// the Welch–Satterthwaite degrees of freedom. A cell is compared only when both means are positive and
+/// more than 3 standard errors from 0: a relative error of a mean indistinguishable from 0 means nothing.</para>
+/// <para>Standard deviation: s_L²/s_E² against the F distribution with degrees of freedom 2/Var(ln s²) per
+/// ensemble, Var(ln s²) ≈ (κ − (n − 3)/(n − 1))/n with κ = m4/s⁴ the kurtosis pooled over both ensembles
+/// (the large-sample variance of a sample variance, quoted from memory), which does not assume normal
+/// data and gives n − 1 for normal data.</para>
 /// <para>Simultaneity: the family is every interval computed (means and standard deviations, all cells);
 /// each is built at level 1 − α/C with α = 0.01 (Bonferroni), so with probability at least 99% all C
 /// intervals cover their true relative errors at once, up to the normal approximation.</para>
@@ -57,7 +57,8 @@ public static class ValidationComparison
     public const double ZeroMeanStandardErrors = 3;
 
     /// <summary>
-    /// The cells and their simultaneous intervals; <paramref name="sample"/> holds the exact moments per
+    /// The cells and their simultaneous intervals (each at tail probability α/(2C) on either side; the Z
+    /// returned is the normal quantile of that level, for the record); <paramref name="sample"/> holds the exact moments per
     /// grid point k and count quantity q at [k·Q + q], like the leap ensemble's histograms.
     /// </summary>
     public static (IReadOnlyList<ValidationCell> Cells, int Intervals, double Z) Compare(EnsembleResult leap, IReadOnlyList<CellMoments> sample)
@@ -73,11 +74,19 @@ public static class ValidationComparison
             for (var q = 0; q < quantities.Count; q++)
                 pairs.Add((leap.Grid[k], quantities[q].Name, CellMoments.Of(leap.Histogram(k, q)), sample[k * quantities.Count + q]));
         }
+        return Compare(pairs);
+    }
+
+    /// <summary>The cells and their simultaneous intervals for given (time, quantity, leap moments, exact moments) cells.</summary>
+    public static (IReadOnlyList<ValidationCell> Cells, int Intervals, double Z) Compare(IReadOnlyList<(double Time, string Name, CellMoments Leap, CellMoments Exact)> pairs)
+    {
+        ArgumentNullException.ThrowIfNull(pairs);
         var intervals = pairs.Sum(p => (MeanComparable(p.Leap) && MeanComparable(p.Exact) ? 1 : 0) + (SdComparable(p.Leap) && SdComparable(p.Exact) ? 1 : 0));
         var z = intervals == 0 ? double.NaN : Normal.InvCDF(0, 1, 1 - FamilyAlpha / (2.0 * intervals));
+        var tail = intervals == 0 ? double.NaN : FamilyAlpha / (2.0 * intervals);
         var cells = pairs.Select(p => new ValidationCell(p.Time, p.Name,
-            MeanComparable(p.Leap) && MeanComparable(p.Exact) ? MeanInterval(p.Leap, p.Exact, z) : null,
-            SdComparable(p.Leap) && SdComparable(p.Exact) ? SdInterval(p.Leap, p.Exact, z) : null)).ToArray();
+            MeanComparable(p.Leap) && MeanComparable(p.Exact) ? MeanInterval(p.Leap, p.Exact, tail) : null,
+            SdComparable(p.Leap) && SdComparable(p.Exact) ? SdInterval(p.Leap, p.Exact, tail) : null)).ToArray();
         return (cells, intervals, z);
     }
 
@@ -112,24 +121,43 @@ public static class ValidationComparison
 
     private static bool SdComparable(CellMoments m) => m.Count >= 4 && m.Variance > 0;
 
-    private static RelativeErrorInterval MeanInterval(CellMoments leap, CellMoments exact, double z)
+    /// <summary>
+    /// The log-ratio of the means with Student's t quantile at the Welch–Satterthwaite degrees of freedom
+    /// (Welch 1947, Biometrika 34:28), which matters when the exact sample is a few dozen replicates.
+    /// </summary>
+    private static RelativeErrorInterval MeanInterval(CellMoments leap, CellMoments exact, double tail)
     {
-        var se = Math.Sqrt(leap.Variance / (leap.Count * leap.Mean * leap.Mean) + exact.Variance / (exact.Count * exact.Mean * exact.Mean));
-        return RelativeErrorInterval.FromLogRatio(Math.Log(leap.Mean / exact.Mean), se, z);
+        var a = leap.Variance / (leap.Count * leap.Mean * leap.Mean);
+        var b = exact.Variance / (exact.Count * exact.Mean * exact.Mean);
+        var se = Math.Sqrt(a + b);
+        var df = se == 0 ? double.PositiveInfinity : (a + b) * (a + b) / (a * a / (leap.Count - 1) + b * b / (exact.Count - 1));
+        var t = double.IsFinite(df) ? StudentT.InvCDF(0, 1, df, 1 - tail) : Normal.InvCDF(0, 1, 1 - tail);
+        return RelativeErrorInterval.FromLogRatio(Math.Log(leap.Mean / exact.Mean), se, t);
     }
 
-    private static RelativeErrorInterval SdInterval(CellMoments leap, CellMoments exact, double z)
+    /// <summary>
+    /// The ratio of the variances against the F distribution with kurtosis-adjusted degrees of freedom
+    /// d = 2/Var(ln s²) per ensemble (n − 1 for normal data), the kurtosis pooled over both ensembles
+    /// (in the spirit of Shoemaker 2003, The American Statistician 57:105, quoted from memory); the square
+    /// root gives the interval for the standard deviations.
+    /// </summary>
+    private static RelativeErrorInterval SdInterval(CellMoments leap, CellMoments exact, double tail)
     {
-        var se = 0.5 * Math.Sqrt(LogVarianceVariance(leap) + LogVarianceVariance(exact));
-        return RelativeErrorInterval.FromLogRatio(0.5 * Math.Log(leap.Variance / exact.Variance), se, z);
+        var kurtosis = (leap.Count * Kurtosis(leap) + exact.Count * Kurtosis(exact)) / (leap.Count + exact.Count);
+        var dfLeap = 2 / LogVarianceVariance(kurtosis, leap.Count);
+        var dfExact = 2 / LogVarianceVariance(kurtosis, exact.Count);
+        var ratio = leap.Variance / exact.Variance;
+        var upper = ratio / FisherSnedecor.InvCDF(dfLeap, dfExact, tail);
+        var lower = ratio / FisherSnedecor.InvCDF(dfLeap, dfExact, 1 - tail);
+        return new RelativeErrorInterval(Math.Sqrt(ratio) - 1, Math.Sqrt(lower) - 1, Math.Sqrt(upper) - 1);
     }
 
-    /// <summary>Var(ln s²) ≈ (κ − (n − 3)/(n − 1))/n, with the population m4 over the squared unbiased variance as κ.</summary>
-    private static double LogVarianceVariance(CellMoments m)
+    private static double Kurtosis(CellMoments m) => m.FourthCentral / (m.Variance * m.Variance);
+
+    /// <summary>Var(ln s²) ≈ (κ − (n − 3)/(n − 1))/n; floored at 1/n² so a two-valued law (κ near 1) keeps a finite df.</summary>
+    private static double LogVarianceVariance(double kurtosis, long count)
     {
-        double n = m.Count;
-        var kurtosis = m.FourthCentral / (m.Variance * m.Variance);
-        // A floor of 1/n keeps a two-valued distribution (κ near 1) from an interval of width 0.
+        double n = count;
         return Math.Max(kurtosis - (n - 3) / (n - 1), 1.0 / n) / n;
     }
 }
