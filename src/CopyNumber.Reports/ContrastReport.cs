@@ -41,6 +41,7 @@ public static class ContrastReport
             []);
 
         var sections = new List<ReportSection> { summary };
+        if (ValidationSection.For(run.Manifest, cautions) is { } validation) sections.Add(validation);
         var chosenTimes = ChooseTimes(times, histogramTimes);
         foreach (var q in contrast.Quantities)
         {

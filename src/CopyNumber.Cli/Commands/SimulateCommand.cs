@@ -34,13 +34,14 @@ internal static class SimulateCommand
         var maxWall = new Option<double?>("--max-wall") { Description = "Stop the run after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
         var shard = new Option<string?>("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
         var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder: repeat its arguments (omitted options take the stored values); finished blocks are kept." };
+        var validationReplicates = new Option<long?>("--validation-replicates") { Description = "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md)." };
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
 
         var command = new Command("simulate", "Run an ensemble of stochastic replicates and summarise it on the time grid beside the rate equations.");
         command.Arguments.Add(model);
         grid.AddTo(command);
-        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, maxWall, shard, resume, noContrast })
+        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, maxWall, shard, resume, validationReplicates, noContrast })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
@@ -82,10 +83,15 @@ internal static class SimulateCommand
             var pathCount = ReadPaths(Pick(paths, "paths", t => t == "0" ? null : t), replicateCount);
             var runShard = ReadShard(Pick(shard, ManifestFields.ShardArgument, t => t), replicateCount);
             var chosen = Pick(method, "method", t => MethodNames.Contains(t) ? t : throw new FormatException($"unknown method '{t}'"));
+            var sampleSize = Pick(validationReplicates, "validation_replicates", t => (long?)long.Parse(t, CultureInfo.InvariantCulture));
+            if (sampleSize is { } fixedSample && fixedSample < 2) throw new UserInputException($"--validation-replicates must be at least 2 (got {fixedSample})");
             var runSeed = Pick(seed, "seed", t => (ulong?)ulong.Parse(t, CultureInfo.InvariantCulture)) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
 
             var loaded = ModelArgument.Load(parsed.GetValue(model)!);
             var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
+            // A resumed run goes on with the method its stored blocks were made with (auto may have fallen back).
+            if (stored is not null && Enum.TryParse<SimulationMethod>(stored.Manifest.Method, out var storedMethod) && storedMethod != simulationMethod)
+                (simulationMethod, methodReason) = (storedMethod, stored.Manifest.ExtraText(ManifestFields.MethodReason) ?? methodReason);
             var options = new EnsembleOptions
             {
                 Grid = timeGrid,
@@ -112,6 +118,8 @@ internal static class SimulateCommand
                 ["max_events"] = limit == long.MaxValue ? "none" : limit.ToString(CultureInfo.InvariantCulture),
                 [ManifestFields.ShardArgument] = runShard.ToString(),
             };
+            // Recorded only when given, so folders written before the option existed can still be resumed.
+            if (sampleSize is { } size) arguments["validation_replicates"] = size.ToString(CultureInfo.InvariantCulture);
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
             stored?.EnsureSameRun(new RunSettings(Provenance.Sha256Hex(loaded.Text), arguments, options.BlockSize));
@@ -125,6 +133,8 @@ internal static class SimulateCommand
             {
                 WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
                 Resume = stored is not null,
+                MethodChosenAutomatically = chosen == "auto",
+                ValidationReplicates = sampleSize,
             };
 
             var shardText = runShard.IsWhole ? "" : $", shard {runShard}";
@@ -192,6 +202,16 @@ internal static class SimulateCommand
         var result = outcome.Ensemble;
         if (outcome.DeterministicFailure is not null)
             error.WriteLine($"warning: the rate equations could not be solved ({outcome.DeterministicFailure}); the 'deterministic' column is empty");
+        if (outcome.Validation is { } validation)
+        {
+            if (validation.Action == ValidationAction.FellBack)
+                error.WriteLine("warning: tau-leaping failed its validation sample; auto redid the run with the exact direct method (manifest: validation, method_reason)");
+            else if (validation.Verdict == ValidationVerdict.OutsideTolerance)
+                error.WriteLine("warning: the validation sample shows a tau-leaping error beyond the tolerance (1% mean, 2% standard deviation); see below and manifest.json 'validation'");
+            writer.WriteLine(validation.Describe());
+        }
+        if (outcome.ValidationFailure is not null)
+            error.WriteLine($"warning: the validation sample could not be run ({outcome.ValidationFailure}); the leaping error is not measured");
         writer.Write(RenderFinal(outcome));
         writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {folder}");
         if (result.ReplicatesStoppedEarly > 0)

@@ -32,6 +32,14 @@ public sealed class EnsembleMonitor
         BlockFinished?.Invoke(block);
     }
 
+    /// <summary>Back to zero, for a run that starts over (auto's fallback from tau-leaping to the direct method).</summary>
+    internal void Restart()
+    {
+        Interlocked.Exchange(ref _replicatesDone, 0);
+        Interlocked.Exchange(ref _eventsFired, 0);
+        Interlocked.Exchange(ref _blocksDone, 0);
+    }
+
     internal void AddReplicate(long events)
     {
         Interlocked.Increment(ref _replicatesDone);

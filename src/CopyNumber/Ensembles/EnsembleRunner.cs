@@ -190,7 +190,9 @@ public static class EnsembleRunner
 
         public Worker(ReactionNetwork network, EnsembleOptions options, int countQuantities, EnsembleMonitor monitor, CancellationToken cancel)
         {
-            _simulator = SimulatorFactory.Create(options.Method, network, options.Simulator);
+            // The runaway bound is the run's: a replicate may take its share of the run-wide event bound.
+            var runaway = Math.Min(options.Simulator.RunawayEvents, RunawayGuard.BoundFor(options.Replicates));
+            _simulator = SimulatorFactory.Create(options.Method, network, options.Simulator with { RunawayEvents = runaway });
             _observer = new BlockObserver(network, cancel);
             _monitor = monitor;
             _grid = options.Grid;

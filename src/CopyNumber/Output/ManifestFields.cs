@@ -44,6 +44,12 @@ public static class ManifestFields
     /// <summary>The folders a merged run was made from (array of full paths).</summary>
     public const string MergedFrom = "merged_from";
 
+    /// <summary>
+    /// The validation sample of a tau-leaping run (object; see <see cref="ValidationManifest"/>); also the
+    /// footer key (after <see cref="Provenance.KeyPrefix"/>) of the same JSON in the summary tables.
+    /// </summary>
+    public const string Validation = "validation";
+
     /// <summary>Argument key of the shard, "i/n" ("1/1" for a whole run).</summary>
     public const string ShardArgument = "shard";
 

@@ -82,7 +82,17 @@ public static class RunMerge
             PathsMerge.Write(sources, destination, PathsTable.ColumnsFor(network), identity.Provenance(null));
             files.Add(destination);
         }
-        files.AddRange(SummaryFiles.WriteTables(folder, combined, deterministic, identity));
+        // The validation sample is run by the first shard only; it is compared again with the merged ensemble.
+        ValidationResult? validation = null;
+        foreach (var run in runs)
+        {
+            if (ValidationTable.Read(run.Folder, combined) is not { } sample) continue;
+            validation = ValidationResult.Of(combined, sample, combined.WallTime);
+            var automatic = arguments.GetValueOrDefault("method") == "auto";
+            validation = validation with { Action = validation.Decide(automatic, wholeRun: false) };
+            break;
+        }
+        files.AddRange(SummaryFiles.WriteTables(folder, combined, deterministic, identity, validation));
 
         var failures = runs.Select(r => r.Manifest.ExtraText(ManifestFields.Failure)).OfType<string>().ToArray();
         var reasons = runs.Select(r => r.Manifest.ExtraText(ManifestFields.StopReason)).ToHashSet();
@@ -92,7 +102,7 @@ public static class RunMerge
             : reasons.Contains(StopReason.Interrupted.Name()) ? StopReason.Interrupted
             : StopReason.Incomplete;
         var manifest = SummaryFiles.Manifest(identity, combined, first.Manifest.Method, runs.Max(r => r.Manifest.Threads), stop,
-            failures.FirstOrDefault(), first.Manifest.ExtraText(ManifestFields.MethodReason) ?? "", withSolution is null ? first.Manifest.ExtraText(ManifestFields.DeterministicFailure) : null);
+            failures.FirstOrDefault(), first.Manifest.ExtraText(ManifestFields.MethodReason) ?? "", withSolution is null ? first.Manifest.ExtraText(ManifestFields.DeterministicFailure) : null, validation);
         manifest.Extra[ManifestFields.MergedFrom] = new JsonArray(runs.Select(r => (JsonNode?)JsonValue.Create(r.Folder)).ToArray());
         var manifestPath = Path.Combine(folder, SimulationRun.ManifestFile);
         manifest.WriteAtomic(manifestPath);

@@ -2,6 +2,7 @@ using System.Globalization;
 using CopyNumber.Deterministic;
 using CopyNumber.Ensembles;
 using CopyNumber.Network;
+using CopyNumber.Stochastic;
 
 namespace CopyNumber.Output;
 
@@ -28,6 +29,16 @@ public sealed record SimulationRequest(
     /// blocks are kept, the others are run, and the folder's files are replaced by the summaries of both.
     /// </summary>
     public bool Resume { get; init; }
+
+    /// <summary>
+    /// The method was chosen by <c>--method auto</c>: a tau-leaping run whose validation sample establishes
+    /// an error beyond the tolerances is then redone with the exact direct method (a whole run only; a
+    /// shard reports it). When false, the method was asked for and is kept, and a disagreement is reported.
+    /// </summary>
+    public bool MethodChosenAutomatically { get; init; }
+
+    /// <summary>A fixed size for the validation sample (no time rule); null for the sizing rule of <see cref="ValidationSample"/>.</summary>
+    public long? ValidationReplicates { get; init; }
 }
 
 /// <summary>What a run produced.</summary>
@@ -51,6 +62,15 @@ public sealed record SimulationOutcome(
 
     /// <summary>Replicates taken over from the earlier run when resuming; 0 otherwise.</summary>
     public long ReplicatesResumed { get; init; }
+
+    /// <summary>The validation sample of a tau-leaping run and its verdict; null for an exact method, a shard other than the first, or an unfinished run.</summary>
+    public ValidationResult? Validation { get; init; }
+
+    /// <summary>Why the validation sample could not be run, when it could not (e.g. an exact replicate failed).</summary>
+    public string? ValidationFailure { get; init; }
+
+    /// <summary>The method the summaries come from: the request's, or the direct method after a fallback.</summary>
+    public SimulationMethod Method { get; init; }
 }
 
 /// <summary>
@@ -64,7 +84,7 @@ public static class SimulationRun
     /// <summary>File names inside a run folder.</summary>
     public const string MomentsFile = "moments.parquet", DistributionsFile = "distributions.parquet",
         DeterministicFile = "deterministic.parquet", PathsFile = "paths.parquet", ManifestFile = "manifest.json",
-        ReadoutStateFile = "readout-state.parquet";
+        ReadoutStateFile = "readout-state.parquet", ValidationFile = "validation.parquet";
 
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="PathsFile"/>.</summary>
     internal const string ResumedPathsFile = "paths-resumed.parquet";
@@ -121,6 +141,68 @@ public static class SimulationRun
         using var wallLimit = new CancellationTokenSource();
         if (request.WallLimit is { } limit) wallLimit.CancelAfter(ClampedDelay(limit - clock.Elapsed));
         using var stop = CancellationTokenSource.CreateLinkedTokenSource(cancel, wallLimit.Token);
+        var (combined, failure) = RunEnsemble(request, options, prior, priorHasPaths, identity, monitor, stop.Token, files);
+
+        // The validation sample (docs/methods.md): a finished tau-leaping run, and of a sharded run the first
+        // shard only, compares itself with exact replicates; a stored sample is reused on resuming.
+        ValidationResult? validation = null;
+        string? validationFailure = null;
+        var method = options.Method;
+        var methodReason = request.MethodReason;
+        if (method == SimulationMethod.TauLeap && failure is null && !combined.Interrupted && options.Shard.Number == 1)
+        {
+            try
+            {
+                var sample = (request.Resume ? ValidationTable.Read(request.Folder, combined) : null)
+                    ?? ValidationSample.Run(model.Network, options, combined.WallTime, request.ValidationReplicates, stop.Token);
+                validation = ValidationResult.Of(combined, sample, combined.WallTime);
+            }
+            catch (EnsembleFailureException e)
+            {
+                validationFailure = e.Message;
+            }
+            if (validation is not null)
+            {
+                validation = validation with { Action = validation.Decide(request.MethodChosenAutomatically, options.Shard.IsWhole) };
+                if (validation.Action == ValidationAction.FellBack)
+                {
+                    // auto falls back to the exact method: the whole run again, every replicate with its own stream.
+                    var exact = options with { Method = SimulationMethod.Direct, SkipBlocks = new HashSet<long>() };
+                    monitor?.Restart();
+                    (combined, failure) = RunEnsemble(request, exact, prior: null, priorHasPaths: false, identity, monitor, stop.Token, files: null);
+                    method = SimulationMethod.Direct;
+                    options = exact;
+                    methodReason += "; the validation sample found a tau-leaping error beyond the tolerance, so the run was redone with the exact direct method";
+                }
+            }
+        }
+        files.AddRange(SummaryFiles.WriteTables(request.Folder, combined, deterministic, identity, validation is { Action: not ValidationAction.FellBack } ? validation : null));
+
+        var reason = failure is not null ? StopReason.Failed
+            : !combined.Interrupted ? StopReason.Finished
+            : wallLimit.IsCancellationRequested && !cancel.IsCancellationRequested ? StopReason.WallLimit
+            : StopReason.Interrupted;
+        var manifest = SummaryFiles.Manifest(identity, combined, method.ToString(), options.Threads, reason, failure, methodReason, deterministicFailure, validation);
+        var manifestPath = Path.Combine(request.Folder, ManifestFile);
+        manifest.WriteAtomic(manifestPath);
+        files.Add(manifestPath);
+        return new SimulationOutcome(combined, deterministic, deterministicFailure, manifest, files)
+        {
+            StopReason = reason,
+            Failure = failure,
+            ReplicatesResumed = prior?.ReplicatesFinished ?? 0,
+            Validation = validation,
+            ValidationFailure = validationFailure,
+            Method = method,
+        };
+    }
+
+    /// <summary>Runs the ensemble (writing paths as it goes) and combines it with the resumed part; the failure message, if a replicate failed.</summary>
+    private static (EnsembleResult Combined, string? Failure) RunEnsemble(
+        SimulationRequest request, EnsembleOptions options, EnsembleResult? prior, bool priorHasPaths, RunIdentity identity,
+        EnsembleMonitor? monitor, CancellationToken cancel, List<string>? files)
+    {
+        var model = request.Model;
         var pathsFile = Path.Combine(request.Folder, priorHasPaths ? ResumedPathsFile : PathsFile);
         PathsTable? paths = options.PathReplicates > 0 ? new PathsTable(pathsFile, model.Network, options.Grid, identity.Provenance(null)) : null;
         EnsembleResult result;
@@ -129,7 +211,7 @@ public static class SimulationRun
         {
             try
             {
-                result = EnsembleRunner.Run(model.Network, options, paths, monitor, stop.Token);
+                result = EnsembleRunner.Run(model.Network, options, paths, monitor, cancel);
             }
             catch (EnsembleFailureException e)
             {
@@ -152,24 +234,9 @@ public static class SimulationRun
                 PathsMerge.Write([final, pathsFile], final, PathsTable.ColumnsFor(model.Network), identity.Provenance(null));
                 File.Delete(pathsFile);
             }
-            files.Add(final);
+            if (files is not null && !files.Contains(final)) files.Add(final);
         }
-        files.AddRange(SummaryFiles.WriteTables(request.Folder, combined, deterministic, identity));
-
-        var reason = failure is not null ? StopReason.Failed
-            : !combined.Interrupted ? StopReason.Finished
-            : wallLimit.IsCancellationRequested && !cancel.IsCancellationRequested ? StopReason.WallLimit
-            : StopReason.Interrupted;
-        var manifest = SummaryFiles.Manifest(identity, combined, options.Method.ToString(), options.Threads, reason, failure, request.MethodReason, deterministicFailure);
-        var manifestPath = Path.Combine(request.Folder, ManifestFile);
-        manifest.WriteAtomic(manifestPath);
-        files.Add(manifestPath);
-        return new SimulationOutcome(combined, deterministic, deterministicFailure, manifest, files)
-        {
-            StopReason = reason,
-            Failure = failure,
-            ReplicatesResumed = prior?.ReplicatesFinished ?? 0,
-        };
+        return (combined, failure);
     }
 
     private static TimeSpan ClampedDelay(TimeSpan delay) =>

@@ -12,13 +12,18 @@ namespace CopyNumber.Output;
 internal sealed record RunIdentity(string ModelFile, string ModelText, IReadOnlyDictionary<string, string> Arguments, DateTimeOffset Started)
 {
     /// <summary>Footer pairs for a table that summarises <paramref name="result"/> (or for one that does not, when null).</summary>
-    public IReadOnlyDictionary<string, string> Provenance(EnsembleResult? result) =>
-        Output.Provenance.For(ModelFile, ModelText, Arguments, Started, result is null ? null : new Dictionary<string, string>
+    public IReadOnlyDictionary<string, string> Provenance(EnsembleResult? result, ValidationResult? validation = null)
+    {
+        if (result is null) return Output.Provenance.For(ModelFile, ModelText, Arguments, Started);
+        var extra = new Dictionary<string, string>
         {
             ["replicates_finished"] = result.ReplicatesFinished.ToString(CultureInfo.InvariantCulture),
             ["partial"] = result.Interrupted ? "true" : "false",
             [SimulationRun.FinishedBlocksKey] = BlockRanges.Format(result.FinishedBlocks),
-        });
+        };
+        if (validation is not null) extra[ManifestFields.Validation] = ValidationManifest.Text(validation);
+        return Output.Provenance.For(ModelFile, ModelText, Arguments, Started, extra);
+    }
 }
 
 /// <summary>
@@ -28,10 +33,10 @@ internal sealed record RunIdentity(string ModelFile, string ModelText, IReadOnly
 internal static class SummaryFiles
 {
     /// <summary>Writes moments, distributions and (when the model has real readouts) the readout state; returns the paths.</summary>
-    public static List<string> WriteTables(string folder, EnsembleResult result, DeterministicSolution? deterministic, RunIdentity identity)
+    public static List<string> WriteTables(string folder, EnsembleResult result, DeterministicSolution? deterministic, RunIdentity identity, ValidationResult? validation = null)
     {
         var files = new List<string>();
-        var provenance = identity.Provenance(result);
+        var provenance = identity.Provenance(result, validation);
         var moments = Path.Combine(folder, SimulationRun.MomentsFile);
         MomentsTable.Write(moments, result, deterministic, provenance);
         files.Add(moments);
@@ -44,11 +49,17 @@ internal static class SummaryFiles
             ReadoutStateTable.Write(state, result, provenance);
             files.Add(state);
         }
+        if (validation is not null)
+        {
+            var path = Path.Combine(folder, SimulationRun.ValidationFile);
+            ValidationTable.Write(path, result, validation, provenance);
+            files.Add(path);
+        }
         return files;
     }
 
     /// <summary>The manifest of a folder holding <paramref name="result"/>.</summary>
-    public static RunManifest Manifest(RunIdentity identity, EnsembleResult result, string method, int threads, StopReason stop, string? failure, string methodReason, string? deterministicFailure)
+    public static RunManifest Manifest(RunIdentity identity, EnsembleResult result, string method, int threads, StopReason stop, string? failure, string methodReason, string? deterministicFailure, ValidationResult? validation = null)
     {
         var manifest = new RunManifest
         {
@@ -75,6 +86,7 @@ internal static class SummaryFiles
         manifest.Extra[ManifestFields.Switching] = SwitchingJson.Write(result.Switching);
         if (failure is not null) manifest.Extra[ManifestFields.Failure] = failure;
         if (deterministicFailure is not null) manifest.Extra[ManifestFields.DeterministicFailure] = deterministicFailure;
+        if (validation is not null) manifest.Extra[ManifestFields.Validation] = ValidationManifest.Of(validation);
         return manifest;
     }
 }

@@ -16,7 +16,7 @@ namespace CopyNumber.Stochastic;
 /// the loop draws two numbers (the exponential by Math.Log, exact), runs j's precompiled
 /// <see cref="FiringProgram"/> — count changes with their overflow headroom, then the unimolecular
 /// updates that need no check, then the rest — and allocates nothing. A total propensity that overflows
-/// to +∞ and a replicate that <see cref="RunawayGuard"/> projects to need more than 10^10 events stop the
+/// to +∞ and a replicate that <see cref="RunawayGuard"/> projects to need more events than its bound stop the
 /// run with a message. A schedule time is a stop: the pending waiting time is discarded there, which is
 /// exact because it is memoryless.
 /// </remarks>
@@ -26,10 +26,12 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     private readonly ReactionEffects _effects;
     private readonly FiringProgram _program;
     private TSelection _selection;
+    private RunawayGuard _guard = new(RunawayGuard.EventBound);
 
     public DirectMethod(ReactionNetwork network, SimulatorOptions options)
         : this(new SimulatorState(network), new ReactionEffects(network, includeFired: false), options.MaxEvents)
     {
+        _guard = new RunawayGuard(options.RunawayEvents);
     }
 
     /// <summary>A direct method working on a state owned by another simulator (tau-leaping's exact steps).</summary>
@@ -53,6 +55,13 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
         _program.RefreshConstants(State);
         for (var j = 0; j < State.ReactionCount; j++) _selection.Set(j, State.Evaluate(j, time));
         _selection.Resum();
+    }
+
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    private void CheckRunaway(double total, double time, double horizon, ReadOnlySpan<double> propensities)
+    {
+        if (_guard.Exceeded(total, time, horizon, out var projected, out var growth))
+            State.ThrowRunaway(time, horizon, total, projected, _guard.Bound, growth, propensities);
     }
 
     /// <summary>
@@ -90,8 +99,7 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
             }
             else next = double.PositiveInfinity;
             if (StopsBefore(next, horizon, fired, maxEvents, out end)) break;
-            if (RunawayGuard.Due(fired, maxEvents) && RunawayGuard.Exceeded(total, t, horizon))
-                state.ThrowRunaway(t, horizon, total, selection.Propensities);
+            if (RunawayGuard.Due(fired, maxEvents)) CheckRunaway(total, t, horizon, selection.Propensities);
             if (nextGrid < next) nextGrid = recorder.RecordBefore(next, counts);
             t = next;
             var j = selection.Select(random.NextDouble() * total, ref random);

@@ -26,10 +26,12 @@ internal sealed class NextReactionMethod : ExactSimulation
     private readonly double[] _propensity;
     private readonly double[] _parked;   // unit-rate exponential kept while a_j = 0
     private readonly double[] _initialTimes;
+    private RunawayGuard _guard;
 
     public NextReactionMethod(ReactionNetwork network, SimulatorOptions options)
         : base(new SimulatorState(network), options.MaxEvents)
     {
+        _guard = new RunawayGuard(options.RunawayEvents);
         _effects = new ReactionEffects(network, includeFired: true);
         _program = new FiringProgram(_effects, State);
         var m = State.ReactionCount;
@@ -129,7 +131,8 @@ internal sealed class NextReactionMethod : ExactSimulation
     {
         var total = 0.0;
         foreach (var a in _propensity) total += a;
-        if (RunawayGuard.Exceeded(total, time, horizon)) State.ThrowRunaway(time, horizon, total, _propensity);
+        if (_guard.Exceeded(total, time, horizon, out var projected, out var growth))
+            State.ThrowRunaway(time, horizon, total, projected, _guard.Bound, growth, _propensity);
     }
 
     /// <summary>Moves reaction k's putative time to its new propensity, reusing its random number.</summary>

@@ -58,10 +58,13 @@ public sealed class SimulationFailureException : Exception
             $"'{ReactionName(network, largest)}'), so the next event time cannot be computed; the network is probably explosive: " +
             $"add a decay or check the rate constants, or stop replicates earlier with --max-events (state: {State(network, counts)})", time);
 
-    internal static SimulationFailureException Runaway(ReactionNetwork network, int largest, double total, double time, double horizon, long[] counts) =>
+    internal static SimulationFailureException Runaway(ReactionNetwork network, int largest, double total, double time, double horizon,
+        double projected, double bound, double growth, long[] counts) =>
         new($"the run looks explosive: at time {Number(time)} the propensities add up to {Number(total)} events per unit time " +
-            $"(the biggest is reaction '{ReactionName(network, largest)}'), so reaching time {Number(horizon)} would take about " +
-            $"{Number(Math.Round(total * (horizon - time), 0))} more events in this replicate, more than {Number(RunawayGuard.EventBound)}; " +
+            $"(the biggest is reaction '{ReactionName(network, largest)}')" +
+            (growth > 0 ? $" and their total grows by a factor e every {Number(Math.Round(1 / growth, 3))} time units" : "") +
+            $", so reaching time {Number(horizon)} would take about {Number(Math.Round(projected, 0))} more events in this replicate, " +
+            $"more than the {Number(bound)} a replicate of this run may take; " +
             $"add a decay or bound the growth, shorten the run, use tau-leaping, or set --max-events to run it anyway with each replicate " +
             $"stopped after that many events (state: {State(network, counts)})", time);
 

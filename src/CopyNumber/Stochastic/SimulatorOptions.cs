@@ -23,6 +23,13 @@ namespace CopyNumber.Stochastic;
 /// </param>
 public sealed record SimulatorOptions(double Epsilon = 0.03, long MaxEvents = long.MaxValue, int CriticalThreshold = 10, double Relaxation = LeapFormulaRule.DefaultRelaxation)
 {
+    /// <summary>
+    /// Further events an exact replicate without an event limit may be projected to need before it is
+    /// stopped as explosive (see docs/methods.md, "Runaway guard"); ensembles lower it to their share of a
+    /// run-wide bound. Must be positive.
+    /// </summary>
+    public double RunawayEvents { get; init; } = RunawayGuard.EventBound;
+
     /// <summary>Throws <see cref="ArgumentOutOfRangeException"/> with a readable message when a setting is out of range.</summary>
     public void Validate()
     {
@@ -34,5 +41,7 @@ public sealed record SimulatorOptions(double Epsilon = 0.03, long MaxEvents = lo
             throw new ArgumentOutOfRangeException(nameof(MaxEvents), MaxEvents, "the event limit per replicate cannot be negative");
         if (CriticalThreshold < 0)
             throw new ArgumentOutOfRangeException(nameof(CriticalThreshold), CriticalThreshold, "the critical-reaction threshold cannot be negative");
+        if (!(RunawayEvents > 0))
+            throw new ArgumentOutOfRangeException(nameof(RunawayEvents), RunawayEvents, "the runaway bound must be a positive number of events");
     }
 }

@@ -132,8 +132,8 @@ internal sealed class SimulatorState
         throw SimulationFailureException.TotalPropensityOverflow(_network, LargestOf(propensities), time, Counts);
 
     [DoesNotReturn, MethodImpl(MethodImplOptions.NoInlining)]
-    public void ThrowRunaway(double time, double horizon, double total, ReadOnlySpan<double> propensities) =>
-        throw SimulationFailureException.Runaway(_network, LargestOf(propensities), total, time, horizon, Counts);
+    public void ThrowRunaway(double time, double horizon, double total, double projected, double bound, double growth, ReadOnlySpan<double> propensities) =>
+        throw SimulationFailureException.Runaway(_network, LargestOf(propensities), total, time, horizon, projected, bound, growth, Counts);
 
     /// <summary>The reaction with the largest propensity (ties: the first), or −1 for an empty span.</summary>
     private static int LargestOf(ReadOnlySpan<double> propensities)
