@@ -10,7 +10,8 @@ internal sealed class ContrastOptions
 {
     private static readonly ContrastThresholds Defaults = ContrastThresholds.Default;
 
-    public Option<double> Z { get; } = new("--z") { Description = "Standard errors a deviation must exceed to count as resolved.", DefaultValueFactory = _ => Defaults.Z };
+    public Option<double> Z { get; } = new("--z") { Description = "Standard errors a deviation must exceed to count as resolved at one time (the 'resolved' column), and a mean must exceed for a CV or Fano factor.", DefaultValueFactory = _ => Defaults.Z };
+    public Option<double> FalseAlarmRate { get; } = new("--false-alarm-rate") { Description = "Chance that a verdict fires on a model where it is false, per quantity and run over the whole grid, in (0, 0.5).", DefaultValueFactory = _ => Defaults.FalseAlarmRate };
     public Option<double> MeanShift { get; } = new("--mean-threshold") { Description = "Relative deviation of the mean from the rate equations that makes 'mean shifted'.", DefaultValueFactory = _ => Defaults.RelativeDeviation };
     public Option<double> Noise { get; } = new("--cv-threshold") { Description = "Coefficient of variation late in the run that makes 'noise-dominated'.", DefaultValueFactory = _ => Defaults.CoefficientOfVariation };
     public Option<double> Extinction { get; } = new("--extinction-threshold") { Description = "P(count = 0) at the final time that makes 'extinction-prone'.", DefaultValueFactory = _ => Defaults.ExtinctionProbability };
@@ -20,7 +21,7 @@ internal sealed class ContrastOptions
 
     public void AddTo(Command command)
     {
-        foreach (var option in new Option[] { Z, MeanShift, Noise, Extinction, MinimumReplicates, At, Heatmap })
+        foreach (var option in new Option[] { Z, FalseAlarmRate, MeanShift, Noise, Extinction, MinimumReplicates, At, Heatmap })
             command.Options.Add(option);
     }
 
@@ -29,6 +30,7 @@ internal sealed class ContrastOptions
         var thresholds = Defaults with
         {
             Z = parsed.GetValue(Z),
+            FalseAlarmRate = parsed.GetValue(FalseAlarmRate),
             RelativeDeviation = parsed.GetValue(MeanShift),
             CoefficientOfVariation = parsed.GetValue(Noise),
             ExtinctionProbability = parsed.GetValue(Extinction),

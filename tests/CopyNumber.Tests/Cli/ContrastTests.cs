@@ -62,6 +62,20 @@ public class ContrastTests
     }
 
     [Fact]
+    public void The_false_alarm_rate_is_chosen_on_the_command_line_and_stated_in_the_verdict()
+    {
+        using var scratch = new ScratchFolder();
+        var folder = scratch.File("run");
+        Assert.Equal(0, Simulate(scratch, 2, folder).ExitCode);
+        var run = CliRun.Of("contrast", folder, "--false-alarm-rate", "0.05");
+        Assert.Equal(0, run.ExitCode);
+        Assert.Contains(run.Output.Split('\n'), l => l.StartsWith("X ", StringComparison.Ordinal) && l.Contains("false-alarm rate 5%"));
+        var bad = CliRun.Of("contrast", folder, "--false-alarm-rate", "0.7");
+        Assert.Equal(2, bad.ExitCode);
+        Assert.Contains("false-alarm rate", bad.Error);
+    }
+
+    [Fact]
     public void Contrast_of_a_folder_that_is_not_a_run_is_bad_input()
     {
         using var scratch = new ScratchFolder();
