@@ -257,7 +257,7 @@ internal static class SimulateCommand
             else
             {
                 var m = result.Moments(last, realIndex++);
-                table.Add(q.Name, Numbers.Format(m.Mean, 5), Numbers.Format(Math.Sqrt(m.Variance / m.Count), 2), Numbers.Format(deterministic, 5), Numbers.Format(m.Variance / m.Mean, 3), "-");
+                table.Add(q.Name, Numbers.Format(m.Mean, 5), Numbers.Format(Math.Sqrt(m.Variance / m.Count), 2), Numbers.Format(deterministic, 5), Numbers.Format(NoiseRatios.Fano(m.Mean, m.Variance, m.Minimum), 3), "-");
             }
         }
         return $"at t = {Numbers.Format(result.Grid[last], 6)}:\n{table}";

@@ -26,8 +26,8 @@ public sealed class DistributionSummary
         Mean = mean;
         Variance = variance;
         StandardError = Math.Sqrt(variance / replicates);
-        FanoFactor = mean == 0 ? double.NaN : variance / mean;
-        SquaredCoefficientOfVariation = mean == 0 ? double.NaN : variance / (mean * mean);
+        FanoFactor = NoiseRatios.Fano(mean, variance, minimum);
+        SquaredCoefficientOfVariation = NoiseRatios.SquaredCoefficientOfVariation(mean, variance, minimum);
         Minimum = minimum;
         Quantile05 = quantiles[0];
         Quantile25 = quantiles[1];
@@ -50,10 +50,10 @@ public sealed class DistributionSummary
     /// <summary>The standard error of the mean, √(variance/n); NaN when n = 1.</summary>
     public double StandardError { get; }
 
-    /// <summary>The Fano factor variance/mean (1 for a Poisson law); NaN when the mean is 0. Negative for a negative mean.</summary>
+    /// <summary>The Fano factor variance/mean (1 for a Poisson law); NaN when the mean is 0 or some replicate is negative.</summary>
     public double FanoFactor { get; }
 
-    /// <summary>The squared coefficient of variation variance/mean²; NaN when the mean is 0.</summary>
+    /// <summary>The squared coefficient of variation variance/mean²; NaN when the mean is 0 or some replicate is negative.</summary>
     public double SquaredCoefficientOfVariation { get; }
 
     /// <summary>The smallest replicate value.</summary>

@@ -66,7 +66,7 @@ public static class MomentsTable
                         var m = result.Moments(k, realIndex++);
                         replicates[row] = m.Count;
                         var se = m.Count > 0 ? Math.Sqrt(m.Variance / m.Count) : double.NaN;
-                        values = [m.Mean, m.Variance, se, m.Variance / m.Mean, m.Variance / (m.Mean * m.Mean), m.Minimum,
+                        values = [m.Mean, m.Variance, se, NoiseRatios.Fano(m.Mean, m.Variance, m.Minimum), NoiseRatios.SquaredCoefficientOfVariation(m.Mean, m.Variance, m.Minimum), m.Minimum,
                             double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, m.Maximum, double.NaN];
                     }
                     for (var c = 0; c < values.Length; c++) stats[c][row] = values[c];

@@ -121,6 +121,13 @@ public class DistributionSummaryTests
         Assert.True(double.IsNaN(summary.SquaredCoefficientOfVariation));
         Assert.Equal(-1, summary.Median);
 
+        // A signed sample with a positive mean (−20, 22, 1: mean 1, variance 441): a Fano factor of 441 would
+        // say nothing about noise, so neither ratio is given (common practice: both need a nonnegative quantity).
+        var signed = DistributionSummary.From(HistogramOf([-20, 22, 1]));
+        Assert.Equal(1.0, signed.Mean);
+        Assert.True(double.IsNaN(signed.FanoFactor));
+        Assert.True(double.IsNaN(signed.SquaredCoefficientOfVariation));
+
         var zeros = DistributionSummary.From(HistogramOf([0, 0, 0, 2]));
         Assert.Equal(0.75, zeros.ZeroFraction);
     }
