@@ -167,7 +167,7 @@ public static class NetworkCompiler
 
         /// <summary>Whether an expression uses a parameter already reported; its own faults would only repeat that report.</summary>
         private bool ReadsBrokenParameter(Expr expression) =>
-            ExpressionScope.Names(_scope.Expand(expression)).Any(n => _brokenParameters.Contains(n.Name));
+            ExpressionGraph.NamesUsed(_scope.Expand(expression)).Any(_brokenParameters.Contains);
 
         /// <summary>Evaluates a compile-time expression; a name without a value is explained.</summary>
         private double Evaluate(Expr expression, Func<string, double?> valueOf, string what, int laterParameterIndex = int.MaxValue)
