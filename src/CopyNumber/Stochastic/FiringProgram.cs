@@ -16,6 +16,9 @@ namespace CopyNumber.Stochastic;
 /// trips). Below 2^62 a count converts to double and multiplies in the bimolecular forms without
 /// overflowing, and the sum of two counts still fits in a long.
 /// The terms' constants are copies: <see cref="RefreshConstants"/> must follow every parameter change.
+/// A broad reaction (<see cref="Network.DependencyGraph"/>, affected list not stored) has an empty update range
+/// and <see cref="Header.Broad"/> set; its updates are gathered at each firing by <see cref="CollectBroad"/>
+/// from per-species reader blocks, each reaction once, so the program stays linear in the network.
 /// </remarks>
 internal sealed class FiringProgram
 {
@@ -25,6 +28,11 @@ internal sealed class FiringProgram
     private readonly Header[] _headers;
     private readonly CountChange[] _changes;
     private readonly PropensityUpdate[] _updates;
+    private readonly ReactionEffects _effects;
+    private readonly int[] _blockStart = [];    // species i's reader block: _updates[_blockStart[i] .. _blockStart[i+1]−1]
+    private readonly int[] _collected = [];     // scratch of CollectBroad: update indices
+    private readonly int[] _stamp = [];         // per reaction, the CollectBroad call that last took it
+    private int _stampValue;
     private int _constantsVersion = -1;
 
     /// <summary>Compiles the program from the effects' changes and dependents and the state's terms.</summary>
@@ -33,7 +41,17 @@ internal sealed class FiringProgram
         var reactions = state.ReactionCount;
         _headers = new Header[reactions];
         _changes = new CountChange[effects.ChangeSpecies.Length];
-        _updates = new PropensityUpdate[effects.Dependents.Length];
+        var anyBroad = effects.IsBroad.Contains(true);
+        var narrow = effects.Dependents.Length;
+        // Reader blocks only when some reaction needs them: an ordinary network keeps its program as it was.
+        _updates = new PropensityUpdate[narrow + (anyBroad ? effects.Readers.Length : 0)];
+        if (anyBroad)
+        {
+            _blockStart = new int[effects.ReaderStart.Length];
+            for (var i = 0; i < _blockStart.Length; i++) _blockStart[i] = narrow + effects.ReaderStart[i];
+            _collected = new int[reactions];
+            _stamp = new int[reactions];
+        }
         for (var j = 0; j < reactions; j++)
         {
             _headers[j] = new Header
@@ -43,6 +61,7 @@ internal sealed class FiringProgram
                 UpdateStart = effects.DependentStart[j],
                 UpdateEnd = effects.DependentStart[j + 1],
                 CheckConsumption = effects.MayMakeNegative[j],
+                Broad = effects.IsBroad[j],
             };
         }
         for (var e = 0; e < _changes.Length; e++)
@@ -57,10 +76,44 @@ internal sealed class FiringProgram
         }
         for (var u = 0; u < _updates.Length; u++)
         {
-            var k = effects.Dependents[u];
+            var k = u < narrow ? effects.Dependents[u] : effects.Readers[u - narrow];
             _updates[u] = new PropensityUpdate { Term = state.Terms[k], Reaction = k };
         }
+        _effects = effects;
     }
+
+    /// <summary>
+    /// The updates of broad reaction <paramref name="reaction"/>'s firing: indices into <see cref="Updates"/>
+    /// of the readers of the species it changes, each reaction once. The span is scratch, valid until the
+    /// next call; allocation-free.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    public ReadOnlySpan<int> CollectBroad(int reaction)
+    {
+        if (++_stampValue == int.MaxValue)
+        {
+            Array.Clear(_stamp);
+            _stampValue = 1;
+        }
+        var stamp = _stampValue;
+        var count = 0;
+        var effects = _effects;
+        for (var e = effects.ChangeStart[reaction]; e < effects.ChangeStart[reaction + 1]; e++)
+        {
+            var species = effects.ChangeSpecies[e];
+            for (var u = _blockStart[species]; u < _blockStart[species + 1]; u++)
+            {
+                var k = _updates[u].Reaction;
+                if (_stamp[k] == stamp) continue;
+                _stamp[k] = stamp;
+                _collected[count++] = u;
+            }
+        }
+        return _collected.AsSpan(0, count);
+    }
+
+    /// <summary>Whether the last <see cref="CollectBroad"/> took reaction <paramref name="reaction"/>.</summary>
+    public bool Collected(int reaction) => _stamp[reaction] == _stampValue;
 
     /// <summary>
     /// Copies the state's constants c_j into the update records, when they changed since the last copy,
@@ -134,6 +187,8 @@ internal sealed class FiringProgram
         /// <summary>Updates UpdateStart .. PlainEnd−1 are plain unimolecular ones: a = c·x, no check needed.</summary>
         public int PlainEnd;
         public bool CheckConsumption;
+        /// <summary>The update range is empty; the updates are gathered by <see cref="CollectBroad"/>.</summary>
+        public bool Broad;
     }
 
     /// <summary>Count of <see cref="Species"/> += <see cref="Amount"/>, allowed while the count is ≤ <see cref="Headroom"/>.</summary>
