@@ -112,7 +112,6 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
                 if (!PropensityTerm.IsUsable(a)) state.ThrowBadPropensity(update.Reaction, a, t);
                 change += selection.Replace(update.Reaction, a);
             }
-            if (header.Broad) change += UpdateBroad(j, ref selection, ref count0, t);
             selection.AddToTotal(change);
             selection.EndEvent();
             fired++;
@@ -127,21 +126,5 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
         events = fired;
         time = t;
         return Finish(end, ref time, horizon, recorder, counts);
-    }
-
-    /// <summary>A broad reaction's updates (<see cref="FiringProgram.CollectBroad"/>), out of the hot loop; returns the change of a0.</summary>
-    [MethodImpl(MethodImplOptions.NoInlining)]
-    private double UpdateBroad(int reaction, ref TSelection selection, ref long count0, double time)
-    {
-        var change = 0.0;
-        ref var update0 = ref _program.Updates;
-        foreach (var u in _program.CollectBroad(reaction))
-        {
-            ref var update = ref Unsafe.Add(ref update0, u);
-            var a = PropensityTerm.Evaluate(ref update.Term, ref count0, update.Reaction, State);
-            if (!PropensityTerm.IsUsable(a)) State.ThrowBadPropensity(update.Reaction, a, time);
-            change += selection.Replace(update.Reaction, a);
-        }
-        return change;
     }
 }

@@ -114,46 +114,12 @@ internal sealed class NextReactionMethod : ExactSimulation
                 }
                 else if (a != Unsafe.Add(ref propensity0, k)) Rescale(k, a, t);
             }
-            if (header.Broad) UpdateBroad(mu, t, ref random);
             fired++;
         }
         rng = random;
         events = fired;
         time = t;
         return Finish(end, ref time, horizon, recorder, counts);
-    }
-
-    /// <summary>
-    /// A broad reaction's updates (<see cref="FiringProgram.CollectBroad"/>), out of the hot loop: as in the
-    /// loop, and μ redraws its time even when it reads none of the species it changed.
-    /// </summary>
-    [MethodImpl(MethodImplOptions.NoInlining)]
-    private void UpdateBroad(int mu, double t, ref Xoshiro256StarStar random)
-    {
-        ref var update0 = ref _program.Updates;
-        ref var count0 = ref MemoryMarshal.GetArrayDataReference(State.Counts);
-        foreach (var u in _program.CollectBroad(mu))
-        {
-            ref var update = ref Unsafe.Add(ref update0, u);
-            var k = update.Reaction;
-            var a = PropensityTerm.Evaluate(ref update.Term, ref count0, k, State);
-            if (!PropensityTerm.IsUsable(a)) State.ThrowBadPropensity(k, a, t);
-            if (k == mu) Redraw(mu, a, t, ref random);
-            else if (a != _propensity[k]) Rescale(k, a, t);
-        }
-        if (!_program.Collected(mu)) Redraw(mu, State.Evaluate(mu, t), t, ref random);
-    }
-
-    /// <summary>The fired reaction's new time t + E/a, or its parked exponential while a = 0.</summary>
-    private void Redraw(int mu, double a, double t, ref Xoshiro256StarStar random)
-    {
-        _propensity[mu] = a;
-        if (a > 0.0) _queue.Update(mu, t + random.NextExponential() / a);
-        else
-        {
-            _parked[mu] = random.NextExponential();
-            _queue.Update(mu, double.PositiveInfinity);
-        }
     }
 
     /// <summary>The runaway projection needs a0, which this method does not keep: summed here, every 2^16 events.</summary>

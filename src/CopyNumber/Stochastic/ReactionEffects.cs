@@ -31,6 +31,7 @@ internal sealed class ReactionEffects
         DependentStart = new int[reactions + 1];
         MayMakeNegative = new bool[reactions];
         IsBroad = new bool[reactions];
+        IncludesFired = includeFired;
         var changeSpecies = new List<int>();
         var changeAmount = new List<long>();
         var dependents = new List<int>();
@@ -98,6 +99,9 @@ internal sealed class ReactionEffects
     /// <summary>Species i's readers are entries ReaderStart[i] .. ReaderStart[i+1]−1, sorted.</summary>
     public int[] ReaderStart { get; }
     public int[] Readers { get; }
+
+    /// <summary>Whether each reaction's own propensity is among its updates (the includeFired choice).</summary>
+    public bool IncludesFired { get; }
 
     /// <summary>True for reactions whose updates are walked through <see cref="Readers"/> instead of listed in <see cref="Dependents"/>.</summary>
     public bool[] IsBroad { get; }

@@ -1,3 +1,4 @@
+using System.Runtime.CompilerServices;
 using System.Text;
 using CopyNumber.Network;
 using CopyNumber.Stochastic;
@@ -78,9 +79,12 @@ public sealed class LargeNetworkMemoryTests
             if (network.Dependencies.IsBroad(j))
             {
                 broad++;
-                var collected = program.CollectBroad(j).ToArray();
-                actual = collected.Select(u => UpdateReaction(program, u)).Order().ToArray();
-                Assert.Equal(collected.Length, actual.Distinct().Count()); // each reaction once
+                ref var header = ref Unsafe.Add(ref program.Headers, j);
+                program.CollectBroad(ref header, j);
+                var collected = Enumerable.Range(header.UpdateStart, header.UpdateEnd - header.UpdateStart)
+                    .Select(u => UpdateReaction(program, u)).ToArray();
+                actual = collected.Order().ToArray();
+                Assert.Equal(collected.Length, collected.Distinct().Count()); // each reaction once
             }
             else actual = network.Dependencies.Affected(j).ToArray();
             Assert.Equal(expected, actual);
@@ -90,8 +94,7 @@ public sealed class LargeNetworkMemoryTests
         Assert.Equal(42, broad);
     }
 
-    private static int UpdateReaction(FiringProgram program, int u) =>
-        System.Runtime.CompilerServices.Unsafe.Add(ref program.Updates, u).Reaction;
+    private static int UpdateReaction(FiringProgram program, int u) => Unsafe.Add(ref program.Updates, u).Reaction;
 
     [Theory]
     [MemberData(nameof(Simulators.AllMethods), MemberType = typeof(Simulators))]
