@@ -1,6 +1,6 @@
-using System.Text;
 using CopyNumber.Ensembles;
 using CopyNumber.Network;
+using CopyNumber.Tests.Stochastic;
 
 namespace CopyNumber.Tests.Ensembles;
 
@@ -12,14 +12,7 @@ namespace CopyNumber.Tests.Ensembles;
 /// </summary>
 public sealed class NetworkMemoryEstimateTests
 {
-    private static ReactionNetwork Star(int channels)
-    {
-        var text = new StringBuilder("species\n  S = 1000\nparameters\n  k = 0.001\nreactions\n");
-        for (var j = 0; j < channels; j++) text.Append($"  r{j}: S -> 0 mass k\n");
-        var loaded = ModelLoader.LoadText(text.ToString(), "star.cnet");
-        Assert.Empty(loaded.Diagnostics);
-        return loaded.Model!.Network;
-    }
+    private static ReactionNetwork Star(int channels) => LargeNetworkMemoryTests.Star(channels);
 
     private static EnsembleOptions TinyGrid(int threads) =>
         new() { Grid = new TimeGrid(until: 1, every: 1), Replicates = 256, Seed = 1, Threads = threads };

@@ -14,7 +14,7 @@ namespace CopyNumber.Tests.Stochastic;
 public sealed class LargeNetworkMemoryTests
 {
     /// <summary>S = 1000 and <paramref name="channels"/> reactions S → 0, each reading and changing S.</summary>
-    private static ReactionNetwork Star(int channels)
+    internal static ReactionNetwork Star(int channels)
     {
         var text = new StringBuilder("species\n  S = 1000\nparameters\n  k = 0.001\nreactions\n");
         for (var j = 0; j < channels; j++) text.Append($"  r{j}: S -> 0 mass k\n");
