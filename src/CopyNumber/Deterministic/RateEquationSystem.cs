@@ -14,7 +14,7 @@ public sealed class RateEquationSystem : IOdeSystem
     private readonly double[] _parameters;
     private readonly double[] _constants;
     private readonly double[] _rates;
-    private readonly double[,] _rateJacobian;
+    private double[,]? _rateJacobian;   // reactions × species, made at the first Jacobian: only stiff steps need it
 
     /// <summary>Creates the system with the network's initial parameter values.</summary>
     public RateEquationSystem(ReactionNetwork network)
@@ -24,7 +24,6 @@ public sealed class RateEquationSystem : IOdeSystem
         _parameters = network.InitialParameterValues.ToArray();
         _constants = new double[network.RateEquations.ReactionCount];
         _rates = new double[network.RateEquations.ReactionCount];
-        _rateJacobian = new double[network.RateEquations.ReactionCount, network.RateEquations.SpeciesCount];
         network.Propensities.ComputeConstants(_parameters, _constants);
     }
 
@@ -53,7 +52,8 @@ public sealed class RateEquationSystem : IOdeSystem
 
     /// <inheritdoc/>
     public void Jacobian(double t, double[] y, double[,] jacobian) =>
-        _network.RateEquations.Jacobian(y, _constants, _parameters, _rateJacobian, jacobian);
+        _network.RateEquations.Jacobian(y, _constants, _parameters,
+            _rateJacobian ??= new double[_network.RateEquations.ReactionCount, _network.RateEquations.SpeciesCount], jacobian);
 
     /// <summary>The species name.</summary>
     public string ComponentName(int index) => $"species {_network.Species[index]}";

@@ -52,6 +52,7 @@ internal sealed class RosenbrockRodas4 : OdeStepper
         : base(system, options, statistics)
     {
         _n = system.Dimension;
+        RefuseBeyondMemory(_n);
         _jacobian = new double[_n, _n];
         _matrix = new double[_n * _n];
         _pivots = new int[_n];
@@ -59,6 +60,21 @@ internal sealed class RosenbrockRodas4 : OdeStepper
         _u4 = new double[_n]; _u5 = new double[_n]; _u6 = new double[_n]; _stage = new double[_n];
         _dy = new double[_n]; _shifted = new double[_n]; _yNew = new double[_n];
         _yPrevious = new double[_n]; _dense2 = new double[_n]; _dense3 = new double[_n];
+    }
+
+    /// <summary>
+    /// The stiff solver holds two dense n × n matrices (the Jacobian and its LU factors); for a large
+    /// network they may not fit, which is said here with the numbers instead of an OutOfMemoryException.
+    /// The rule of the ensemble's memory check: at most 80 % of the available memory.
+    /// </summary>
+    private static void RefuseBeyondMemory(int n)
+    {
+        var bytes = 2 * (Int128)n * n * sizeof(double);
+        var available = GC.GetGCMemoryInfo().TotalAvailableMemoryBytes;
+        if (bytes <= available / 5 * 4 && (long)n * n <= Array.MaxLength) return;
+        throw new SolverFailureException(0, null,
+            $"the rate equations became stiff, and the stiff solver needs two dense {n:N0} × {n:N0} matrices " +
+            $"({(double)bytes / (1L << 30):0.0} GB), but about {available / (double)(1L << 30):0.0} GB is available");
     }
 
     public override string Name => "Rodas4";

@@ -8,11 +8,16 @@ namespace CopyNumber.Ensembles;
 /// large arrays (the per-event loop allocates nothing, so these dominate); object headers and the
 /// runtime's own needs come on top.
 /// </summary>
-/// <param name="PerThreadBytes">One worker: its staged block (block size × grid × quantities × 8 bytes) and its histograms.</param>
+/// <param name="PerThreadBytes">One worker: its staged block (block size × grid × quantities × 8 bytes), its histograms and its simulator (<paramref name="SimulatorBytes"/>).</param>
 /// <param name="SharedBytes">The merged histograms, the moment tree and blocks waiting for their paths to be written.</param>
 /// <param name="Threads">Worker threads the estimate is for: the threads asked for, or the blocks to run when fewer.</param>
 /// <param name="BlockElements">Elements of the largest staged-block array; .NET arrays hold at most <see cref="Array.MaxLength"/>.</param>
-public sealed record EnsembleMemory(long PerThreadBytes, long SharedBytes, int Threads, long BlockElements)
+/// <param name="SimulatorBytes">
+/// One worker's simulator, which grows with the network, not the grid: counts, propensity terms, the
+/// firing program with its update records (one per stored dependency-graph entry) and the selection
+/// structure (<see cref="SimulatorBytesFor"/>).
+/// </param>
+public sealed record EnsembleMemory(long PerThreadBytes, long SharedBytes, int Threads, long BlockElements, long SimulatorBytes = 0)
 {
     /// <summary>Bytes of one histogram with its smallest dense window (64 slots of 8 bytes) and its object.</summary>
     internal const long HistogramBytes = 64 * 8 + 96;
@@ -41,14 +46,30 @@ public sealed record EnsembleMemory(long PerThreadBytes, long SharedBytes, int T
         var threads = (int)Math.Clamp(end - first, 1, Math.Max(1, options.Threads));
         var blockElements = Math.Max(Product(block, grid, counts), Product(block, grid, reals));
         var blockBytes = Saturating(Product(block, grid, counts + reals), 8, block * 4);
-        var perThread = Saturating(blockBytes, 1, Product(grid, counts, HistogramBytes) + Product(grid, reals, AccumulatorBytes));
+        var simulator = SimulatorBytesFor(network);
+        var perThread = Saturating(Saturating(blockBytes, 1, Product(grid, counts, HistogramBytes) + Product(grid, reals, AccumulatorBytes)), 1, simulator);
         // Blocks holding path replicates may wait, up to four per thread, for the ones before them.
         var waiting = options.PathReplicates > 0 ? Saturating(blockBytes, 4L * threads, 0) : 0;
         var height = 0;
         while ((1L << height) < Math.Max(1, options.TotalBlocks)) height++;
         var tree = Product(height + 1 + threads, Product(grid, reals, AccumulatorBytes), 1);
         var shared = Saturating(Product(grid, counts, HistogramBytes), 1, Saturating(waiting, 1, tree));
-        return new EnsembleMemory(perThread, shared, threads, blockElements);
+        return new EnsembleMemory(perThread, shared, threads, blockElements, simulator);
+    }
+
+    /// <summary>
+    /// Upper estimate of one simulator's arrays for <paramref name="network"/>, in bytes: per reaction its
+    /// term, constant, program header, selection entry and scratch (≤ 128 bytes); per species its count and
+    /// reader-row start (16); per entry of N its change record (36); per stored dependency-graph entry an
+    /// update record of 32 bytes and its index (36). Linear in the network, as the graph is.
+    /// </summary>
+    public static long SimulatorBytesFor(ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        var n = network.Stoichiometry;
+        long changes = 0;
+        for (var j = 0; j < n.ReactionCount; j++) changes += n.ChangedSpecies(j).Length;
+        return 128L * n.ReactionCount + 16L * n.SpeciesCount + 36 * changes + 36 * network.Dependencies.StoredEntries;
     }
 
     /// <summary>
@@ -61,6 +82,9 @@ public sealed record EnsembleMemory(long PerThreadBytes, long SharedBytes, int T
         if (!FitsArrays)
             return $"the time grid is too fine for blocks of replicates: one block would hold {BlockElements:N0} values, more than the {Array.MaxLength:N0} one array can; choose a larger --every";
         if (TotalBytes <= availableBytes / 5 * 4) return null;
+        if (SimulatorBytes >= PerThreadBytes / 2)
+            return $"the network is too large for the memory: each of {Threads} threads needs about {Describe(SimulatorBytes)} for its simulator " +
+                $"(the run about {Describe(TotalBytes)} in all), but about {Describe(availableBytes)} is available; choose fewer --threads or a smaller network";
         return $"the run would need about {Describe(TotalBytes)} of memory ({Describe(PerThreadBytes)} for each of {Threads} threads and {Describe(SharedBytes)} shared), " +
             $"but about {Describe(availableBytes)} is available; choose a larger --every or fewer --threads";
     }

@@ -11,6 +11,11 @@ namespace CopyNumber.Kinetics;
 /// and numbers become constants, and functions become direct calls. Nothing is interpreted at run
 /// time and the delegate captures no per-call state, so calling it allocates nothing.
 /// </summary>
+/// <remarks>
+/// An expression may be a shared graph (<see cref="ExpressionGraph"/>; symbolic derivatives are): a node
+/// used by two or more others is computed once into a local and read from there, so the compiled code
+/// grows with the graph, not with its (possibly exponentially larger) tree form.
+/// </remarks>
 public static class ExpressionCompiler
 {
     private static readonly MethodInfo PowerMethod =
@@ -26,7 +31,7 @@ public static class ExpressionCompiler
         var parameters = Expression.Parameter(typeof(double[]), "parameters");
         var body = new TreeBuilder(scope, parameters,
                 i => Expression.Convert(Expression.ArrayIndex(counts, Expression.Constant(i)), typeof(double)))
-            .Build(scope.Expand(expression));
+            .Body(scope.Expand(expression));
         return Expression.Lambda<CountLaw>(body, counts, parameters).Compile();
     }
 
@@ -34,14 +39,17 @@ public static class ExpressionCompiler
     /// <param name="expression">The expression; readout names are expanded.</param>
     /// <param name="scope">What its names mean.</param>
     /// <exception cref="ModelException">A name, function or operator the compiler does not know.</exception>
-    public static StateLaw CompileStateLaw(Expr expression, ExpressionScope scope)
+    public static StateLaw CompileStateLaw(Expr expression, ExpressionScope scope) => StateLawTree(expression, scope).Compile();
+
+    /// <summary>The expression tree <see cref="CompileStateLaw"/> compiles (for tests that measure its size).</summary>
+    internal static Expression<StateLaw> StateLawTree(Expr expression, ExpressionScope scope)
     {
         var state = Expression.Parameter(typeof(double[]), "state");
         var parameters = Expression.Parameter(typeof(double[]), "parameters");
         var body = new TreeBuilder(scope, parameters,
                 i => Expression.ArrayIndex(state, Expression.Constant(i)))
-            .Build(scope.Expand(expression));
-        return Expression.Lambda<StateLaw>(body, state, parameters).Compile();
+            .Body(scope.Expand(expression));
+        return Expression.Lambda<StateLaw>(body, state, parameters);
     }
 
     /// <summary>The method of a call's function, or a user-facing error at the call.</summary>
@@ -59,7 +67,35 @@ public static class ExpressionCompiler
 
     private sealed class TreeBuilder(ExpressionScope scope, ParameterExpression parameters, Func<int, Expression> readSpecies)
     {
-        public Expression Build(Expr expression) => expression switch
+        private Dictionary<Expr, int> _uses = new(ReferenceEqualityComparer.Instance);
+        private readonly Dictionary<Expr, ParameterExpression> _computed = new(ReferenceEqualityComparer.Instance);
+        private readonly List<ParameterExpression> _locals = [];
+        private readonly List<Expression> _assignments = [];
+
+        /// <summary>
+        /// The compiled body: the shared nodes assigned to locals in the order they are first needed
+        /// (each after the shared nodes it uses), then the value.
+        /// </summary>
+        public Expression Body(Expr expression)
+        {
+            _uses = ExpressionGraph.UseCounts(expression);
+            var value = Build(expression);
+            return _locals.Count == 0 ? value : Expression.Block(typeof(double), _locals, [.. _assignments, value]);
+        }
+
+        private Expression Build(Expr expression)
+        {
+            if (expression is NumberExpr or NameExpr || _uses.GetValueOrDefault(expression) < 2) return BuildNode(expression);
+            if (_computed.TryGetValue(expression, out var local)) return local;
+            var value = BuildNode(expression);
+            local = Expression.Variable(typeof(double), "shared");
+            _locals.Add(local);
+            _assignments.Add(Expression.Assign(local, value));
+            _computed[expression] = local;
+            return local;
+        }
+
+        private Expression BuildNode(Expr expression) => expression switch
         {
             NumberExpr number => Expression.Constant(number.Value),
             NameExpr name => Name(name),

@@ -46,11 +46,12 @@ public sealed class ExpressionScope
     /// Subtrees without readouts are shared with the input.
     /// </summary>
     /// <exception cref="ModelException">A readout refers to itself, directly or through others.</exception>
-    public Expr Expand(Expr expression) => ExpandWithin(expression, new HashSet<string>());
+    public Expr Expand(Expr expression) =>
+        ExpandWithin(expression, new HashSet<string>(), new Dictionary<Expr, Expr>(ReferenceEqualityComparer.Instance));
 
     /// <summary>The species an expression reads (readouts expanded), in increasing index order.</summary>
     public IReadOnlyList<int> SpeciesRead(Expr expression) =>
-        Names(Expand(expression)).Select(n => SpeciesIndex(n.Name)).Where(i => i >= 0).Distinct().Order().ToArray();
+        ExpressionGraph.NamesUsed(Expand(expression)).Select(SpeciesIndex).Where(i => i >= 0).Order().ToArray();
 
     /// <summary>Every name occurrence in an expression, left to right, readouts not expanded.</summary>
     public static IEnumerable<NameExpr> Names(Expr expression)
@@ -73,41 +74,50 @@ public sealed class ExpressionScope
         }
     }
 
-    private Expr ExpandWithin(Expr expression, HashSet<string> expanding)
+    // Each node is expanded once (memo, by reference): an expression may be a shared graph
+    // (ExpressionGraph), whose tree form is far larger.
+    private Expr ExpandWithin(Expr expression, HashSet<string> expanding, Dictionary<Expr, Expr> done)
     {
+        if (done.TryGetValue(expression, out var known)) return known;
+        Expr expanded;
         switch (expression)
         {
             case NameExpr name when _readouts.TryGetValue(name.Name, out var definition):
             {
-                if (_expandedReadouts.TryGetValue(name.Name, out var done)) return done;
+                if (_expandedReadouts.TryGetValue(name.Name, out var readout)) return readout;
                 if (!expanding.Add(name.Name))
                     throw new ModelException(name.Position, $"readout '{name.Name}' is defined in terms of itself");
-                var expanded = ExpandWithin(definition, expanding);
+                expanded = ExpandWithin(definition, expanding, done);
                 expanding.Remove(name.Name);
                 _expandedReadouts[name.Name] = expanded;
                 return expanded;
             }
             case NegateExpr negate:
             {
-                var operand = ExpandWithin(negate.Operand, expanding);
-                return ReferenceEquals(operand, negate.Operand) ? negate : negate with { Operand = operand };
+                var operand = ExpandWithin(negate.Operand, expanding, done);
+                expanded = ReferenceEquals(operand, negate.Operand) ? negate : negate with { Operand = operand };
+                break;
             }
             case BinaryExpr binary:
             {
-                var left = ExpandWithin(binary.Left, expanding);
-                var right = ExpandWithin(binary.Right, expanding);
-                return ReferenceEquals(left, binary.Left) && ReferenceEquals(right, binary.Right)
+                var left = ExpandWithin(binary.Left, expanding, done);
+                var right = ExpandWithin(binary.Right, expanding, done);
+                expanded = ReferenceEquals(left, binary.Left) && ReferenceEquals(right, binary.Right)
                     ? binary : binary with { Left = left, Right = right };
+                break;
             }
             case CallExpr call:
             {
-                var arguments = call.Arguments.Select(a => ExpandWithin(a, expanding)).ToArray();
-                return arguments.Zip(call.Arguments).All(p => ReferenceEquals(p.First, p.Second))
+                var arguments = call.Arguments.Select(a => ExpandWithin(a, expanding, done)).ToArray();
+                expanded = arguments.Zip(call.Arguments).All(p => ReferenceEquals(p.First, p.Second))
                     ? call : call with { Arguments = arguments };
+                break;
             }
             default:
                 return expression;
         }
+        done[expression] = expanded;
+        return expanded;
     }
 
     private static Dictionary<string, int> Indexed(IReadOnlyList<string> names)

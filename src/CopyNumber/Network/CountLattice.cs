@@ -126,12 +126,19 @@ public sealed class QuantityLattice
 
         // Each species' own spacing (with the schedule) is needed for 'set': the value it replaces is
         // anywhere on that species' lattice.
+        // One pass over N's non-zero entries: linear in the network, not species × reactions.
         var ownSpacing = new long[coefficients.Count];
+        for (var j = 0; j < n.ReactionCount; j++)
+        {
+            var changed = n.ChangedSpecies(j);
+            var amounts = n.Changes(j);
+            for (var e = 0; e < changed.Length; e++)
+                if (coefficients[changed[e]] != 0) ownSpacing[changed[e]] = Gcd(ownSpacing[changed[e]], amounts[e]);
+        }
         for (var i = 0; i < coefficients.Count; i++)
         {
             if (coefficients[i] == 0) continue;
-            long g = 0;
-            for (var j = 0; j < n.ReactionCount; j++) g = Gcd(g, n[i, j]);
+            var g = ownSpacing[i];
             foreach (var change in schedule)
                 if (change.Target == ScheduleTarget.Species && change.TargetIndex == i && FixedValue(network, change) is { } v)
                     g = Gcd(g, change.Operation == ScheduleOperation.Set ? v - network.InitialCounts[i] : v);

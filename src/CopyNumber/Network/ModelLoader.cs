@@ -31,7 +31,10 @@ public static class ModelLoader
         return LoadText(text, path, options);
     }
 
-    /// <summary>Parses, checks and compiles model text; <paramref name="file"/> names it in messages.</summary>
+    /// <summary>
+    /// Parses, checks and compiles model text; <paramref name="file"/> names it in messages. A model too large
+    /// for the memory becomes a diagnostic with its size, not an <see cref="OutOfMemoryException"/>.
+    /// </summary>
     public static LoadOutcome LoadText(string text, string file, CompileOptions? options = null)
     {
         var parsed = ModelSource.Parse(text, file);
@@ -39,7 +42,20 @@ public static class ModelLoader
             return new LoadOutcome(null, parsed.Diagnostics);
         // The compiler quotes source lines in its diagnostics when it has them.
         var lines = text.Split('\n').Select(l => l.TrimEnd('\r')).ToArray();
-        var compiled = NetworkCompiler.Compile(parsed.Model, (options ?? new CompileOptions()) with { SourceLines = lines });
+        CompileOutcome compiled;
+        try
+        {
+            compiled = NetworkCompiler.Compile(parsed.Model, (options ?? new CompileOptions()) with { SourceLines = lines });
+        }
+        catch (OutOfMemoryException)
+        {
+            // Compilation is linear in the model, so this is a model far beyond the machine: say so, with sizes.
+            var available = GC.GetGCMemoryInfo().TotalAvailableMemoryBytes;
+            var reactions = parsed.Model.Reactions.Sum(r => r.Reversible ? 2 : 1);
+            return new LoadOutcome(null, [new Diagnostic(file, new SourcePosition(1, 1),
+                $"the model is too large to compile in the memory available: {reactions:N0} reactions and {parsed.Model.Species.Count:N0} species " +
+                $"({text.Length:N0} characters), with about {available / (double)(1L << 30):0.0} GB available", "")]);
+        }
         if (compiled.Network is null || compiled.Diagnostics.Count > 0)
             return new LoadOutcome(null, compiled.Diagnostics);
         return new LoadOutcome(new LoadedModel(file, text, parsed.Model, compiled.Network), []);

@@ -45,6 +45,7 @@ public static class NetworkCompiler
         private ExpressionScope _scope = null!;
         private double[] _parameterValues = [];
         private readonly HashSet<string> _brokenParameters = [];
+        private readonly Dictionary<string, StateLaw> _constantLaws = [];
 
         public CompileOutcome Run()
         {
@@ -63,7 +64,7 @@ public static class NetworkCompiler
             var schedule = model.Schedule.Select(CompileChange).ToArray();
             if (_diagnostics.Count > 0) return Failed();
 
-            var stoichiometry = new Stoichiometry(Dense(columns));
+            var stoichiometry = new Stoichiometry(model.Species.Count, Sparse(columns));
             var propensities = new Propensities(
                 size.Value,
                 columns.Select(c => (IReadOnlyList<(int, long)>)c.Reactants).ToArray(),
@@ -167,7 +168,7 @@ public static class NetworkCompiler
 
         /// <summary>Whether an expression uses a parameter already reported; its own faults would only repeat that report.</summary>
         private bool ReadsBrokenParameter(Expr expression) =>
-            ExpressionScope.Names(_scope.Expand(expression)).Any(n => _brokenParameters.Contains(n.Name));
+            ExpressionGraph.NamesUsed(_scope.Expand(expression)).Any(_brokenParameters.Contains);
 
         /// <summary>Evaluates a compile-time expression; a name without a value is explained.</summary>
         private double Evaluate(Expr expression, Func<string, double?> valueOf, string what, int laterParameterIndex = int.MaxValue)
@@ -222,17 +223,13 @@ public static class NetworkCompiler
             return terms.ToArray();
         }
 
-        /// <summary>N = products − reactants, species × reactions.</summary>
-        private long[,] Dense(Column[] columns)
-        {
-            var n = new long[model.Species.Count, columns.Length];
-            for (var j = 0; j < columns.Length; j++)
-            {
-                foreach (var (species, coefficient) in columns[j].Reactants) n[species, j] -= coefficient;
-                foreach (var (species, coefficient) in columns[j].Products) n[species, j] += coefficient;
-            }
-            return n;
-        }
+        /// <summary>
+        /// N = products − reactants, column by column: never the dense species × reactions matrix, which for a
+        /// chain of 30 000 reactions would take 7 GB.
+        /// </summary>
+        private static IReadOnlyList<(int Species, long Change)>[] Sparse(Column[] columns) =>
+            columns.Select(c => (IReadOnlyList<(int, long)>)c.Reactants.Select(r => (r.Species, -r.Coefficient))
+                .Concat(c.Products).ToArray()).ToArray();
 
         private ColumnKinetics? CompileKinetics(Column column)
         {
@@ -248,7 +245,10 @@ public static class NetworkCompiler
             if (read.Count > 0)
                 throw new ModelException(column.LawExpression.Position,
                     $"the mass-action constant of reaction '{column.Name}' cannot depend on species '{model.Species[read[0]].Name}'; write a rate law instead");
-            var constant = ExpressionCompiler.CompileStateLaw(expanded, _scope);
+            // Large generated networks repeat a few constants (k, 2*k, ...): one delegate for each text.
+            var text = ExpressionText.Format(expanded);
+            if (!_constantLaws.TryGetValue(text, out var constant))
+                _constantLaws[text] = constant = ExpressionCompiler.CompileStateLaw(expanded, _scope);
             var k = constant([], _parameterValues);
             if ((!double.IsFinite(k) || k < 0) && !ReadsBrokenParameter(expanded))
                 throw new ModelException(column.LawExpression.Position,

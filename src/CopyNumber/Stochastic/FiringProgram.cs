@@ -16,6 +16,12 @@ namespace CopyNumber.Stochastic;
 /// trips). Below 2^62 a count converts to double and multiplies in the bimolecular forms without
 /// overflowing, and the sum of two counts still fits in a long.
 /// The terms' constants are copies: <see cref="RefreshConstants"/> must follow every parameter change.
+/// A broad reaction (<see cref="Network.DependencyGraph"/>, affected list not stored) has no update list of
+/// its own: at each of its firings <see cref="Fire"/>, on the out-of-line path it already takes for rate
+/// laws that may over-consume, gathers the readers of the changed species from per-species reader blocks,
+/// each reaction once, into a scratch region at the end of the update list and points the header's update
+/// range at it. The simulators' loops are the same for both kinds, and the program stays linear in the
+/// network: reader blocks (one record per species read) and a scratch of one record per reaction.
 /// </remarks>
 internal sealed class FiringProgram
 {
@@ -25,6 +31,14 @@ internal sealed class FiringProgram
     private readonly Header[] _headers;
     private readonly CountChange[] _changes;
     private readonly PropensityUpdate[] _updates;
+    private readonly SimulatorState _state;
+    private readonly bool _includeFired;
+    private readonly int[] _changeStart;
+    private readonly int[] _changeSpecies;
+    private readonly int[] _blockStart = [];    // species i's reader block: _updates[_blockStart[i] .. _blockStart[i+1]−1]
+    private readonly int _scratch;              // _updates[_scratch ..] holds the updates of the broad reaction firing now
+    private readonly int[] _stamp = [];         // per reaction, the CollectBroad call that last took it
+    private int _stampValue;
     private int _constantsVersion = -1;
 
     /// <summary>Compiles the program from the effects' changes and dependents and the state's terms.</summary>
@@ -33,7 +47,17 @@ internal sealed class FiringProgram
         var reactions = state.ReactionCount;
         _headers = new Header[reactions];
         _changes = new CountChange[effects.ChangeSpecies.Length];
-        _updates = new PropensityUpdate[effects.Dependents.Length];
+        var anyBroad = effects.IsBroad.Contains(true);
+        var narrow = effects.Dependents.Length;
+        // Reader blocks and scratch only when some reaction needs them: an ordinary network's program is as before.
+        _scratch = narrow + (anyBroad ? effects.Readers.Length : 0);
+        _updates = new PropensityUpdate[_scratch + (anyBroad ? reactions : 0)];
+        if (anyBroad)
+        {
+            _blockStart = new int[effects.ReaderStart.Length];
+            for (var i = 0; i < _blockStart.Length; i++) _blockStart[i] = narrow + effects.ReaderStart[i];
+            _stamp = new int[reactions];
+        }
         for (var j = 0; j < reactions; j++)
         {
             _headers[j] = new Header
@@ -42,8 +66,10 @@ internal sealed class FiringProgram
                 ChangeEnd = effects.ChangeStart[j + 1],
                 UpdateStart = effects.DependentStart[j],
                 UpdateEnd = effects.DependentStart[j + 1],
+                OutOfLine = effects.MayMakeNegative[j] || effects.IsBroad[j],
                 CheckConsumption = effects.MayMakeNegative[j],
                 CountsSwitch = state.Switches.TwoState.ChangedBy(j),
+                Broad = effects.IsBroad[j],
             };
         }
         for (var e = 0; e < _changes.Length; e++)
@@ -56,11 +82,47 @@ internal sealed class FiringProgram
                 Headroom = amount > 0 ? CountLimit - amount : long.MaxValue,
             };
         }
-        for (var u = 0; u < _updates.Length; u++)
+        for (var u = 0; u < _scratch; u++)
         {
-            var k = effects.Dependents[u];
+            var k = u < narrow ? effects.Dependents[u] : effects.Readers[u - narrow];
             _updates[u] = new PropensityUpdate { Term = state.Terms[k], Reaction = k };
         }
+        _state = state;
+        _includeFired = effects.IncludesFired;
+        _changeStart = effects.ChangeStart;
+        _changeSpecies = effects.ChangeSpecies;
+    }
+
+    /// <summary>
+    /// Points broad reaction <paramref name="reaction"/>'s update range at the readers of the species it
+    /// changes, each reaction once (and the reaction itself when the effects include the fired one),
+    /// copied into the scratch region. Allocation-free; valid until the next call.
+    /// </summary>
+    public void CollectBroad(ref Header header, int reaction)
+    {
+        if (++_stampValue == int.MaxValue)
+        {
+            Array.Clear(_stamp);
+            _stampValue = 1;
+        }
+        var stamp = _stampValue;
+        var end = _scratch;
+        for (var e = _changeStart[reaction]; e < _changeStart[reaction + 1]; e++)
+        {
+            var species = _changeSpecies[e];
+            for (var u = _blockStart[species]; u < _blockStart[species + 1]; u++)
+            {
+                var k = _updates[u].Reaction;
+                if (_stamp[k] == stamp) continue;
+                _stamp[k] = stamp;
+                _updates[end++] = _updates[u];
+            }
+        }
+        if (_includeFired && _stamp[reaction] != stamp)
+            _updates[end++] = new PropensityUpdate { Term = _state.Terms[reaction], Reaction = reaction };
+        header.UpdateStart = _scratch;
+        header.PlainEnd = _scratch;
+        header.UpdateEnd = end;
     }
 
     /// <summary>
@@ -75,6 +137,7 @@ internal sealed class FiringProgram
         for (var j = 0; j < _headers.Length; j++)
         {
             ref var header = ref _headers[j];
+            if (header.Broad) continue; // its range is set at each firing
             var slice = _updates.AsSpan(header.UpdateStart, header.UpdateEnd - header.UpdateStart);
             var plain = 0;
             for (var u = 0; u < slice.Length; u++)
@@ -121,7 +184,15 @@ internal sealed class FiringProgram
             if (count > change.Headroom) state.ThrowCountOverflow(reaction, change.Species, change.Amount, time);
             count += change.Amount;
         }
+        if (header.OutOfLine) FireOutOfLine(ref header, reaction, state, effects, time);
+    }
+
+    /// <summary>The rare parts of a firing: the over-consumption check of a rate law, a broad reaction's updates.</summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    private void FireOutOfLine(ref Header header, int reaction, SimulatorState state, ReactionEffects effects, double time)
+    {
         if (header.CheckConsumption) effects.CheckFiring(reaction, state, time);
+        if (header.Broad) CollectBroad(ref header, reaction);
     }
 
     /// <summary>One reaction's slices of the change and update lists.</summary>
@@ -134,9 +205,13 @@ internal sealed class FiringProgram
         public int UpdateEnd;
         /// <summary>Updates UpdateStart .. PlainEnd−1 are plain unimolecular ones: a = c·x, no check needed.</summary>
         public int PlainEnd;
+        /// <summary>Either of the two below: the one test <see cref="Fire"/> makes for them.</summary>
+        public bool OutOfLine;
         public bool CheckConsumption;
         /// <summary>The reaction changes a two-state species: its firing is a switch (<see cref="TransitionCounter"/>).</summary>
         public bool CountsSwitch;
+        /// <summary>The update range is set at each firing by <see cref="CollectBroad"/>.</summary>
+        public bool Broad;
     }
 
     /// <summary>Count of <see cref="Species"/> += <see cref="Amount"/>, allowed while the count is ≤ <see cref="Headroom"/>.</summary>

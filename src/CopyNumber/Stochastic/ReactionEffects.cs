@@ -10,6 +10,11 @@ namespace CopyNumber.Stochastic;
 /// rows; Gibson &amp; Bruck 2000). Every index is checked here once, so the programs compiled from these
 /// lists (<see cref="FiringProgram"/>) may skip bounds checks.
 /// </summary>
+/// <remarks>
+/// A reaction whose affected list the graph does not store (<see cref="DependencyGraph.IsBroad"/>) has
+/// no dependents here; it is marked in <see cref="IsBroad"/> and its updates are the readers
+/// (<see cref="ReaderStart"/>, <see cref="Readers"/>) of the species it changes, walked at each firing.
+/// </remarks>
 internal sealed class ReactionEffects
 {
     /// <param name="network">The network.</param>
@@ -25,6 +30,8 @@ internal sealed class ReactionEffects
         ChangeStart = new int[reactions + 1];
         DependentStart = new int[reactions + 1];
         MayMakeNegative = new bool[reactions];
+        IsBroad = new bool[reactions];
+        IncludesFired = includeFired;
         var changeSpecies = new List<int>();
         var changeAmount = new List<long>();
         var dependents = new List<int>();
@@ -44,6 +51,11 @@ internal sealed class ReactionEffects
             }
 
             DependentStart[j] = dependents.Count;
+            if (network.Dependencies.IsBroad(j))
+            {
+                IsBroad[j] = true;
+                continue;
+            }
             var affected = network.Dependencies.Affected(j);
             var selfListed = false;
             foreach (var k in affected)
@@ -60,6 +72,19 @@ internal sealed class ReactionEffects
         ChangeSpecies = changeSpecies.ToArray();
         ChangeAmount = changeAmount.ToArray();
         Dependents = dependents.ToArray();
+        ReaderStart = new int[species + 1];
+        var readers = new List<int>();
+        for (var i = 0; i < species; i++)
+        {
+            ReaderStart[i] = readers.Count;
+            foreach (var k in network.Dependencies.Readers(i))
+            {
+                if ((uint)k >= (uint)reactions) throw new ArgumentException($"the dependency graph lists reaction index {k}, outside the network's {reactions} reactions");
+                readers.Add(k);
+            }
+        }
+        ReaderStart[species] = readers.Count;
+        Readers = readers.ToArray();
     }
 
     /// <summary>Reaction j's count changes are entries ChangeStart[j] .. ChangeStart[j+1]−1.</summary>
@@ -70,6 +95,16 @@ internal sealed class ReactionEffects
     /// <summary>Reaction j's dependents are entries DependentStart[j] .. DependentStart[j+1]−1, sorted.</summary>
     public int[] DependentStart { get; }
     public int[] Dependents { get; }
+
+    /// <summary>Species i's readers are entries ReaderStart[i] .. ReaderStart[i+1]−1, sorted.</summary>
+    public int[] ReaderStart { get; }
+    public int[] Readers { get; }
+
+    /// <summary>Whether each reaction's own propensity is among its updates (the includeFired choice).</summary>
+    public bool IncludesFired { get; }
+
+    /// <summary>True for reactions whose updates are walked through <see cref="Readers"/> instead of listed in <see cref="Dependents"/>.</summary>
+    public bool[] IsBroad { get; }
 
     /// <summary>True for rate-law reactions that consume a species: their firing must be checked.</summary>
     public bool[] MayMakeNegative { get; }
