@@ -15,11 +15,15 @@ namespace CopyNumber.Network;
 /// basis laws shows is not found. A reaction changes a two-state species by ±1 whenever it can fire, so
 /// each firing is one switch. The schedule may break a law (<c>gene_on = 1</c> without
 /// <c>gene_off = 0</c>); the simulators check the laws after every change instant and the replicate's
-/// count of that species is then left out (<see cref="Ensembles.SwitchingStatistics.Excluded"/>).
+/// count of that species is then left out (<see cref="Ensembles.SwitchingStatistics.Excluded"/>). Networks
+/// with more than <see cref="AnalysedEntries"/> entries in N are not analysed (no two-state species).
 /// Immutable; <see cref="Of"/> computes it once per network.
 /// </remarks>
 public sealed class TwoStateSpecies
 {
+    /// <summary>Largest species × reactions for which the conservation laws are searched for two-state species.</summary>
+    public const long AnalysedEntries = 250_000;
+
     private static readonly ConditionalWeakTable<ReactionNetwork, TwoStateSpecies> Cache = new();
 
     private readonly int[] _species;
@@ -63,8 +67,10 @@ public sealed class TwoStateSpecies
         var n = network.Stoichiometry;
         var species = new List<int>();
         var laws = new List<ConservationLaw>();
-        // x_i(0) ≤ 1 is necessary; only then is the exact analysis worth its cost.
-        if (network.InitialCounts.Any(c => c <= 1))
+        // x_i(0) ≤ 1 is necessary; only then is the exact analysis worth its cost. The exact elimination
+        // grows faster than species × reactions, so beyond AnalysedEntries no species is taken as two-state
+        // (the rule is sufficient, not necessary): a 30 000-reaction chain otherwise ran out of memory here.
+        if (network.InitialCounts.Any(c => c <= 1) && (long)n.SpeciesCount * n.ReactionCount <= AnalysedEntries)
         {
             StoichiometricStructure structure;
             try
