@@ -21,7 +21,9 @@ public static class ContrastReport
         var cautions = new List<string>
         {
             Contrast.Caution,
-            $"Sampling error: deviations count as resolved only beyond {Format(thresholds.Z)} standard errors; verdicts need at least {thresholds.MinimumReplicates} replicates.",
+            $"Sampling error: each verdict fires on a model where it is false with a chance of at most {Percent(thresholds.FalseAlarmRate)} per quantity over the whole grid "
+            + $"(docs/methods-analysis.md gives each rule and its measured rate); in the tables a deviation at one time counts as resolved beyond {Format(thresholds.Z)} standard errors; "
+            + $"verdicts need at least {thresholds.MinimumReplicates} replicates.",
         };
         if (contrast.ExpansionFailure is not null)
             cautions.Add($"The linear noise approximation could not be computed ({contrast.ExpansionFailure}); its bands and variance ratios are missing.");
@@ -35,7 +37,8 @@ public static class ContrastReport
                 $"Model {run.Manifest.ModelFile} (sha256 {run.Manifest.ModelSha256[..12]}…), {run.Manifest.ReplicatesFinished} replicates, method {run.Manifest.Method}, seed {run.Manifest.Seed}.",
                 $"Thresholds: relative mean deviation {Percent(thresholds.RelativeDeviation)} (rate-equation value at least {Format(thresholds.DeterministicFloor)}), " +
                 $"coefficient of variation {Format(thresholds.CoefficientOfVariation)} over the last {Percent(thresholds.LateFraction)} of the run, " +
-                $"several modes at {Percent(thresholds.MultimodalFraction)} of grid times or more, P(0) at the end {Percent(thresholds.ExtinctionProbability)}.",
+                $"several modes at {Percent(thresholds.MultimodalFraction)} of grid times or more, P(0) at the end {Percent(thresholds.ExtinctionProbability)}; "
+                + $"false-alarm rate {Percent(thresholds.FalseAlarmRate)} per quantity and run.",
             ],
             [new ReportTable(["quantity", "verdict", "reason"], verdictRows)],
             []);

@@ -70,6 +70,7 @@ public class ContrastTests
         var run = CliRun.Of("contrast", folder, "--false-alarm-rate", "0.05");
         Assert.Equal(0, run.ExitCode);
         Assert.Contains(run.Output.Split('\n'), l => l.StartsWith("X ", StringComparison.Ordinal) && l.Contains("false-alarm rate 5%"));
+        Assert.Contains("false-alarm rate 5% per quantity and run", File.ReadAllText(Path.Combine(folder, "report.md")));
         var bad = CliRun.Of("contrast", folder, "--false-alarm-rate", "0.7");
         Assert.Equal(2, bad.ExitCode);
         Assert.Contains("false-alarm rate", bad.Error);
