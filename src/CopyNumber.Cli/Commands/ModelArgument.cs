@@ -1,5 +1,6 @@
 using System.CommandLine;
 using CopyNumber.Network;
+using CopyNumber.Output;
 
 namespace CopyNumber.Cli.Commands;
 
@@ -8,9 +9,21 @@ internal static class ModelArgument
 {
     public static Argument<string> Create() => new("model") { Description = "The network file (.cnet)." };
 
+    /// <summary>MODEL for simulate: optional, because --resume DIR reads the model text stored in the run.</summary>
+    public static Argument<string?> CreateOptional() =>
+        new("model") { Description = "The network file (.cnet); with --resume it may be left out (the stored model is used).", Arity = ArgumentArity.ZeroOrOne };
+
     public static LoadedModel Load(string path, CompileOptions? options = null)
     {
         var outcome = ModelLoader.Load(path, options);
+        if (outcome.Model is null) throw new ModelInputException(outcome.Diagnostics);
+        return outcome.Model;
+    }
+
+    /// <summary>The model a run folder was made with: its stored text (checked against the manifest's SHA-256), named by the stored file name.</summary>
+    public static LoadedModel LoadStored(StoredRun stored)
+    {
+        var outcome = ModelLoader.LoadText(stored.ModelText(), stored.Manifest.ModelFile);
         if (outcome.Model is null) throw new ModelInputException(outcome.Diagnostics);
         return outcome.Model;
     }

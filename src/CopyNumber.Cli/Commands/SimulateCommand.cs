@@ -19,9 +19,9 @@ internal static class SimulateCommand
 
     public static Command Create(CliSession session)
     {
-        var model = ModelArgument.Create();
-        var grid = new GridOptions();
-        var replicates = new Option<long>("--replicates") { Description = "Number of independent replicates.", Required = true };
+        var model = ModelArgument.CreateOptional();
+        var grid = new GridOptions(required: false);
+        var replicates = new Option<long?>("--replicates") { Description = "Number of independent replicates (required unless --resume)." };
         var method = new Option<string>("--method") { Description = "auto (chosen from the network's size and copy numbers; the reason is printed), direct (Gillespie's direct method), next-reaction (Gibson-Bruck), tau-leap (adaptive explicit tau-leaping) or composition-rejection (for large networks).", DefaultValueFactory = _ => "auto" };
         method.AcceptOnlyFromAmong(MethodNames);
         var epsilon = new Option<double>("--epsilon") { Description = "Tau-leaping error control: the largest relative change of any propensity in one leap, in (0, 1).", DefaultValueFactory = _ => 0.03 };
@@ -33,7 +33,7 @@ internal static class SimulateCommand
         var maxEvents = new Option<long?>("--max-events") { Description = "Stop a replicate after this many events; such replicates are counted and reported." };
         var maxWall = new Option<double?>("--max-wall") { Description = "Stop the run after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
         var shard = new Option<string?>("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
-        var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder: repeat its arguments (omitted options take the stored values); finished blocks are kept." };
+        var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder; MODEL and every option may be left out (they take the stored values), options given must agree with the stored run; finished blocks are kept." };
         var validationReplicates = new Option<long?>("--validation-replicates") { Description = "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md)." };
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
@@ -67,10 +67,11 @@ internal static class SimulateCommand
                 }
             }
 
-            var timeGrid = grid.Read(parsed);
+            var timeGrid = grid.Read(parsed, stored?.Grid);
             var thresholds = contrastOptions.Thresholds(parsed);
             var histogramTimes = contrastOptions.Times(parsed);
-            var replicateCount = parsed.GetValue(replicates);
+            var replicateCount = Pick(replicates, "replicates", t => (long?)long.Parse(t, CultureInfo.InvariantCulture))
+                ?? throw new UserInputException("--replicates is required (or --resume DIR, which takes it from the stored run)");
             if (replicateCount < 1) throw new UserInputException($"--replicates must be at least 1 (got {replicateCount})");
             var eps = Pick(epsilon, "epsilon", ParseDouble);
             if (!(eps > 0 && eps < 1)) throw new UserInputException($"--epsilon must lie in (0, 1) (got {eps})");
@@ -87,7 +88,9 @@ internal static class SimulateCommand
             if (sampleSize is { } fixedSample && fixedSample < 2) throw new UserInputException($"--validation-replicates must be at least 2 (got {fixedSample})");
             var runSeed = Pick(seed, "seed", t => (ulong?)ulong.Parse(t, CultureInfo.InvariantCulture)) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
 
-            var loaded = ModelArgument.Load(parsed.GetValue(model)!);
+            var loaded = parsed.GetValue(model) is { } modelPath ? ModelArgument.Load(modelPath)
+                : stored is not null ? ModelArgument.LoadStored(stored)
+                : throw new UserInputException("simulate needs a MODEL file (or --resume DIR, which reads the stored model)");
             var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
             // A resumed run goes on with the method its stored blocks were made with (auto may have fallen back).
             if (stored is not null && Enum.TryParse<SimulationMethod>(stored.Manifest.Method, out var storedMethod) && storedMethod != simulationMethod)
@@ -141,7 +144,7 @@ internal static class SimulateCommand
             var toRun = ShardReplicates(options) - (stored?.Manifest.ReplicatesFinished ?? 0);
             error.WriteLine(stored is null
                 ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {MethodArgument.NameOf(simulationMethod)} ({methodReason}), seed {runSeed}, {threadCount} threads -> {folder}"
-                : $"resuming {loaded.Network.Name} in {folder}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {chosen}, seed {runSeed}, {threadCount} threads");
+                : $"resuming {loaded.Network.Name} in {folder}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {MethodArgument.NameOf(simulationMethod)}, seed {runSeed}, {threadCount} threads");
             var monitor = new EnsembleMonitor();
             SimulationOutcome outcome;
             using (new ProgressDisplay(monitor, toRun, error, terminal: !Console.IsErrorRedirected && error == Console.Error))

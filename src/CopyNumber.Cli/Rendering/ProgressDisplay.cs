@@ -33,8 +33,7 @@ internal sealed class ProgressDisplay : IDisposable
         var seconds = Math.Max(_clock.Elapsed.TotalSeconds, 1e-9);
         var eventsPerSecond = _monitor.EventsFired / seconds;
         var fraction = _total > 0 ? Math.Min(1.0, (double)done / _total) : 1;
-        var left = done > 0 ? TimeSpan.FromSeconds(seconds * (_total - done) / done) : (TimeSpan?)null;
-        var leftText = left is { } l ? $"{(int)l.TotalMinutes}:{l.Seconds:00} left" : "estimating";
+        var leftText = TimeLeft.Describe(seconds, done, _total);
         lock (_error)
         {
             if (_terminal)

@@ -12,6 +12,7 @@ namespace CopyNumber.Ensembles;
 /// </summary>
 internal sealed class BlockObserver : ITrajectoryObserver
 {
+    private readonly ReactionNetwork _network;
     private readonly int _species;
     private readonly Readout[] _countReadouts;
     private readonly Readout[] _realReadouts;
@@ -21,6 +22,7 @@ internal sealed class BlockObserver : ITrajectoryObserver
 
     public BlockObserver(ReactionNetwork network, CancellationToken cancel)
     {
+        _network = network;
         _species = network.Species.Count;
         _countReadouts = network.Readouts.Where(r => r.IsCount).ToArray();
         _realReadouts = network.Readouts.Where(r => !r.IsCount).ToArray();
@@ -43,7 +45,14 @@ internal sealed class BlockObserver : ITrajectoryObserver
         var target = block.Counts;
         for (var i = 0; i < _species; i++) target[baseIndex + i] = counts[i];
         for (var r = 0; r < _countReadouts.Length; r++)
-            target[baseIndex + _species + r] = (long)Math.Round(_countReadouts[r].OnCounts(counts, parameters));
+        {
+            var value = _countReadouts[r].OnCounts(counts, parameters);
+            // Above 2^53 a double no longer holds every integer, and past 2^63 the cast to long saturates:
+            // either way the stored count would be silently wrong, so the replicate fails instead.
+            if (!(Math.Abs(value) <= SimulationFailureException.LargestExactReadout))
+                throw SimulationFailureException.ReadoutOutOfRange(_network, _countReadouts[r], value, time, counts);
+            target[baseIndex + _species + r] = (long)Math.Round(value);
+        }
         if (_realReadouts.Length > 0)
         {
             var realBase = ((long)_slot * block.GridPoints + gridIndex) * block.RealStride;

@@ -35,6 +35,13 @@ public sealed class SimulationFailureException : Exception
     internal static SimulationFailureException ScheduleMadeNegative(ScheduledChange change, long result) =>
         new($"at time {Number(change.Time)} the schedule makes species '{change.TargetName}' {result}; copy numbers cannot be negative", change.Time);
 
+    /// <summary>2^53: the largest magnitude up to which a double holds every integer, so a count readout is exact.</summary>
+    internal const double LargestExactReadout = 9007199254740992;
+
+    internal static SimulationFailureException ReadoutOutOfRange(ReactionNetwork network, Readout readout, double value, double time, long[] counts) =>
+        new($"readout '{readout.Name}' = {readout.Text} is {Number(value)} at time {Number(time)}; an integer readout is stored as an exact count " +
+            $"and must stay within ±2^53 = ±9007199254740992 (state: {State(network, counts)})", time);
+
     internal static SimulationFailureException CountOverflow(ReactionNetwork network, int reaction, int species, long amount, double time, long[] counts) =>
         new($"reaction '{network.Reactions[reaction].Name}' fired at time {Number(time)} would take species '{network.Species[species]}' from " +
             $"{counts[species].ToString(CultureInfo.InvariantCulture)} by {amount.ToString(CultureInfo.InvariantCulture)} past 2^62 = {FiringProgram.CountLimit.ToString(CultureInfo.InvariantCulture)} copies, " +

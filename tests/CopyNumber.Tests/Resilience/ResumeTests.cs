@@ -112,6 +112,39 @@ public class ResumeTests
         Assert.Contains("--seed", finishedOther.Error);
     }
 
+    /// <summary>
+    /// Issue 10, fault 12: the README promises that options left out take the stored values, yet --until,
+    /// --every, --replicates and MODEL were required, and the resume line printed the method argument
+    /// ("auto") instead of the method the stored blocks were made with.
+    /// </summary>
+    [Fact]
+    public void Resume_with_only_the_folder_takes_model_and_options_from_the_run_and_prints_its_method()
+    {
+        using var scratch = new ScratchFolder();
+        var model = ModelLoader.Load(WriteModel(scratch)).Model!;
+        var whole = Folder(scratch, "whole");
+        Run(model, whole, 1, resume: false, CancellationToken.None);
+        var folder = Folder(scratch, "run");
+        using (var cancel = new CancellationTokenSource())
+            Run(model, folder, 1, resume: false, cancel.Token, block => { if (block == 1) cancel.Cancel(); }, methodArgument: "auto");
+        File.Delete(model.Path); // the stored model text is what a resumption reads
+
+        var resumed = CliRun.Of(["simulate", "--resume", folder]);
+        Assert.Equal(0, resumed.ExitCode);
+        AssertNoStackTrace(resumed);
+        Assert.Contains("128 replicates kept, 872 to run", resumed.Error);
+        Assert.Contains("method direct", resumed.Error);
+        Assert.DoesNotContain("method auto", resumed.Error);
+        Assert.False(Manifest(folder).Partial);
+        foreach (var file in ResultFiles.Append(SimulationRun.PathsFile)) AssertSameCells(whole, folder, file);
+
+        // Without --resume the options are still required, with a message rather than a stack trace.
+        var bare = CliRun.Of(["simulate", "--until", "5", "--every", "0.5"]);
+        Assert.Equal(2, bare.ExitCode);
+        Assert.Contains("--replicates is required", bare.Error);
+        AssertNoStackTrace(bare);
+    }
+
     [Fact]
     public void A_folder_whose_tables_and_manifest_disagree_is_refused()
     {
@@ -140,7 +173,7 @@ public class ResumeTests
     }
 
     /// <summary>The run every test here uses: 1000 replicates of the bursty gene, seed 21, paths of the first 100.</summary>
-    private static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null)
+    private static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null, string methodArgument = "direct")
     {
         var grid = new TimeGrid(5, 0.5);
         var options = new EnsembleOptions { Grid = grid, Replicates = Replicates, Seed = Seed, Threads = threads, PathReplicates = 100 };
@@ -150,7 +183,7 @@ public class ResumeTests
             ["until"] = "5",
             ["every"] = "0.5",
             ["replicates"] = Replicates.ToString(CultureInfo.InvariantCulture),
-            ["method"] = "direct",
+            ["method"] = methodArgument,
             ["epsilon"] = "0.03",
             ["seed"] = Seed.ToString(CultureInfo.InvariantCulture),
             ["paths"] = "100",
