@@ -18,27 +18,10 @@ public static class ModelLoader
     /// <summary>Reads, parses, checks and compiles a model file. Never throws for bad input.</summary>
     public static LoadOutcome Load(string path, CompileOptions? options = null)
     {
-        // The runtime's words for these ("Access to the path … is denied", "The value cannot be an empty
-        // string") point at the wrong cause, so they are checked first and named plainly.
-        if (string.IsNullOrWhiteSpace(path))
-            return Refused(path, "the model path is empty; give the name of a .cnet file");
-        if (Directory.Exists(path))
-            return Refused(path, $"'{path}' is a directory, not a model file");
-        string text;
-        try
-        {
-            text = File.ReadAllText(path);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException or ArgumentException or NotSupportedException)
-        {
-            var why = e is FileNotFoundException or DirectoryNotFoundException ? "no such file" : e.Message;
-            return Refused(path, $"cannot read the model file: {why}");
-        }
+        var (text, problem) = ModelSource.ReadText(path);
+        if (text is null) return new LoadOutcome(null, [problem!]);
         return LoadText(text, path, options);
     }
-
-    private static LoadOutcome Refused(string path, string message) =>
-        new(null, [new Diagnostic(path, new SourcePosition(1, 1), message, "")]);
 
     /// <summary>
     /// Parses, checks and compiles model text; <paramref name="file"/> names it in messages. A model too large

@@ -35,14 +35,14 @@ public class BadArgumentTests
         { "simulate MODEL --until 5 --every 1 --replicates 10 --epsilon -0.2", ["--epsilon must lie in (0, 1)"] },
         { "simulate MODEL --until 5 --every 1 --replicates 10 --seed -1", ["-1", "expected a whole number"] },
         // model file
-        { "simulate MISSING --until 5 --every 1 --replicates 10", ["no such file"] },
+        { "simulate MISSING --until 5 --every 1 --replicates 10", ["model file", "missing.cnet' not found"] },
         { "simulate JUNK --until 5 --every 1 --replicates 10", ["junk.cnet:1:", "error"] },
         { "simulate DIR --until 5 --every 1 --replicates 10", ["is a directory, not a model file"] },
         { "inspect DIR", ["is a directory, not a model file"] },
-        { "simulate EMPTY --until 5 --every 1 --replicates 10", ["the model path is empty"] },
-        { "solve EMPTY --until 5 --every 1", ["the model path is empty"] },
+        { "simulate EMPTY --until 5 --every 1 --replicates 10", ["no model file given"] },
+        { "solve EMPTY --until 5 --every 1", ["no model file given"] },
         { "inspect JUNK", ["junk.cnet:1:", "error"] },
-        { "inspect MISSING", ["no such file"] },
+        { "inspect MISSING", ["model file", "missing.cnet' not found"] },
         // memory
         { "simulate WIDE --until 4000000 --every 1 --replicates 10", ["too fine", "larger --every"] },
         { "simulate MODEL --until 9000000 --every 1 --replicates 100000 --threads 1024", ["GB of memory", "fewer --threads"] },

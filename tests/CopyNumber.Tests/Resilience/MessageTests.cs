@@ -48,6 +48,21 @@ public class MessageTests
         Assert.DoesNotContain("-0 copies", run.Error + run.Output);
     }
 
+    /// <summary>The file errors docs/network-language.md promises, one line each: no empty quote, no caret.</summary>
+    [Fact]
+    public void A_directory_or_an_empty_path_as_the_model_is_named_as_such_in_one_line()
+    {
+        using var scratch = new ScratchFolder();
+        var folder = scratch.File("models");
+        Directory.CreateDirectory(folder);
+        var run = CliRun.Of("inspect", folder);
+        Assert.Equal(2, run.ExitCode);
+        Assert.Equal($"{folder}:1:1: error: '{folder}' is a directory, not a model file\n1 error\n", run.Error.ReplaceLineEndings("\n"));
+        var empty = CliRun.Of("inspect", "");
+        Assert.Equal(2, empty.ExitCode);
+        Assert.Equal(":1:1: error: no model file given\n1 error\n", empty.Error.ReplaceLineEndings("\n"));
+    }
+
     [Fact]
     public void Merging_into_one_of_the_inputs_is_refused_even_with_force_and_the_shard_is_untouched()
     {
