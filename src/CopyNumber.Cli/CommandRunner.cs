@@ -1,5 +1,6 @@
 using System.CommandLine;
 using System.Text.RegularExpressions;
+using CopyNumber.Analysis;
 using CopyNumber.Language;
 using CopyNumber.Output;
 
@@ -48,6 +49,11 @@ internal static partial class CommandRunner
             return ExitCodes.BadInput;
         }
         catch (RunFolderException e)
+        {
+            error.WriteLine($"error: {e.Message}");
+            return ExitCodes.BadInput;
+        }
+        catch (AnalysisInputException e)
         {
             error.WriteLine($"error: {e.Message}");
             return ExitCodes.BadInput;

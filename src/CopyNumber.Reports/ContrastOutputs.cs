@@ -15,6 +15,7 @@ public static class ContrastOutputs
         string folder, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity)
     {
         var run = RunFolder.Read(folder);
+        ContrastReport.CheckChoices(run.Quantities.Select(q => q.Name).ToList(), run.Times[^1], histogramTimes, heatmapQuantity);
         var contrast = RunContrast.Compute(run, thresholds);
         var metadata = Provenance.For(run.Manifest.ModelFile, run.ModelText,
             new Dictionary<string, string> { ["command"] = "contrast", ["z"] = thresholds.Z.ToString("R", System.Globalization.CultureInfo.InvariantCulture) },

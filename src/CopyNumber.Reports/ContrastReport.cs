@@ -96,6 +96,26 @@ public static class ContrastReport
         return new Report($"CopyNumber contrast: {Path.GetFileNameWithoutExtension(run.Manifest.ModelFile)}", cautions, sections);
     }
 
+    /// <summary>
+    /// Refuses figure choices the run cannot honour, before anything is computed: a heatmap quantity that is
+    /// neither a species nor a readout, a histogram time outside [0, T]. Silently drawing something else
+    /// (the nearest grid time, no heatmap) would answer a question that was not asked.
+    /// </summary>
+    /// <param name="quantities">The run's species and readouts.</param>
+    /// <param name="until">The final time T of the run's grid, model time units.</param>
+    /// <param name="histogramTimes">The requested histogram times.</param>
+    /// <param name="heatmapQuantity">The requested heatmap quantity, or null for the default.</param>
+    /// <exception cref="AnalysisInputException">A choice names a quantity or time the run does not have.</exception>
+    public static void CheckChoices(IReadOnlyCollection<string> quantities, double until, IReadOnlyList<double> histogramTimes, string? heatmapQuantity)
+    {
+        if (heatmapQuantity is not null && !quantities.Contains(heatmapQuantity, StringComparer.Ordinal))
+            throw new AnalysisInputException($"--heatmap '{heatmapQuantity}' is not a species or readout of the model; it has {string.Join(", ", quantities.Select(q => $"'{q}'"))}");
+        // The grid's own slack (TimeGrid) lets T itself be asked for despite rounding in its text.
+        foreach (var t in histogramTimes)
+            if (t > until * (1 + 1e-9))
+                throw new AnalysisInputException($"--at {Format(t)} is after the final time {Format(until)} of the run; histogram times lie in [0, {Format(until)}]");
+    }
+
     private static DistributionHeatmap? Heatmap(Output.RunFolder run, string quantity)
     {
         var times = run.Times;

@@ -1,5 +1,6 @@
 using System.CommandLine;
 using CopyNumber.Reports;
+using CopyNumber.Cli.Rendering;
 
 namespace CopyNumber.Cli.Commands;
 
@@ -18,13 +19,13 @@ internal static class ContrastCommand
             var thresholds = options.Thresholds(parsed);
             var times = options.Times(parsed);
             var dir = parsed.GetValue(folder)!;
-            if (!Directory.Exists(dir)) throw new UserInputException($"'{dir}' is not a folder written by simulate");
+            if (!Directory.Exists(dir)) throw new UserInputException($"'{Paths.Shown(dir)}' is not a folder written by simulate");
             if (!File.Exists(Path.Combine(dir, Output.SimulationRun.ManifestFile)))
-                throw new UserInputException($"'{dir}' has no {Output.SimulationRun.ManifestFile}: it is not a folder written by simulate");
+                throw new UserInputException($"'{Paths.Shown(dir)}' has no {Output.SimulationRun.ManifestFile}: it is not a folder written by simulate");
             var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap));
             var writer = parsed.InvocationConfiguration.Output;
             writer.Write(ContrastOptions.RenderVerdicts(contrast));
-            writer.WriteLine($"wrote {string.Join(", ", files)}");
+            writer.WriteLine($"wrote {Paths.Shown(files)}");
             return ExitCodes.Done;
         });
         return command;

@@ -61,6 +61,18 @@ internal sealed class ContrastOptions
         return times;
     }
 
+    /// <summary>
+    /// The histogram times and heatmap quantity, checked against the model before a run starts, so that a
+    /// misspelt --heatmap or an --at beyond --until is refused before the simulation rather than after it.
+    /// </summary>
+    public (IReadOnlyList<double> Times, string? Heatmap) Figures(ParseResult parsed, Network.ReactionNetwork network, double until)
+    {
+        var times = Times(parsed);
+        var heatmap = parsed.GetValue(Heatmap);
+        Reports.ContrastReport.CheckChoices([.. network.Species, .. network.Readouts.Select(r => r.Name)], until, times, heatmap);
+        return (times, heatmap);
+    }
+
     /// <summary>The verdict table printed at the end of contrast and simulate.</summary>
     public static string RenderVerdicts(RunContrastResult contrast)
     {

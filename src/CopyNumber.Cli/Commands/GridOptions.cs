@@ -1,4 +1,5 @@
 using System.CommandLine;
+using System.Globalization;
 using CopyNumber.Network;
 
 namespace CopyNumber.Cli.Commands;
@@ -34,13 +35,16 @@ internal sealed class GridOptions
         if (!(until > 0) || double.IsInfinity(until)) throw new UserInputException($"--until must be a positive, finite time (got {until})");
         if (!(every > 0) || double.IsInfinity(every)) throw new UserInputException($"--every must be a positive time (got {every})");
         if (every > until) throw new UserInputException($"--every ({every}) is larger than --until ({until}); the grid would hold only time 0");
-        var points = Math.Floor(until / every) + 2;
+        // Counted by the grid's own rule, so the number in the message is the number the grid would have.
+        var points = TimeGrid.PointCount(until, every);
         if (points > MaxPoints)
-            throw new UserInputException($"the grid would have {points:0} points (--until {until} / --every {every}); at most {MaxPoints} are allowed: choose a larger --every");
+            throw new UserInputException($"the grid would have {points.ToString("N0", CultureInfo.InvariantCulture)} points (--until {Plain(until)} / --every {Plain(every)}); at most {MaxPoints.ToString("N0", CultureInfo.InvariantCulture)} are allowed: choose a larger --every");
         return new TimeGrid(until, every);
 
         double Given(Option<double> option, double? fallback) =>
             parsed.GetResult(option) is { Implicit: false } || fallback is null && option.Required ? parsed.GetValue(option)
             : fallback ?? throw new UserInputException($"{option.Name} is required (or --resume DIR, which takes it from the stored run)");
     }
+
+    private static string Plain(double value) => value.ToString("R", CultureInfo.InvariantCulture);
 }

@@ -1,5 +1,6 @@
 using System.CommandLine;
 using CopyNumber.Output;
+using CopyNumber.Cli.Rendering;
 
 namespace CopyNumber.Cli.Commands;
 
@@ -28,16 +29,16 @@ internal static class MergeCommand
             var result = outcome.Ensemble;
             var folder = Path.GetDirectoryName(outcome.Files[^1])!;
             parsed.InvocationConfiguration.Output.WriteLine(
-                $"merged {inputs.Length} folder{(inputs.Length == 1 ? "" : "s")}: {result.ReplicatesFinished} of {result.ReplicatesRequested} replicates, {result.EventsFired} events; wrote {folder}");
+                $"merged {inputs.Length} folder{(inputs.Length == 1 ? "" : "s")}: {result.ReplicatesFinished} of {result.ReplicatesRequested} replicates, {result.EventsFired} events; wrote {Paths.Shown(folder)}");
             if (result.Interrupted)
                 parsed.InvocationConfiguration.Error.WriteLine(
-                    $"warning: blocks are missing ({result.FinishedBlocks.Count} of {result.TotalBlocks} finished); the merged summaries are marked partial. Merge the missing shards in later, or continue with 'copynumber simulate ... --resume {folder}'");
+                    $"warning: blocks are missing ({result.FinishedBlocks.Count} of {result.TotalBlocks} finished); the merged summaries are marked partial. Merge the missing shards in later, or continue with 'copynumber simulate ... --resume {Paths.Shown(folder)}'");
             else if (!parsed.GetValue(noContrast))
             {
                 // A complete merge is a whole run, so it gets the same contrast and report a whole run gets.
                 var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, parsed.GetValue(contrastOptions.Heatmap));
                 parsed.InvocationConfiguration.Output.Write(ContrastOptions.RenderVerdicts(contrast));
-                parsed.InvocationConfiguration.Output.WriteLine($"wrote {string.Join(", ", files.Select(Path.GetFileName))}");
+                parsed.InvocationConfiguration.Output.WriteLine($"wrote {Paths.Shown(files)}");
             }
             return ExitCodes.Done;
         });

@@ -69,7 +69,6 @@ internal static class SimulateCommand
 
             var timeGrid = grid.Read(parsed, stored?.Grid);
             var thresholds = contrastOptions.Thresholds(parsed);
-            var histogramTimes = contrastOptions.Times(parsed);
             var replicateCount = Pick(replicates, "replicates", t => (long?)long.Parse(t, CultureInfo.InvariantCulture))
                 ?? throw new UserInputException("--replicates is required (or --resume DIR, which takes it from the stored run)");
             if (replicateCount < 1) throw new UserInputException($"--replicates must be at least 1 (got {replicateCount})");
@@ -91,6 +90,7 @@ internal static class SimulateCommand
             var loaded = parsed.GetValue(model) is { } modelPath ? ModelArgument.Load(modelPath)
                 : stored is not null ? ModelArgument.LoadStored(stored)
                 : throw new UserInputException("simulate needs a MODEL file (or --resume DIR, which reads the stored model)");
+            var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, loaded.Network, timeGrid.Until);
             var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
             // A resumed run goes on with the method its stored blocks were made with (auto may have fallen back).
             if (stored is not null && Enum.TryParse<SimulationMethod>(stored.Manifest.Method, out var storedMethod) && storedMethod != simulationMethod)
@@ -143,8 +143,8 @@ internal static class SimulateCommand
             var shardText = runShard.IsWhole ? "" : $", shard {runShard}";
             var toRun = ShardReplicates(options) - (stored?.Manifest.ReplicatesFinished ?? 0);
             error.WriteLine(stored is null
-                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {MethodArgument.NameOf(simulationMethod)} ({methodReason}), seed {runSeed}, {threadCount} threads -> {folder}"
-                : $"resuming {loaded.Network.Name} in {folder}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {MethodArgument.NameOf(simulationMethod)}, seed {runSeed}, {threadCount} threads");
+                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {MethodArgument.NameOf(simulationMethod)} ({methodReason}), seed {runSeed}, {threadCount} threads -> {Paths.Shown(folder)}"
+                : $"resuming {loaded.Network.Name} in {Paths.Shown(folder)}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {MethodArgument.NameOf(simulationMethod)}, seed {runSeed}, {threadCount} threads");
             var monitor = new EnsembleMonitor();
             SimulationOutcome outcome;
             using (new ProgressDisplay(monitor, toRun, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
@@ -153,9 +153,9 @@ internal static class SimulateCommand
             // A shard is only part of a run: its contrast waits for the merged folder.
             if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && runShard.IsWhole && !parsed.GetValue(noContrast))
             {
-                var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, parsed.GetValue(contrastOptions.Heatmap));
+                var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap);
                 writer.Write("\n" + ContrastOptions.RenderVerdicts(contrast));
-                writer.WriteLine($"wrote {string.Join(", ", files.Select(Path.GetFileName))}");
+                writer.WriteLine($"wrote {Paths.Shown(files)}");
             }
             return code;
         });
@@ -216,10 +216,10 @@ internal static class SimulateCommand
         if (outcome.ValidationFailure is not null)
             error.WriteLine($"warning: the validation sample could not be run ({outcome.ValidationFailure}); the leaping error is not measured");
         writer.Write(RenderFinal(outcome));
-        writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {folder}");
+        writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {Paths.Shown(folder)}");
         if (result.ReplicatesStoppedEarly > 0)
             error.WriteLine($"warning: {result.ReplicatesStoppedEarly} replicates reached --max-events before the final time; they count at the times they reached and are missing from later ones (manifest: replicates_stopped_early)");
-        var partial = $"summaries cover the {result.ReplicatesFinished} replicates finished and are marked partial; continue with --resume {folder}";
+        var partial = $"summaries cover the {result.ReplicatesFinished} replicates finished and are marked partial; continue with --resume {Paths.Shown(folder)}";
         switch (outcome.StopReason)
         {
             case StopReason.Failed:

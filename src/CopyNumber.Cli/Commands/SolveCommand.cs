@@ -47,7 +47,7 @@ internal static class SolveCommand
                 DeterministicTable.Write(path, solution, Provenance.For(loaded.Path, loaded.Text, arguments, DateTimeOffset.UtcNow));
             }
             writer.Write(Render(solution));
-            if (path is not null) writer.WriteLine($"wrote {path}");
+            if (path is not null) writer.WriteLine($"wrote {Paths.Shown(path)}");
             return ExitCodes.Done;
         });
         return command;

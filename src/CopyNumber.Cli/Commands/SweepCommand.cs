@@ -8,6 +8,7 @@ using CopyNumber.Network;
 using CopyNumber.Output;
 using CopyNumber.Reports;
 using CopyNumber.Stochastic;
+using CopyNumber.Cli.Rendering;
 
 namespace CopyNumber.Cli.Commands;
 
@@ -51,11 +52,11 @@ internal static class SweepCommand
             var threadCount = parsed.GetValue(threads);
             if (threadCount < 1) throw new UserInputException($"--threads must be at least 1 (got {threadCount})");
             var thresholds = contrastOptions.Thresholds(parsed);
-            var histogramTimes = contrastOptions.Times(parsed);
             var chosen = parsed.GetValue(method)!;
             var runSeed = parsed.GetValue(seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
             var modelPath = parsed.GetValue(model)!;
             var baseModel = ModelArgument.Load(modelPath);
+            var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);
             var root = OutputFolder.CreateFresh(parsed.GetValue(output), baseModel.Network.Name + "-sweep", DateTimeOffset.Now, parsed.GetValue(force));
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
@@ -89,17 +90,17 @@ internal static class SweepCommand
                     Simulator = new SimulatorOptions(Epsilon: eps),
                     Threads = threadCount,
                 };
-                error.WriteLine($"size {size.ToString(CultureInfo.InvariantCulture)}: {replicateCount} replicates, {methodReason} -> {folder}");
+                error.WriteLine($"size {size.ToString(CultureInfo.InvariantCulture)}: {replicateCount} replicates, {methodReason} -> {Paths.Shown(folder)}");
                 var monitor = new EnsembleMonitor();
                 SimulationOutcome outcome;
                 using (new Rendering.ProgressDisplay(monitor, replicateCount, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
                     outcome = SimulationRun.Execute(new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, methodReason), monitor, session.Interrupt);
                 if (outcome.Ensemble.Interrupted)
                 {
-                    error.WriteLine($"interrupted during size {size}: the sizes finished so far are in {root}");
+                    error.WriteLine($"interrupted during size {size}: the sizes finished so far are in {Paths.Shown(root)}");
                     return ExitCodes.Interrupted;
                 }
-                var (contrast, _) = ContrastOutputs.Write(folder, thresholds, histogramTimes, parsed.GetValue(contrastOptions.Heatmap));
+                var (contrast, _) = ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap);
                 runs.Add((size, contrast));
             }
 
@@ -119,7 +120,7 @@ internal static class SweepCommand
             writer.Write(table.ToString());
             foreach (var (quantity, from) in sweep.AdequateFrom)
                 writer.WriteLine(from is { } f ? $"{quantity}: adequate from size {Rendering.Numbers.Format(f)} on" : $"{quantity}: not adequate at any size tried");
-            writer.WriteLine($"wrote {root}");
+            writer.WriteLine($"wrote {Paths.Shown(root)}");
             return ExitCodes.Done;
         });
         return command;

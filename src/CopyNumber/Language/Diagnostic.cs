@@ -12,13 +12,17 @@ public sealed record Diagnostic(string File, SourcePosition Position, string Mes
 {
     /// <summary>
     /// <c>file:line:col: error: message</c>, then the source line and a caret under the column
-    /// (a run of carets as long as <see cref="SourcePosition.Length"/>).
+    /// (a run of carets as long as <see cref="SourcePosition.Length"/>); only the first line when there is no
+    /// source line, as for a file that cannot be read.
     /// </summary>
     public string Format()
     {
+        var head = $"{File}:{Position.Line}:{Position.Column}: error: {Message}";
+        // A problem with the file as a whole (missing, a directory, too large) has no line to point into.
+        if (SourceLine.Length == 0) return head;
         var caretColumn = Math.Max(1, Position.Column);
         var expandedPrefix = new string(SourceLine.Take(caretColumn - 1).Select(c => c == '\t' ? '\t' : ' ').ToArray());
         var carets = new string('^', Math.Max(1, Position.Length));
-        return $"{File}:{Position.Line}:{Position.Column}: error: {Message}\n  {SourceLine}\n  {expandedPrefix}{carets}";
+        return $"{head}\n  {SourceLine}\n  {expandedPrefix}{carets}";
     }
 }

@@ -38,21 +38,31 @@ public static class ModelSource
     /// <param name="path">Path of the <c>.cnet</c> file; also the file name used in diagnostics.</param>
     public static ParseOutcome ReadFile(string path)
     {
-        string text;
+        var (text, problem) = ReadText(path);
+        return text is null ? new ParseOutcome(null, [problem!]) : Parse(text, path);
+    }
+
+    /// <summary>
+    /// The text of a model file, or the one diagnostic (at 1:1) that says why there is none: no path, a
+    /// directory, a missing file, or the system's reason it cannot be read. The runtime's own words for the
+    /// first three ("Access to the path … is denied", "The value cannot be an empty string") mislead.
+    /// </summary>
+    /// <param name="path">Path of the <c>.cnet</c> file; also the file name used in the diagnostic.</param>
+    public static (string? Text, Diagnostic? Problem) ReadText(string path)
+    {
         try
         {
             if (string.IsNullOrWhiteSpace(path)) return Unreadable(path ?? "", "no model file given");
             if (Directory.Exists(path)) return Unreadable(path, $"'{path}' is a directory, not a model file");
             if (!File.Exists(path)) return Unreadable(path, $"model file '{path}' not found");
-            text = File.ReadAllText(path);
+            return (File.ReadAllText(path), null);
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException or ArgumentException or NotSupportedException or System.Security.SecurityException)
         {
-            return Unreadable(path, $"cannot read model file '{path}': {e.Message}");
+            return Unreadable(path, $"cannot read model file '{path}': {e.Message.TrimEnd('.')}");
         }
-        return Parse(text, path);
     }
 
-    private static ParseOutcome Unreadable(string path, string message) =>
-        new(null, [new Diagnostic(path, new SourcePosition(1, 1), message, "")]);
+    private static (string? Text, Diagnostic? Problem) Unreadable(string path, string message) =>
+        (null, new Diagnostic(path, new SourcePosition(1, 1), message, ""));
 }

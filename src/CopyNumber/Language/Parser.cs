@@ -192,7 +192,7 @@ internal static class ModelParser
     }
 
     // The largest count held exactly by a double, so counts survive any later arithmetic unchanged.
-    private const double LargestCount = 9007199254740992; // 2^53
+    private const long LargestCount = 1L << 53;
 
     private static SpeciesDecl? ParseSpecies(LineParser line)
     {
@@ -219,9 +219,10 @@ internal static class ModelParser
             line.Fail(count.Position, $"initial count of '{name.Text}' must be a non-negative integer, found '{count.Text}'");
             return null;
         }
-        if (count.Number > LargestCount)
+        // The double the lexer made has already rounded 2^53 + 1 down to 2^53, so the digits decide.
+        if (!decimal.TryParse(count.Text, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var exact) || exact > LargestCount)
         {
-            line.Fail(count.Position, $"initial count of '{name.Text}' is too large (at most 2^53 = {LargestCount:0})");
+            line.Fail(count.Position, $"initial count of '{name.Text}' is too large (at most 2^53 = {LargestCount})");
             return null;
         }
         if (line.Peek().Kind != TokenKind.End)

@@ -18,16 +18,8 @@ public static class ModelLoader
     /// <summary>Reads, parses, checks and compiles a model file. Never throws for bad input.</summary>
     public static LoadOutcome Load(string path, CompileOptions? options = null)
     {
-        string text;
-        try
-        {
-            text = File.ReadAllText(path);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException or ArgumentException or NotSupportedException)
-        {
-            var why = e is FileNotFoundException or DirectoryNotFoundException ? "no such file" : e.Message;
-            return new LoadOutcome(null, [new Diagnostic(path, new SourcePosition(1, 1), $"cannot read the model file: {why}", "")]);
-        }
+        var (text, problem) = ModelSource.ReadText(path);
+        if (text is null) return new LoadOutcome(null, [problem!]);
         return LoadText(text, path, options);
     }
 

@@ -18,15 +18,26 @@ public sealed class TimeGrid
         if (!(every > 0) || every > until) throw new ArgumentOutOfRangeException(nameof(every), "the spacing must be positive and at most the final time");
         Until = until;
         Every = every;
-        // A relative slack of 1e-9 keeps T = 10, Δ = 0.1 at 101 points despite 10/0.1 = 99.999….
-        var whole = (long)Math.Floor(until / every * (1 + 1e-9));
-        var count = whole + 1;
-        var lastIsT = Math.Abs(whole * every - until) <= 1e-9 * until;
-        if (!lastIsT) count++;
+        var whole = WholeSteps(until, every);
+        var count = PointCount(until, every);
         _times = new double[count];
         for (var k = 0L; k <= whole; k++) _times[k] = k * every;
         _times[count - 1] = until;
     }
+
+    /// <summary>
+    /// The number of points the grid 0, <paramref name="every"/>, …, <paramref name="until"/> has, without
+    /// building it: the whole steps k·Δ ≤ T, plus T itself when it is not one of them.
+    /// </summary>
+    public static long PointCount(double until, double every)
+    {
+        var whole = WholeSteps(until, every);
+        var lastIsT = Math.Abs(whole * every - until) <= 1e-9 * until;
+        return lastIsT ? whole + 1 : whole + 2;
+    }
+
+    // A relative slack of 1e-9 keeps T = 10, Δ = 0.1 at 101 points despite 10/0.1 = 99.999….
+    private static long WholeSteps(double until, double every) => (long)Math.Floor(until / every * (1 + 1e-9));
 
     /// <summary>Final time T.</summary>
     public double Until { get; }

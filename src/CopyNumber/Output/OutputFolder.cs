@@ -84,6 +84,10 @@ public static class OutputFolder
 
     private static string Create(string full)
     {
+        // The runtime says only "Could not find a part of the path" when a parent is a file; name the file.
+        for (var parent = Path.GetDirectoryName(full); !string.IsNullOrEmpty(parent); parent = Path.GetDirectoryName(parent))
+            if (File.Exists(parent))
+                throw new OutputException($"The output folder '{full}' cannot be made: '{parent}' is a file, not a folder.", full, refused: true);
         try
         {
             Directory.CreateDirectory(full);

@@ -23,12 +23,15 @@ public static class RunMerge
 {
     /// <summary>Merges <paramref name="inputs"/> into the folder <paramref name="output"/>, which must be new or empty unless <paramref name="force"/> is set.</summary>
     /// <exception cref="RunFolderException">An input cannot be read, the inputs belong to different runs (model, grid, seed, method, …), or two hold the same block.</exception>
-    /// <exception cref="OutputException">A file could not be written.</exception>
+    /// <exception cref="OutputException">A file could not be written, or the output folder is one of the inputs.</exception>
     public static MergeOutcome Execute(IReadOnlyList<string> inputs, string output, bool force = false)
     {
         ArgumentNullException.ThrowIfNull(inputs);
         if (inputs.Count == 0) throw new ArgumentException("at least one run folder is needed", nameof(inputs));
         var runs = inputs.Select(StoredRun.Open).ToArray();
+        // With --force the output folder's files are replaced, so an input named as the output would lose its shard.
+        if (!string.IsNullOrWhiteSpace(output) && runs.FirstOrDefault(r => SameFolder(r.Folder, output)) is { } target)
+            throw new OutputException($"The output folder '{AtomicFile.FullPath(output)}' is one of the folders being merged ('{target.Folder}'); merging into it would overwrite that shard. Choose a new folder.", AtomicFile.FullPath(output), refused: true);
         var first = runs[0];
         foreach (var run in runs.Skip(1))
         {
@@ -121,4 +124,8 @@ public static class RunMerge
             throw new RunFolderException($"Cannot read '{path}': {e.Message.TrimEnd('.')}.", folder, e);
         }
     }
+
+    private static bool SameFolder(string a, string b) =>
+        string.Equals(Path.TrimEndingDirectorySeparator(AtomicFile.FullPath(a)), Path.TrimEndingDirectorySeparator(AtomicFile.FullPath(b)),
+            OperatingSystem.IsLinux() ? StringComparison.Ordinal : StringComparison.OrdinalIgnoreCase);
 }

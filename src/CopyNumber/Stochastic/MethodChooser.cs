@@ -98,5 +98,7 @@ public static class MethodChooser
     public static string LeapFormulas { get; } =
         $"each leap explicit while tau times the drift Jacobian's fastest rate is at most theta = {LeapFormulaRule.DefaultRelaxation.ToString(CultureInfo.InvariantCulture)}, trapezoidal (Cao & Petzold 2005) beyond it";
 
-    private static string Count(double value) => Math.Round(value).ToString("N0", CultureInfo.InvariantCulture);
+    // A rate-equation value a rounding error below zero rounds to −0, which "N0" prints as "-0"; adding
+    // +0.0 turns −0 into +0 (IEEE 754) and leaves every other value alone.
+    private static string Count(double value) => (Math.Round(value) + 0.0).ToString("N0", CultureInfo.InvariantCulture);
 }

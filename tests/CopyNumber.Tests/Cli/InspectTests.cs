@@ -74,6 +74,6 @@ public class InspectTests
     {
         var run = CliRun.Of("inspect", "/nonexistent/model.cnet");
         Assert.Equal(2, run.ExitCode);
-        Assert.Contains("cannot read the model file", run.Error);
+        Assert.Contains("model file '/nonexistent/model.cnet' not found", run.Error); // docs/network-language.md, file errors
     }
 }

@@ -35,11 +35,14 @@ public class BadArgumentTests
         { "simulate MODEL --until 5 --every 1 --replicates 10 --epsilon -0.2", ["--epsilon must lie in (0, 1)"] },
         { "simulate MODEL --until 5 --every 1 --replicates 10 --seed -1", ["-1", "expected a whole number"] },
         // model file
-        { "simulate MISSING --until 5 --every 1 --replicates 10", ["no such file"] },
+        { "simulate MISSING --until 5 --every 1 --replicates 10", ["model file", "missing.cnet' not found"] },
         { "simulate JUNK --until 5 --every 1 --replicates 10", ["junk.cnet:1:", "error"] },
-        { "simulate DIR --until 5 --every 1 --replicates 10", ["cannot read the model file"] },
+        { "simulate DIR --until 5 --every 1 --replicates 10", ["is a directory, not a model file"] },
+        { "inspect DIR", ["is a directory, not a model file"] },
+        { "simulate EMPTY --until 5 --every 1 --replicates 10", ["no model file given"] },
+        { "solve EMPTY --until 5 --every 1", ["no model file given"] },
         { "inspect JUNK", ["junk.cnet:1:", "error"] },
-        { "inspect MISSING", ["no such file"] },
+        { "inspect MISSING", ["model file", "missing.cnet' not found"] },
         // memory
         { "simulate WIDE --until 4000000 --every 1 --replicates 10", ["too fine", "larger --every"] },
         { "simulate MODEL --until 9000000 --every 1 --replicates 100000 --threads 1024", ["GB of memory", "fewer --threads"] },
@@ -61,6 +64,15 @@ public class BadArgumentTests
         { "simulate MODEL --until 5 --every 1 --replicates 10 --resume NOWHERE", ["does not exist"] },
         { "simulate MODEL --until 5 --every 1 --replicates 10 --resume DIR", ["manifest.json", "not a CopyNumber run folder"] },
         { "simulate MODEL --until 5 --every 1 --replicates 10 --frobnicate", ["--frobnicate"] },
+        // the grid count in the message is the grid's own: 10 / 1e-6 is 10 000 000 steps, so 10 000 001 points
+        // (0 and T included, docs/conventions.md)
+        { "simulate MODEL --until 10 --every 1e-6 --replicates 10", ["10,000,001 points", "at most 10,000,000"] },
+        // figure choices the run cannot honour are refused before it starts, not silently replaced
+        { "simulate MODEL --until 5 --every 1 --replicates 10 --heatmap nosuch", ["--heatmap 'nosuch'", "'X'"] },
+        { "simulate MODEL --until 5 --every 1 --replicates 10 --at 1e9", ["--at 1000000000", "final time 5"] },
+        { "simulate MODEL --until 5 --every 1 --replicates 10 --at 2,6", ["--at 6", "final time 5"] },
+        // an output folder under a file
+        { "simulate MODEL --until 5 --every 1 --replicates 10 --out FILE/sub", ["is a file, not a folder"] },
         // solve
         { "solve MODEL --until 0 --every 1", ["--until must be a positive"] },
         { "solve MODEL --until 5 --every 1 --rtol 2", ["--rtol must lie in (0, 1)"] },
@@ -96,6 +108,8 @@ public class BadArgumentTests
             "DIR" => folder,
             "NOWHERE" => scratch.File("nowhere"),
             "OUT" => scratch.File("out"),
+            "EMPTY" => "",
+            "FILE/sub" => Path.Combine(model, "sub"),
             _ => token,
         }).ToArray();
 
@@ -104,6 +118,8 @@ public class BadArgumentTests
         foreach (var word in words) Assert.Contains(word, run.Error);
         AssertNoStackTrace(run);
         Assert.DoesNotContain("System.", run.Error); // no .NET type names
+        Assert.DoesNotContain("(Parameter '", run.Error); // nor .NET argument names
+        Assert.DoesNotContain("part of the path", run.Error);
         Assert.False(Directory.Exists(scratch.File("out")));
     }
 }

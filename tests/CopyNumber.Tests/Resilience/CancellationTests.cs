@@ -11,8 +11,11 @@ public class CancellationTests
     public void A_replicate_that_runs_long_between_grid_points_is_left_behind_and_the_run_returns()
     {
         // Two states flipping 10^9 times per time unit, recorded only at 0 and 1000: one replicate needs
-        // about 2·10^12 events before its next grid point, far more than the event limit of 2·10^7 that
-        // bounds how long the left-behind thread keeps running (seconds at any realistic event rate).
+        // about 2·10^12 events before its next grid point, far more than the event limit of 10^8 that
+        // bounds how long the left-behind thread keeps running. The limit must outlast the cancellation
+        // (100 ms) plus EnsembleRunner.AbandonAfter (500 ms) at any event rate this engine reaches: 10^8
+        // events take over 1 s even at 80 M events/s (2·10^7 took under 0.6 s on a quiet machine at
+        // 35–40 M events/s, so the replicate finished before the runner gave up on it, and the test failed).
         var model = ModelLoader.LoadText("species\n  A = 1\n  B = 0\nreactions\n  there: A -> B mass 1e9\n  back: B -> A mass 1e9\n", "flip.cnet").Model!;
         var options = new EnsembleOptions
         {
@@ -20,7 +23,7 @@ public class CancellationTests
             Replicates = 10,
             Seed = 1,
             Threads = 1,
-            Simulator = new SimulatorOptions(MaxEvents: 20_000_000),
+            Simulator = new SimulatorOptions(MaxEvents: 100_000_000),
         };
         var monitor = new EnsembleMonitor();
         using var cancel = new CancellationTokenSource(TimeSpan.FromMilliseconds(100));

@@ -84,16 +84,16 @@ public partial class LimitTests
     }
 
     [Fact]
-    public void An_output_folder_that_cannot_be_created_gives_exit_1_and_leaves_nothing()
+    public void An_output_folder_under_a_file_is_bad_input_exit_2_and_leaves_nothing()
     {
         using var scratch = new ScratchFolder();
         var model = WriteModel(scratch);
-        // A regular file where a parent folder should be: refused by the file system even for root.
+        // A regular file where a parent folder should be: the user named an impossible folder (README, exit codes).
         var blocker = scratch.File("plain-file");
         File.WriteAllText(blocker, "");
         var run = CliRun.Of("simulate", model, "--until", "1", "--every", "0.5", "--replicates", "10", "--seed", "1", "--out", Path.Combine(blocker, "run"));
-        Assert.Equal(1, run.ExitCode);
-        Assert.Contains("Cannot create the output folder", run.Error);
+        Assert.Equal(2, run.ExitCode);
+        Assert.Contains($"'{blocker}' is a file, not a folder", run.Error);
         AssertNoStackTrace(run);
         Assert.Equal(["gene.cnet", "plain-file"], scratch.Entries());
     }
