@@ -31,6 +31,18 @@ public sealed class ContrastTests
     private static Func<Random, long> PoissonLaw(double mean) => r => mean == 0 ? 0 : Poisson.Sample(r, mean);
 
     [Fact]
+    public void AQuantityThatIsOneInEveryReplicateIsNotCalledAZeroOneQuantity()
+    {
+        // A conserved total of one gene copy (g_off + g_on = 1) is the constant 1: its histogram holds only 1,
+        // and an on/off statement with an occupancy would misdescribe it (common practice). A gene state that
+        // takes both values is one.
+        var constant = Series(4, 500, _ => _ => 1, _ => 1);
+        Assert.DoesNotContain("0/1 quantity", Assert.Single(Contrast.Analyze("copies", constant).Verdicts).Sentence);
+        var gene = Series(5, 500, t => t == 0 ? _ => 0 : r => r.NextDouble() < 0.5 ? 1 : 0, t => t == 0 ? 0 : 0.5);
+        Assert.Contains(Contrast.Analyze("g_on", gene).Verdicts, v => v.Sentence.Contains("0/1 quantity (only 0 and 1 are seen"));
+    }
+
+    [Fact]
     public void ThousandsOfPoissonCopiesAreAdequateWithNoFalseAlarm()
     {
         // Immigration–death at stationarity with α/μ = 5000: ensemble mean, rate equations and LNA agree.

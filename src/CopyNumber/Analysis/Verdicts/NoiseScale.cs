@@ -24,7 +24,7 @@ internal sealed record NoiseScale(NoiseScaleKind Kind, string Source, double Low
         if (zeroOneLaw is not null) return new NoiseScale(NoiseScaleKind.ZeroOne, $"bounded to 0 or 1 by the conservation law {zeroOneLaw}", 0, double.NaN);
         double lowest = double.PositiveInfinity, lowestAt = double.NaN;
         var onlyZeroOne = true;
-        var seenOne = false;
+        bool seenZero = false, seenOne = false;
         foreach (var p in points)
         {
             var low = p.Histogram is { } h ? h.Minimum : Math.Min(p.Minimum, p.Mean);
@@ -32,12 +32,14 @@ internal sealed record NoiseScale(NoiseScaleKind Kind, string Source, double Low
             if (p.Histogram is { } histogram)
             {
                 onlyZeroOne &= histogram.Minimum >= 0 && histogram.Maximum <= 1;
+                seenZero |= histogram.Minimum == 0;
                 seenOne |= histogram.Maximum == 1;
             }
             else onlyZeroOne = false;
         }
         if (lowest < 0) return new NoiseScale(NoiseScaleKind.Signed, $"takes negative values (down to {Number(lowest)} at t = {Time(lowestAt)})", lowest, lowestAt);
-        if (onlyZeroOne && seenOne) return new NoiseScale(NoiseScaleKind.ZeroOne, "only 0 and 1 are seen in any replicate", 0, double.NaN);
+        // Both values must occur: a quantity that is 1 in every replicate (a conserved total) is a constant, not an on/off state.
+        if (onlyZeroOne && seenZero && seenOne) return new NoiseScale(NoiseScaleKind.ZeroOne, "only 0 and 1 are seen in any replicate", 0, double.NaN);
         return new NoiseScale(NoiseScaleKind.Positive, "", lowest, lowestAt);
     }
 
