@@ -1,6 +1,6 @@
 using BenchmarkDotNet.Attributes;
 using CopyNumber.Network;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 
 namespace CopyNumber.Benchmarks;
 

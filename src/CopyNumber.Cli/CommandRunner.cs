@@ -2,7 +2,7 @@ using System.CommandLine;
 using System.Text.RegularExpressions;
 using CopyNumber.Analysis;
 using CopyNumber.Language;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 
 namespace CopyNumber.Cli;
 

@@ -1,5 +1,6 @@
+using CopyNumber.Runs;
 using CopyNumber.Analysis;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 
 namespace CopyNumber.Reports;
 

@@ -1,3 +1,4 @@
+using CopyNumber.Runs;
 using System.Globalization;
 using CopyNumber.Analysis;
 
@@ -116,7 +117,7 @@ public static class ContrastReport
                 throw new AnalysisInputException($"--at {Format(t)} is after the final time {Format(until)} of the run; histogram times lie in [0, {Format(until)}]");
     }
 
-    private static DistributionHeatmap? Heatmap(Output.RunFolder run, string quantity)
+    private static DistributionHeatmap? Heatmap(Storage.RunFolder run, string quantity)
     {
         var times = run.Times;
         long min = long.MaxValue, max = long.MinValue;

@@ -1,3 +1,4 @@
+using CopyNumber.Runs;
 using System.Globalization;
 using CopyNumber.Analysis;
 

@@ -1,6 +1,6 @@
 using System.Globalization;
 using System.Text.Json;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 
 namespace CopyNumber.Reports;
 

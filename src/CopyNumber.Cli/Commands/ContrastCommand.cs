@@ -20,8 +20,8 @@ internal static class ContrastCommand
             var times = options.Times(parsed);
             var dir = parsed.GetValue(folder)!;
             if (!Directory.Exists(dir)) throw new UserInputException($"'{Paths.Shown(dir)}' is not a folder written by simulate");
-            if (!File.Exists(Path.Combine(dir, Output.SimulationRun.ManifestFile)))
-                throw new UserInputException($"'{Paths.Shown(dir)}' has no {Output.SimulationRun.ManifestFile}: it is not a folder written by simulate");
+            if (!File.Exists(Path.Combine(dir, Storage.RunFiles.Manifest)))
+                throw new UserInputException($"'{Paths.Shown(dir)}' has no {Storage.RunFiles.Manifest}: it is not a folder written by simulate");
             var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap));
             var writer = parsed.InvocationConfiguration.Output;
             writer.Write(ContrastOptions.RenderVerdicts(contrast));

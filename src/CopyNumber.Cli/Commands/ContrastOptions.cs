@@ -1,3 +1,4 @@
+using CopyNumber.Runs;
 using System.CommandLine;
 using System.Globalization;
 using CopyNumber.Analysis;

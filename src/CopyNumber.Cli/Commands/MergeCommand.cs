@@ -1,5 +1,6 @@
+using CopyNumber.Runs;
 using System.CommandLine;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Cli.Rendering;
 
 namespace CopyNumber.Cli.Commands;

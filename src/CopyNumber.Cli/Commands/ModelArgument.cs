@@ -1,6 +1,6 @@
 using System.CommandLine;
 using CopyNumber.Network;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 
 namespace CopyNumber.Cli.Commands;
 

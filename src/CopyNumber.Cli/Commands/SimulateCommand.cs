@@ -1,10 +1,11 @@
+using CopyNumber.Runs;
 using System.CommandLine;
 using System.Globalization;
 using System.Security.Cryptography;
 using CopyNumber.Cli.Rendering;
 using CopyNumber.Deterministic;
 using CopyNumber.Ensembles;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Stochastic;
 
 namespace CopyNumber.Cli.Commands;

@@ -1,7 +1,7 @@
 using System.CommandLine;
 using CopyNumber.Cli.Rendering;
 using CopyNumber.Deterministic;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 
 namespace CopyNumber.Cli.Commands;
 

@@ -1,3 +1,4 @@
+using CopyNumber.Runs;
 using System.CommandLine;
 using System.Globalization;
 using System.Security.Cryptography;
@@ -5,7 +6,7 @@ using CopyNumber.Analysis;
 using CopyNumber.Deterministic;
 using CopyNumber.Ensembles;
 using CopyNumber.Network;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Reports;
 using CopyNumber.Stochastic;
 using CopyNumber.Cli.Rendering;

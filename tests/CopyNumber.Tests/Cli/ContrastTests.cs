@@ -1,5 +1,5 @@
 using System.Xml.Linq;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 
 namespace CopyNumber.Tests.Cli;
 

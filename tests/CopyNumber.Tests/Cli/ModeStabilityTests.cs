@@ -1,6 +1,7 @@
+using CopyNumber.Runs;
 using CopyNumber.Analysis;
-using CopyNumber.Output;
-using CopyNumber.Tests.Output;
+using CopyNumber.Storage;
+using CopyNumber.Tests.Storage;
 
 namespace CopyNumber.Tests.Cli;
 

@@ -1,5 +1,5 @@
-using CopyNumber.Output;
-using CopyNumber.Tests.Output;
+using CopyNumber.Storage;
+using CopyNumber.Tests.Storage;
 using CopyNumber.Tests.Resilience;
 
 namespace CopyNumber.Tests.Cli;
@@ -41,7 +41,7 @@ public sealed class ReadoutRangeTests
         // 10 × 900719925474099 = 9007199254740990 < 2^53 = 9007199254740992.
         var run = Run(scratch, "q = A * 900719925474099");
         Assert.Equal(0, run.ExitCode);
-        var moments = ParquetReadBack.Of(Path.Combine(scratch.File("run"), SimulationRun.MomentsFile));
+        var moments = ParquetReadBack.Of(Path.Combine(scratch.File("run"), RunFiles.Moments));
         var species = (string[])moments.Values[1];
         var rows = Enumerable.Range(0, species.Length).Where(r => species[r] == "q").ToArray();
         Assert.NotEmpty(rows);

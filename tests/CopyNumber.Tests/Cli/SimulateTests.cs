@@ -1,6 +1,6 @@
 using System.Text.Json;
-using CopyNumber.Output;
-using CopyNumber.Tests.Output;
+using CopyNumber.Storage;
+using CopyNumber.Tests.Storage;
 
 namespace CopyNumber.Tests.Cli;
 
@@ -29,7 +29,7 @@ public class SimulateTests
         var (run, folder) = Simulate(scratch, "run", "--method", method);
         Assert.Equal(0, run.ExitCode);
 
-        var moments = ParquetReadBack.Of(Path.Combine(folder, SimulationRun.MomentsFile));
+        var moments = ParquetReadBack.Of(Path.Combine(folder, RunFiles.Moments));
         Assert.Equal(["time", "species", "replicates", "mean", "variance", "std_error", "fano", "cv2", "min",
             "q05", "q25", "median", "q75", "q95", "max", "p_zero", "deterministic"], moments.Names);
         var time = (double[])moments.Values[0];
@@ -57,7 +57,7 @@ public class SimulateTests
 
         // Chi-square of the final-time histogram against the Poisson pmf, cells pooled to expected ≥ 5; the
         // 0.9999 quantile of chi-square with ≤ 20 degrees of freedom is below 50 (Abramowitz & Stegun 26.4).
-        var distributions = ParquetReadBack.Of(Path.Combine(folder, SimulationRun.DistributionsFile));
+        var distributions = ParquetReadBack.Of(Path.Combine(folder, RunFiles.Distributions));
         var dTime = (double[])distributions.Values[0];
         var dSpecies = (string[])distributions.Values[1];
         var count = (long[])distributions.Values[2];
@@ -80,7 +80,7 @@ public class SimulateTests
         var (two, folderTwo) = Simulate(scratch, "two", "--threads", "2", "--paths", "70");
         Assert.Equal(0, one.ExitCode);
         Assert.Equal(0, two.ExitCode);
-        foreach (var file in new[] { SimulationRun.MomentsFile, SimulationRun.DistributionsFile, SimulationRun.PathsFile })
+        foreach (var file in new[] { RunFiles.Moments, RunFiles.Distributions, RunFiles.Paths })
         {
             var a = ParquetReadBack.Of(Path.Combine(folderOne, file));
             var b = ParquetReadBack.Of(Path.Combine(folderTwo, file));
@@ -95,7 +95,7 @@ public class SimulateTests
                     Assert.True(Same(left.GetValue(i), right.GetValue(i)), $"{file} column {a.Names[c]} row {i}: {left.GetValue(i)} vs {right.GetValue(i)}");
             }
         }
-        var paths = ParquetReadBack.Of(Path.Combine(folderOne, SimulationRun.PathsFile));
+        var paths = ParquetReadBack.Of(Path.Combine(folderOne, RunFiles.Paths));
         Assert.Equal(["replicate", "time", "X"], paths.Names);
         Assert.Equal(70 * 11, paths.TotalRows);
         Assert.Equal(Enumerable.Range(0, 70).SelectMany(r => Enumerable.Repeat((long)r, 11)).ToArray(), (long[])paths.Values[0]);
@@ -107,7 +107,7 @@ public class SimulateTests
         using var scratch = new ScratchFolder();
         var (run, folder) = Simulate(scratch, "run");
         Assert.Equal(0, run.ExitCode);
-        using var manifest = JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, SimulationRun.ManifestFile)));
+        using var manifest = JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, RunFiles.Manifest)));
         var root = manifest.RootElement;
         Assert.Equal(11UL, root.GetProperty("seed").GetUInt64());
         Assert.Equal(4000, root.GetProperty("replicates_finished").GetInt64());
@@ -127,7 +127,7 @@ public class SimulateTests
         var folder = scratch.File("run");
         var run = CliRun.Of("simulate", model, "--until", "1", "--every", "0.5", "--replicates", "10", "--out", folder);
         Assert.Equal(0, run.ExitCode);
-        var seed = RunManifest.Read(Path.Combine(folder, SimulationRun.ManifestFile)).Seed;
+        var seed = RunManifest.Read(Path.Combine(folder, RunFiles.Manifest)).Seed;
         Assert.Contains($"seed {seed}", run.Error);
     }
 

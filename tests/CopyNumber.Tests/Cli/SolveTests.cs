@@ -1,6 +1,6 @@
 using CopyNumber.Deterministic;
 using CopyNumber.Network;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 
 namespace CopyNumber.Tests.Cli;
 

@@ -1,4 +1,4 @@
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 
 namespace CopyNumber.Tests.Cli;
 

@@ -1,6 +1,6 @@
 using System.Text.Json;
-using CopyNumber.Output;
-using CopyNumber.Tests.Output;
+using CopyNumber.Storage;
+using CopyNumber.Tests.Storage;
 
 namespace CopyNumber.Tests.Cli;
 
@@ -25,13 +25,13 @@ public sealed class ValidationSampleTests
 
     private static JsonElement Validation(string folder)
     {
-        using var document = JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, SimulationRun.ManifestFile)));
+        using var document = JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, RunFiles.Manifest)));
         return document.RootElement.GetProperty("validation").Clone();
     }
 
     private static string Method(string folder)
     {
-        using var document = JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, SimulationRun.ManifestFile)));
+        using var document = JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, RunFiles.Manifest)));
         return document.RootElement.GetProperty("method").GetString()!;
     }
 
@@ -58,9 +58,9 @@ public sealed class ValidationSampleTests
         Assert.Contains("validation sample: 1024 exact", run.Output);
         Assert.Contains("the method's error, not the model's", run.Output);
         // The same object is in the Parquet footers and the report.
-        var footer = ParquetReadBack.Of(Path.Combine(folder, SimulationRun.MomentsFile)).KeyValues;
+        var footer = ParquetReadBack.Of(Path.Combine(folder, RunFiles.Moments)).KeyValues;
         Assert.Contains("\"sample_replicates\":1024", footer["copynumber.validation"]);
-        Assert.True(File.Exists(Path.Combine(folder, SimulationRun.ValidationFile)));
+        Assert.True(File.Exists(Path.Combine(folder, RunFiles.Validation)));
         var report = File.ReadAllText(Path.Combine(folder, "report.md"));
         Assert.Contains("Tau-leaping error (validation sample)", report);
         Assert.Contains("the method's error, not the model's", report);
@@ -110,7 +110,7 @@ public sealed class ValidationSampleTests
         var validation = Validation(folder);
         Assert.Equal("outside_tolerance", validation.GetProperty("verdict").GetString());
         Assert.Equal("fell_back", validation.GetProperty("action").GetString());
-        var moments = ParquetReadBack.Of(Path.Combine(folder, SimulationRun.MomentsFile));
+        var moments = ParquetReadBack.Of(Path.Combine(folder, RunFiles.Moments));
         var time = (double[])moments.Values[0];
         var mean = (double[])moments.Values[3];
         var row = Array.IndexOf(time, 4.0);
@@ -131,15 +131,15 @@ public sealed class ValidationSampleTests
         var (first, firstFolder) = Simulate(scratch, ImmigrationDeath, "s1", [.. common, "--shard", "1/2"]);
         var (second, secondFolder) = Simulate(scratch, ImmigrationDeath, "s2", [.. common, "--shard", "2/2"]);
         Assert.All(new[] { one, two, first, second }, r => Assert.Equal(0, r.ExitCode));
-        Assert.False(File.Exists(Path.Combine(secondFolder, SimulationRun.ValidationFile)));
+        Assert.False(File.Exists(Path.Combine(secondFolder, RunFiles.Validation)));
         var merged = scratch.File("merged");
         Assert.Equal(0, CliRun.Of(["merge", secondFolder, firstFolder, "--out", merged]).ExitCode);
 
         string[] exactColumns = ["exact_replicates", "exact_mean", "exact_variance", "exact_fourth_central", "mean_lower", "mean_upper", "sd_lower", "sd_upper"];
-        var reference = ParquetReadBack.Of(Path.Combine(oneFolder, SimulationRun.ValidationFile));
+        var reference = ParquetReadBack.Of(Path.Combine(oneFolder, RunFiles.Validation));
         foreach (var folder in new[] { twoFolder, merged })
         {
-            var other = ParquetReadBack.Of(Path.Combine(folder, SimulationRun.ValidationFile));
+            var other = ParquetReadBack.Of(Path.Combine(folder, RunFiles.Validation));
             foreach (var column in exactColumns)
             {
                 var c = Array.IndexOf(reference.Names, column);

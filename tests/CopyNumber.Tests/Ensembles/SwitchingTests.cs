@@ -1,11 +1,11 @@
 using System.Text.Json;
 using CopyNumber.Ensembles;
 using CopyNumber.Network;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Stochastic;
 using CopyNumber.Tests.Analysis;
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 using CopyNumber.Tests.Stochastic;
 
 namespace CopyNumber.Tests.Ensembles;

@@ -1,5 +1,5 @@
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 using static CopyNumber.Tests.Resilience.RunFolders;
 
 namespace CopyNumber.Tests.Resilience;

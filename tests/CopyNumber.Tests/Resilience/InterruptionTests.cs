@@ -1,8 +1,8 @@
 using System.Diagnostics;
 using CopyNumber.Cli;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 using static CopyNumber.Tests.Resilience.RunFolders;
 
 namespace CopyNumber.Tests.Resilience;
@@ -55,11 +55,11 @@ public class InterruptionTests
         Assert.Equal("interrupted", manifest.ExtraText(ManifestFields.StopReason));
         Assert.InRange(manifest.ReplicatesFinished, 0, 50000 - 64);
         Assert.Equal(0, manifest.ReplicatesFinished % 64);
-        var moments = ParquetReadBack.Of(Path.Combine(interrupted, SimulationRun.MomentsFile));
+        var moments = ParquetReadBack.Of(Path.Combine(interrupted, RunFiles.Moments));
         Assert.Equal("true", moments.KeyValues["copynumber.partial"]);
         Assert.Equal(manifest.ReplicatesFinished.ToString(), moments.KeyValues["copynumber.replicates_finished"]);
         // Every finished replicate is recorded at time 0, so the frequencies there add up to the replicates finished.
-        var distributions = ParquetReadBack.Of(Path.Combine(interrupted, SimulationRun.DistributionsFile));
+        var distributions = ParquetReadBack.Of(Path.Combine(interrupted, RunFiles.Distributions));
         Assert.Equal("frequency", distributions.Names[4]);
         var atZero = 0L;
         if (distributions.TotalRows > 0)

@@ -1,8 +1,8 @@
 using System.Text.RegularExpressions;
 using CopyNumber.Ensembles;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 using static CopyNumber.Tests.Resilience.RunFolders;
 
 namespace CopyNumber.Tests.Resilience;
@@ -36,7 +36,7 @@ public partial class LimitTests
         Assert.True(manifest.Partial);
         Assert.Equal("wall_limit", manifest.ExtraText(ManifestFields.StopReason));
         Assert.InRange(manifest.ReplicatesFinished, 0, 1000000 - 64);
-        Assert.Equal("true", ParquetReadBack.Of(Path.Combine(folder, SimulationRun.DistributionsFile)).KeyValues["copynumber.partial"]);
+        Assert.Equal("true", ParquetReadBack.Of(Path.Combine(folder, RunFiles.Distributions)).KeyValues["copynumber.partial"]);
     }
 
     [Fact]
@@ -54,7 +54,7 @@ public partial class LimitTests
         Assert.Contains($"warning: {early} replicates reached --max-events", run.Error);
         // A replicate stopped at the limit records the grid times before its last event and none after,
         // so it is missing at the final time: there the replicates counted are 500 minus those stopped.
-        var moments = ParquetReadBack.Of(Path.Combine(folder, SimulationRun.MomentsFile));
+        var moments = ParquetReadBack.Of(Path.Combine(folder, RunFiles.Moments));
         var time = (double[])moments.Values[0];
         var species = (string[])moments.Values[1];
         var replicates = (long[])moments.Values[2];
@@ -79,7 +79,7 @@ public partial class LimitTests
         Assert.Equal(["notes.txt"], Directory.GetFiles(folder).Select(Path.GetFileName));
         var forced = CliRun.Of("simulate", model, "--until", "1", "--every", "0.5", "--replicates", "10", "--seed", "1", "--out", folder, "--force");
         Assert.Equal(0, forced.ExitCode);
-        Assert.True(File.Exists(Path.Combine(folder, SimulationRun.ManifestFile)));
+        Assert.True(File.Exists(Path.Combine(folder, RunFiles.Manifest)));
         Assert.Equal("mine", File.ReadAllText(Path.Combine(folder, "notes.txt")));
     }
 
@@ -121,7 +121,7 @@ public partial class LimitTests
         Assert.Contains($"replicate {replicate} failed", manifest.ExtraText(ManifestFields.Failure));
         Assert.Equal(failingBlock == 0 ? "" : failingBlock == 1 ? "0" : $"0-{failingBlock - 1}", manifest.ExtraText(ManifestFields.FinishedBlocks));
         Assert.Equal(64 * failingBlock, manifest.ReplicatesFinished);
-        var moments = ParquetReadBack.Of(Path.Combine(folder, SimulationRun.MomentsFile));
+        var moments = ParquetReadBack.Of(Path.Combine(folder, RunFiles.Moments));
         Assert.All((long[])moments.Values[2], n => Assert.Equal(64 * failingBlock, n));
 
         // The streams are fixed by the seed: resuming meets the same replicate again.

@@ -1,8 +1,8 @@
 using System.Security.Cryptography;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Reports;
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 using static CopyNumber.Tests.Resilience.RunFolders;
 
 namespace CopyNumber.Tests.Resilience;

@@ -1,10 +1,11 @@
+using CopyNumber.Runs;
 using System.Globalization;
 using CopyNumber.Deterministic;
 using CopyNumber.Ensembles;
 using CopyNumber.Network;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 using static CopyNumber.Tests.Resilience.RunFolders;
 
 namespace CopyNumber.Tests.Resilience;
@@ -38,13 +39,13 @@ public class ResumeTests
         Assert.Equal("interrupted", manifest.ExtraText(ManifestFields.StopReason));
         Assert.InRange(manifest.ReplicatesFinished, 64L * (threads == 1 ? cancelAfterBlocks : 1), Replicates - 1);
         Assert.Equal(0, manifest.ReplicatesFinished % 64);
-        Assert.Equal("true", ParquetReadBack.Of(Path.Combine(resumed, SimulationRun.MomentsFile)).KeyValues["copynumber.partial"]);
+        Assert.Equal("true", ParquetReadBack.Of(Path.Combine(resumed, RunFiles.Moments)).KeyValues["copynumber.partial"]);
         if (threads == 1) Assert.Equal("0-4", manifest.ExtraText(ManifestFields.FinishedBlocks));
 
         var outcome = Run(model, resumed, threads, resume: true, CancellationToken.None);
         Assert.Equal(StopReason.Finished, outcome.StopReason);
         Assert.Equal(manifest.ReplicatesFinished, outcome.ReplicatesResumed);
-        foreach (var file in ResultFiles.Append(SimulationRun.PathsFile)) AssertSameCells(whole, resumed, file);
+        foreach (var file in ResultFiles.Append(RunFiles.Paths)) AssertSameCells(whole, resumed, file);
         Assert.Equal(Manifest(whole).EventsFired, Manifest(resumed).EventsFired);
         Assert.False(Manifest(resumed).Partial);
         Assert.Empty(Directory.GetFiles(resumed, "*" + AtomicFile.PartialMarker + "*"));
@@ -65,7 +66,7 @@ public class ResumeTests
             Run(model, folder, 1, resume: true, second.Token, block => { if (block == 9) second.Cancel(); });
         Assert.Equal("0-9", Manifest(folder).ExtraText(ManifestFields.FinishedBlocks));
         Run(model, folder, 2, resume: true, CancellationToken.None);
-        foreach (var file in ResultFiles.Append(SimulationRun.PathsFile)) AssertSameCells(whole, folder, file);
+        foreach (var file in ResultFiles.Append(RunFiles.Paths)) AssertSameCells(whole, folder, file);
     }
 
     [Fact]
@@ -136,7 +137,7 @@ public class ResumeTests
         Assert.Contains("method direct", resumed.Error);
         Assert.DoesNotContain("method auto", resumed.Error);
         Assert.False(Manifest(folder).Partial);
-        foreach (var file in ResultFiles.Append(SimulationRun.PathsFile)) AssertSameCells(whole, folder, file);
+        foreach (var file in ResultFiles.Append(RunFiles.Paths)) AssertSameCells(whole, folder, file);
 
         // Without --resume the options are still required, with a message rather than a stack trace.
         var bare = CliRun.Of(["simulate", "--until", "5", "--every", "0.5"]);
@@ -158,7 +159,7 @@ public class ResumeTests
         using (var cancel = new CancellationTokenSource())
             Run(model, b, 1, resume: false, cancel.Token, block => { if (block == 3) cancel.Cancel(); });
         // As if a resumption had replaced the distributions and then died before its manifest.
-        File.Copy(Path.Combine(b, SimulationRun.DistributionsFile), Path.Combine(a, SimulationRun.DistributionsFile), overwrite: true);
+        File.Copy(Path.Combine(b, RunFiles.Distributions), Path.Combine(a, RunFiles.Distributions), overwrite: true);
         var run = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", a]);
         Assert.Equal(2, run.ExitCode);
         Assert.Contains("holds blocks 0-3 but the manifest", run.Error);

@@ -1,7 +1,7 @@
 using System.Text.Json;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 
 namespace CopyNumber.Tests.Resilience;
 
@@ -22,7 +22,7 @@ internal static class RunFolders
 
     /// <summary>The files whose every cell must agree between two runs of the same replicates.</summary>
     public static readonly string[] ResultFiles =
-        [SimulationRun.MomentsFile, SimulationRun.DistributionsFile, SimulationRun.ReadoutStateFile, SimulationRun.DeterministicFile];
+        [RunFiles.Moments, RunFiles.Distributions, RunFiles.ReadoutState, RunFiles.Deterministic];
 
     public static string WriteModel(ScratchFolder scratch, string text = BurstyGene, string name = "gene.cnet")
     {
@@ -35,10 +35,10 @@ internal static class RunFolders
     public static string[] Simulate(string model, long replicates, int seed, params string[] extra) =>
         ["simulate", model, "--until", "5", "--every", "0.5", "--replicates", replicates.ToString(), "--seed", seed.ToString(), .. extra];
 
-    public static RunManifest Manifest(string folder) => RunManifest.Read(Path.Combine(folder, SimulationRun.ManifestFile));
+    public static RunManifest Manifest(string folder) => RunManifest.Read(Path.Combine(folder, RunFiles.Manifest));
 
     public static JsonElement ManifestJson(string folder) =>
-        JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, SimulationRun.ManifestFile))).RootElement.Clone();
+        JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, RunFiles.Manifest))).RootElement.Clone();
 
     /// <summary>
     /// Asserts that <paramref name="file"/> holds the same columns and, cell by cell, the same values in

@@ -1,7 +1,7 @@
 using CopyNumber.Ensembles;
-using CopyNumber.Output;
+using CopyNumber.Storage;
 using CopyNumber.Tests.Cli;
-using CopyNumber.Tests.Output;
+using CopyNumber.Tests.Storage;
 using static CopyNumber.Tests.Resilience.RunFolders;
 
 namespace CopyNumber.Tests.Resilience;
@@ -57,7 +57,7 @@ public class ShardTests
         var merged = scratch.File("merged");
         var merge = CliRun.Of(["merge", shards[2], shards[0], shards[1], "--out", merged]);
         Assert.Equal(0, merge.ExitCode);
-        foreach (var file in ResultFiles.Append(SimulationRun.PathsFile)) AssertSameCells(whole, merged, file);
+        foreach (var file in ResultFiles.Append(RunFiles.Paths)) AssertSameCells(whole, merged, file);
         var manifest = Manifest(merged);
         Assert.False(manifest.Partial);
         Assert.Equal(1000, manifest.ReplicatesFinished);

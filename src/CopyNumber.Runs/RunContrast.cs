@@ -1,0 +1,88 @@
+using CopyNumber.Analysis;
+using System.Globalization;
+using CopyNumber.Analysis.Verdicts;
+using CopyNumber.Deterministic;
+using CopyNumber.Network;
+using CopyNumber.Storage;
+
+namespace CopyNumber.Runs;
+
+/// <summary>The contrast of one simulate run: every quantity's verdicts and the expansion it was set against.</summary>
+/// <param name="Run">The run folder read back.</param>
+/// <param name="Network">The network recompiled from the run's own model text.</param>
+/// <param name="Quantities">One contrast per species and readout, in table order.</param>
+/// <param name="Expansion">The LNA variance and EMRE mean along the rate equations, or null when they could not be computed.</param>
+/// <param name="ExpansionFailure">Why the expansion is missing, if it is.</param>
+public sealed record RunContrastResult(
+    RunFolder Run,
+    ReactionNetwork Network,
+    IReadOnlyList<QuantityContrast> Quantities,
+    SystemSizeExpansionSolution? Expansion,
+    string? ExpansionFailure);
+
+/// <summary>
+/// Sets a finished run against its deterministic descriptions: recompiles the model from the text
+/// stored with the run, solves the rate equations with the linear noise approximation and the
+/// first-order mean correction on the run's grid, and contrasts every quantity, reading each count
+/// quantity's histograms on the lattice its reactions and schedule allow (<see cref="QuantityLattice"/>).
+/// </summary>
+public static class RunContrast
+{
+    /// <summary>Computes the contrast of <paramref name="run"/>.</summary>
+    /// <exception cref="OutputException">The run folder lacks what a contrast needs (grid, model).</exception>
+    public static RunContrastResult Compute(RunFolder run, ContrastThresholds? thresholds = null, SolverOptions? solver = null)
+    {
+        var manifest = run.Manifest;
+        CompileOptions? options = manifest.Arguments.TryGetValue("size", out var sizeText) && double.TryParse(sizeText, NumberStyles.Float, CultureInfo.InvariantCulture, out var size)
+            ? new CompileOptions(SizeOverride: size)
+            : null;
+        var loaded = ModelLoader.LoadText(run.ModelText, manifest.ModelFile, options);
+        if (loaded.Model is null)
+            throw new OutputException($"the model stored with '{run.Path}' no longer compiles: {loaded.Diagnostics[0].Format()}", run.Path);
+        var network = loaded.Model.Network;
+        var grid = new TimeGrid(ReadArgument(run, "until"), ReadArgument(run, "every"));
+        if (grid.Count != run.Times.Length)
+            throw new OutputException($"the grid in '{run.Path}/manifest.json' has {grid.Count} points but the tables have {run.Times.Length}", run.Path);
+
+        SystemSizeExpansionSolution? expansion = null;
+        string? failure = null;
+        try
+        {
+            expansion = EffectiveMesoscopicRateEquations.Solve(network, grid, solver ?? new SolverOptions());
+        }
+        catch (Exception e) when (e is SolverFailureException or AnalysisInputException or ArithmeticException)
+        {
+            failure = e.Message;
+        }
+
+        var zeroOne = ZeroOneSpecies.Of(network);
+        var switching = SwitchingJson.Read(manifest, network, grid.Until).Where(x => x.Replicates > 0).ToDictionary(x => x.Species);
+        var contrasts = new List<QuantityContrast>();
+        foreach (var series in run.Quantities)
+        {
+            var column = expansion?.ColumnIndex(series.Name) ?? -1;
+            var points = new List<ContrastPoint>(run.Times.Length);
+            for (var k = 0; k < run.Times.Length; k++)
+            {
+                if (series.Replicates[k] < 1) break; // replicates stopped early leave later times empty
+                var (counts, probabilities) = run.Distribution(series.Name, k);
+                var histogram = counts.Length > 0 ? CountDistribution.FromProbabilities(counts, probabilities, series.Replicates[k]) : null;
+                var deterministic = double.IsNaN(series.Deterministic[k]) && column >= 0 ? expansion!.RateEquationValue(k, column) : series.Deterministic[k];
+                points.Add(new ContrastPoint(run.Times[k], series.Replicates[k], series.Mean[k], series.Variance[k], series.StandardError[k],
+                    series.ZeroFraction[k], histogram, deterministic,
+                    column >= 0 ? expansion!.Variance(k, column) : double.NaN,
+                    column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN));
+            }
+            // The switches are counted over the whole run [0, T]: they belong to the final grid time, when the run reached it.
+            if (points.Count > 0 && points[^1].Time == grid.Until && switching.TryGetValue(series.Name, out var switches))
+                points[^1] = points[^1] with { SwitchesPerReplicate = switches.Mean };
+            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name)));
+        }
+        return new RunContrastResult(run, network, contrasts, expansion, failure);
+    }
+
+    private static double ReadArgument(RunFolder run, string name) =>
+        run.Manifest.Arguments.TryGetValue(name, out var text) && double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var value)
+            ? value
+            : throw new OutputException($"'{run.Path}/manifest.json' does not record --{name}", run.Path);
+}

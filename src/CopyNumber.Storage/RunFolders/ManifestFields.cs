@@ -1,0 +1,58 @@
+namespace CopyNumber.Storage;
+
+/// <summary>
+/// The names of the manifest fields beyond <see cref="RunManifest"/>'s fixed ones, and of the
+/// argument keys, written by <c>simulate</c> and <c>merge</c> and read back to resume and merge runs.
+/// </summary>
+public static class ManifestFields
+{
+    /// <summary>Replicates per block (int).</summary>
+    public const string BlockSize = "block_size";
+
+    /// <summary>B, the blocks of the whole run (int).</summary>
+    public const string TotalBlocks = "total_blocks";
+
+    /// <summary>The finished blocks as ranges, e.g. "0-41,43" (see <see cref="Ensembles.BlockRanges"/>).</summary>
+    public const string FinishedBlocks = "finished_blocks";
+
+    /// <summary>Grid points (int).</summary>
+    public const string GridPoints = "grid_points";
+
+    /// <summary>Replicates that reached the event limit before the final time (int).</summary>
+    public const string StoppedEarly = "replicates_stopped_early";
+
+    /// <summary>Why the run ended: finished, interrupted, wall_limit or failed (see <see cref="StopReason"/>).</summary>
+    public const string StopReason = "stop_reason";
+
+    /// <summary>The message of the replicate failure that stopped the run, when one did.</summary>
+    public const string Failure = "failure";
+
+    /// <summary>Why the simulation method was chosen.</summary>
+    public const string MethodReason = "method_reason";
+
+    /// <summary>Why the rate equations could not be solved, when they could not.</summary>
+    public const string DeterministicFailure = "deterministic_failure";
+
+    /// <summary>
+    /// Switches per replicate of each two-state species over [0, T] (array of objects, one per species:
+    /// species, over, replicates, excluded_replicates, mean, variance, std_error, mean_rate, switches_sum,
+    /// switches_sum_of_squares; see <see cref="Ensembles.SwitchingStatistics"/>). The integer sums are read
+    /// back to resume and merge runs exactly.
+    /// </summary>
+    public const string Switching = "switching";
+
+    /// <summary>The folders a merged run was made from (array of full paths).</summary>
+    public const string MergedFrom = "merged_from";
+
+    /// <summary>
+    /// The validation sample of a tau-leaping run (object; see <see cref="ValidationManifest"/>); also the
+    /// footer key (after <see cref="Provenance.KeyPrefix"/>) of the same JSON in the summary tables.
+    /// </summary>
+    public const string Validation = "validation";
+
+    /// <summary>Argument key of the shard, "i/n" ("1/1" for a whole run).</summary>
+    public const string ShardArgument = "shard";
+
+    /// <summary>Argument key of the command that made the folder.</summary>
+    public const string CommandArgument = "command";
+}

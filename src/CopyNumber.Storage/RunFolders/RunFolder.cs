@@ -1,0 +1,158 @@
+namespace CopyNumber.Storage;
+
+/// <summary>The per-time statistics of one species or readout, read from <c>moments.parquet</c>; arrays run over the grid.</summary>
+/// <param name="Name">Species or readout name.</param>
+/// <param name="Replicates">Replicates recorded at each time.</param>
+/// <param name="Mean">Ensemble mean.</param>
+/// <param name="Variance">Unbiased ensemble variance.</param>
+/// <param name="StandardError">Standard error of the mean.</param>
+/// <param name="Quantile05">5% quantile (NaN for real-valued readouts).</param>
+/// <param name="Quantile95">95% quantile (NaN for real-valued readouts).</param>
+/// <param name="ZeroFraction">P(count = 0) (NaN for real-valued readouts).</param>
+/// <param name="Deterministic">Rate-equation value (NaN when it could not be computed).</param>
+public sealed record QuantitySeries(
+    string Name,
+    long[] Replicates,
+    double[] Mean,
+    double[] Variance,
+    double[] StandardError,
+    double[] Quantile05,
+    double[] Quantile95,
+    double[] ZeroFraction,
+    double[] Deterministic);
+
+/// <summary>
+/// A finished <c>simulate</c> folder read back: the manifest, the model text it ran (from the tables'
+/// provenance), the moments per quantity, the exact distributions and, when written, sample paths.
+/// </summary>
+public sealed class RunFolder
+{
+    private readonly Dictionary<(string Quantity, int TimeIndex), (long[] Counts, double[] Probabilities)> _distributions;
+    private readonly PathColumns? _paths;
+
+    /// <summary>The columns of paths.parquet, read once.</summary>
+    private sealed record PathColumns(long[] Replicate, double[] Time, IReadOnlyDictionary<string, long[]> Species);
+
+    private RunFolder(string path, RunManifest manifest, string modelText, double[] times, IReadOnlyList<QuantitySeries> quantities,
+        Dictionary<(string, int), (long[], double[])> distributions, PathColumns? paths)
+    {
+        Path = path;
+        Manifest = manifest;
+        ModelText = modelText;
+        Times = times;
+        Quantities = quantities;
+        _distributions = distributions;
+        _paths = paths;
+    }
+
+    /// <summary>The folder.</summary>
+    public string Path { get; }
+
+    /// <summary>manifest.json.</summary>
+    public RunManifest Manifest { get; }
+
+    /// <summary>The exact model text that was simulated.</summary>
+    public string ModelText { get; }
+
+    /// <summary>Grid times.</summary>
+    public double[] Times { get; }
+
+    /// <summary>Species then readouts, in the order of the tables.</summary>
+    public IReadOnlyList<QuantitySeries> Quantities { get; }
+
+    /// <summary>True when paths.parquet exists.</summary>
+    public bool HasPaths => _paths is not null;
+
+    /// <summary>The exact distribution of a count quantity at grid point <paramref name="timeIndex"/>; empty when it has none.</summary>
+    public (long[] Counts, double[] Probabilities) Distribution(string quantity, int timeIndex) =>
+        _distributions.TryGetValue((quantity, timeIndex), out var d) ? d : ([], []);
+
+    /// <summary>Up to <paramref name="count"/> sample paths of a species, each aligned with <see cref="Times"/> (NaN where not recorded).</summary>
+    public IReadOnlyList<double[]> SamplePaths(string species, int count)
+    {
+        if (_paths is null || !_paths.Species.TryGetValue(species, out var values)) return [];
+        var replicate = _paths.Replicate;
+        var time = _paths.Time;
+        var index = Times.Select((t, k) => (t, k)).ToDictionary(p => p.t, p => p.k);
+        var result = new List<double[]>();
+        var current = -1L;
+        double[]? path = null;
+        for (var row = 0; row < replicate.Length; row++)
+        {
+            if (replicate[row] != current)
+            {
+                if (result.Count == count) break;
+                current = replicate[row];
+                path = Enumerable.Repeat(double.NaN, Times.Length).ToArray();
+                result.Add(path);
+            }
+            if (index.TryGetValue(time[row], out var k)) path![k] = values[row];
+        }
+        return result;
+    }
+
+    /// <summary>Reads a run folder.</summary>
+    /// <exception cref="OutputException">A file is missing or unreadable.</exception>
+    public static RunFolder Read(string folder)
+    {
+        if (!Directory.Exists(folder)) throw new OutputException($"'{folder}' is not a folder", folder);
+        var manifest = RunManifest.Read(System.IO.Path.Combine(folder, RunFiles.Manifest));
+        using var moments = ParquetTableReader.Open(System.IO.Path.Combine(folder, RunFiles.Moments));
+        if (!moments.Metadata.TryGetValue(Provenance.ModelTextKey, out var modelText))
+            throw new OutputException($"'{folder}/{RunFiles.Moments}' carries no model text in its metadata", folder);
+
+        var time = moments.Doubles("time");
+        var name = moments.Strings("species");
+        var times = time.Distinct().ToArray();
+        var timeIndex = times.Select((t, k) => (t, k)).ToDictionary(p => p.t, p => p.k);
+        var names = name.Distinct().ToArray();
+        var columns = new[] { "mean", "variance", "std_error", "q05", "q95", "p_zero", "deterministic" }
+            .Select(c => moments.Doubles(c)).ToArray();
+        var replicates = moments.Longs("replicates");
+        var series = names.Select(n => new
+        {
+            Name = n,
+            Replicates = new long[times.Length],
+            Values = Enumerable.Range(0, columns.Length).Select(_ => Enumerable.Repeat(double.NaN, times.Length).ToArray()).ToArray(),
+        }).ToDictionary(s => s.Name);
+        for (var row = 0; row < time.Length; row++)
+        {
+            var s = series[name[row]];
+            var k = timeIndex[time[row]];
+            s.Replicates[k] = replicates[row];
+            for (var c = 0; c < columns.Length; c++) s.Values[c][k] = columns[c][row];
+        }
+        var quantities = names.Select(n => series[n])
+            .Select(s => new QuantitySeries(s.Name, s.Replicates, s.Values[0], s.Values[1], s.Values[2], s.Values[3], s.Values[4], s.Values[5], s.Values[6]))
+            .ToArray();
+
+        var distributions = new Dictionary<(string, int), (long[], double[])>();
+        double[] dTime, dProbability;
+        string[] dName;
+        long[] dCount;
+        using (var table = ParquetTableReader.Open(System.IO.Path.Combine(folder, RunFiles.Distributions)))
+        {
+            dTime = table.Doubles("time");
+            dName = table.Strings("species");
+            dCount = table.Longs("count");
+            dProbability = table.Doubles("probability");
+        }
+        for (var start = 0; start < dTime.Length;)
+        {
+            var end = start;
+            while (end < dTime.Length && dTime[end] == dTime[start] && dName[end] == dName[start]) end++;
+            distributions[(dName[start], timeIndex[dTime[start]])] = (dCount[start..end], dProbability[start..end]);
+            start = end;
+        }
+
+        var pathsFile = System.IO.Path.Combine(folder, RunFiles.Paths);
+        PathColumns? paths = null;
+        if (File.Exists(pathsFile))
+        {
+            using var table = ParquetTableReader.Open(pathsFile);
+            var speciesColumns = table.ColumnNames.Where(c => c is not ("replicate" or "time")).ToDictionary(c => c, c => table.Longs(c));
+            paths = new PathColumns(table.Longs("replicate"), table.Doubles("time"), speciesColumns);
+        }
+        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths);
+    }
+}
