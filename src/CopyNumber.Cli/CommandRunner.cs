@@ -1,8 +1,6 @@
 using System.CommandLine;
 using System.Text.RegularExpressions;
-using CopyNumber.Analysis;
 using CopyNumber.Language;
-using CopyNumber.Storage;
 
 namespace CopyNumber.Cli;
 
@@ -37,40 +35,25 @@ internal static partial class CommandRunner
         {
             return parsed.Invoke(new InvocationConfiguration { Output = output, Error = error, EnableDefaultExceptionHandler = false, ProcessTerminationTimeout = null });
         }
-        catch (ModelInputException e)
+        catch (CopyNumberException e)
         {
-            foreach (var d in e.Diagnostics) error.WriteLine(d.Format());
-            error.WriteLine(e.Diagnostics.Count == 1 ? "1 error" : $"{e.Diagnostics.Count} errors");
-            return ExitCodes.BadInput;
-        }
-        catch (UserInputException e)
-        {
-            error.WriteLine($"error: {e.Message}");
-            return ExitCodes.BadInput;
-        }
-        catch (RunFolderException e)
-        {
-            error.WriteLine($"error: {e.Message}");
-            return ExitCodes.BadInput;
-        }
-        catch (AnalysisInputException e)
-        {
-            error.WriteLine($"error: {e.Message}");
-            return ExitCodes.BadInput;
-        }
-        catch (OutputException e) when (e.IsRefusal)
-        {
-            error.WriteLine($"error: {e.Message}");
-            return ExitCodes.BadInput;
+            foreach (var line in e.Lines) error.WriteLine(e.LinesArePrefixed ? line : $"error: {line}");
+            return ExitCodes.For(e.Kind);
         }
         catch (OperationCanceledException)
         {
             error.WriteLine("interrupted");
             return ExitCodes.Interrupted;
         }
+        catch (Exception e) when (Unwrapped(e) is CopyNumberException known)
+        {
+            error.WriteLine($"error: {known.Message}");
+            return ExitCodes.For(known.Kind);
+        }
         catch (Exception e)
         {
-            error.WriteLine($"error: {Describe(e)}");
+            // Not one of ours: a defect of the program or of its platform. Still no stack trace.
+            error.WriteLine($"error: {Unwrapped(e).Message}");
             return ExitCodes.RunFailed;
         }
     }
@@ -88,12 +71,17 @@ internal static partial class CommandRunner
     [GeneratedRegex(@" as expected type '([^']+)'")]
     private static partial Regex ExpectedType();
 
-    private static string Describe(Exception e) =>
-        e is AggregateException { InnerExceptions.Count: 1 } a ? Describe(a.InnerExceptions[0]) : e.Message;
+    private static Exception Unwrapped(Exception e) =>
+        e is AggregateException { InnerExceptions.Count: 1 } a ? Unwrapped(a.InnerExceptions[0]) : e;
 }
 
 /// <summary>Carries a model's diagnostics to the one place that prints them.</summary>
-internal sealed class ModelInputException(IReadOnlyList<Diagnostic> diagnostics) : Exception("the model has errors")
+internal sealed class ModelInputException(IReadOnlyList<Diagnostic> diagnostics) : CopyNumberException("the model has errors", ErrorKind.BadInput)
 {
     public IReadOnlyList<Diagnostic> Diagnostics { get; } = diagnostics;
+
+    public override IReadOnlyList<string> Lines =>
+        [.. Diagnostics.Select(d => d.Format()), Diagnostics.Count == 1 ? "1 error" : $"{Diagnostics.Count} errors"];
+
+    public override bool LinesArePrefixed => true;
 }

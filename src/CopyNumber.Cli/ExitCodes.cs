@@ -11,4 +11,7 @@ internal static class ExitCodes
     public const int BadInput = 2;
     /// <summary>Stopped by Ctrl-C or SIGTERM; what was finished has been written.</summary>
     public const int Interrupted = 130;
+
+    /// <summary>The exit code of an error of the given kind: the one mapping from errors to codes.</summary>
+    public static int For(ErrorKind kind) => kind == ErrorKind.BadInput ? BadInput : RunFailed;
 }

@@ -5,11 +5,11 @@ namespace CopyNumber.Reports;
 /// <see cref="Exception.Message"/> is written for the person running the command (it names the species,
 /// figure or file at fault) and can be shown as it is, without a stack trace.
 /// </summary>
-public sealed class ReportException : Exception
+public sealed class ReportException : CopyNumberException
 {
     /// <summary>Creates the exception with a user-facing message.</summary>
-    public ReportException(string message) : base(message) { }
+    public ReportException(string message) : base(message, ErrorKind.RunFailed) { }
 
     /// <summary>Creates the exception with a user-facing message and the lower-level cause.</summary>
-    public ReportException(string message, Exception inner) : base(message, inner) { }
+    public ReportException(string message, Exception inner) : base(message, ErrorKind.RunFailed, inner) { }
 }

@@ -6,14 +6,14 @@ namespace CopyNumber.Storage;
 /// meant for the user as it stands and names <see cref="Path"/>; the operating system's own error,
 /// when there is one, is kept as <see cref="Exception.InnerException"/>.
 /// </summary>
-public sealed class OutputException : Exception
+public sealed class OutputException : CopyNumberException
 {
     /// <summary>Creates the exception.</summary>
     /// <param name="message">One user-facing sentence that names <paramref name="path"/>.</param>
     /// <param name="path">The file or folder the user asked for (never an internal temporary name).</param>
     /// <param name="inner">The underlying error, if any.</param>
     public OutputException(string message, string path, Exception? inner = null)
-        : base(message, inner)
+        : base(message, ErrorKind.RunFailed, inner)
     {
         Path = path;
     }
@@ -23,7 +23,7 @@ public sealed class OutputException : Exception
     /// <param name="path">The folder the user asked for.</param>
     /// <param name="refused">True: the path was refused (e.g. a non-empty output folder), nothing failed.</param>
     public OutputException(string message, string path, bool refused)
-        : base(message)
+        : base(message, refused ? ErrorKind.BadInput : ErrorKind.RunFailed)
     {
         Path = path;
         IsRefusal = refused;

@@ -5,14 +5,14 @@ namespace CopyNumber.Storage;
 /// does not belong with the settings or the other folders it is combined with. The message is meant
 /// for the user as it stands and says what differs or what is missing.
 /// </summary>
-public sealed class RunFolderException : Exception
+public sealed class RunFolderException : CopyNumberException
 {
     /// <summary>Creates the exception.</summary>
     /// <param name="message">User-facing sentences naming the folder or file.</param>
     /// <param name="folder">The folder concerned, as a full path.</param>
     /// <param name="inner">The underlying error, if any.</param>
     public RunFolderException(string message, string folder, Exception? inner = null)
-        : base(message, inner)
+        : base(message, ErrorKind.BadInput, inner)
     {
         Folder = folder;
     }

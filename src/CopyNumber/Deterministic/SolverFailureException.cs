@@ -4,7 +4,7 @@ namespace CopyNumber.Deterministic;
 /// The integration could not go on: a non-finite state or rate, a step size below round-off, or the step
 /// limit. The message is meant for the user and names the time and the component (species) involved.
 /// </summary>
-public sealed class SolverFailureException : Exception
+public sealed class SolverFailureException : CopyNumberException
 {
     /// <summary>Creates the exception.</summary>
     /// <param name="time">Model time at which the integration stopped.</param>
@@ -13,7 +13,7 @@ public sealed class SolverFailureException : Exception
     public SolverFailureException(double time, string? componentName, string reason)
         : base(componentName is null
             ? $"the rate equations failed at t = {time:G10}: {reason}"
-            : $"the rate equations failed at t = {time:G10}: {reason} ({componentName})")
+            : $"the rate equations failed at t = {time:G10}: {reason} ({componentName})", ErrorKind.RunFailed)
     {
         Time = time;
         ComponentName = componentName;

@@ -6,11 +6,11 @@ namespace CopyNumber.Ensembles;
 /// blocks finished before the failure, so their summaries can still be written. Replicate streams are
 /// fixed by the seed, so running the same replicate again fails the same way.
 /// </summary>
-public sealed class EnsembleFailureException : Exception
+public sealed class EnsembleFailureException : CopyNumberException
 {
     /// <summary>Creates the exception; <paramref name="cause"/> is the simulator's own error.</summary>
     public EnsembleFailureException(long replicate, Exception cause, EnsembleResult partial)
-        : base($"replicate {replicate} failed: {cause.Message}", cause)
+        : base($"replicate {replicate} failed: {cause.Message}", ErrorKind.RunFailed, cause)
     {
         Replicate = replicate;
         Partial = partial;

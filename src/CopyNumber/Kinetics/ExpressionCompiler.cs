@@ -1,6 +1,5 @@
 using System.Reflection;
 using CopyNumber.Language;
-using CopyNumber.Network;
 using System.Linq.Expressions;
 
 namespace CopyNumber.Kinetics;

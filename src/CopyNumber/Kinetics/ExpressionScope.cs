@@ -1,5 +1,4 @@
 using CopyNumber.Language;
-using CopyNumber.Network;
 
 namespace CopyNumber.Kinetics;
 

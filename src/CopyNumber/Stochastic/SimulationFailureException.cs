@@ -8,12 +8,12 @@ namespace CopyNumber.Stochastic;
 /// A replicate could not go on: its message is written for the model's author and names the reaction or
 /// species, the model time and the state.
 /// </summary>
-public sealed class SimulationFailureException : Exception
+public sealed class SimulationFailureException : CopyNumberException
 {
     /// <summary>Creates the exception with a user-facing message.</summary>
     /// <param name="message">One sentence saying what went wrong, without a trailing full stop.</param>
     /// <param name="time">Model time at which the run stopped.</param>
-    public SimulationFailureException(string message, double time) : base(message)
+    public SimulationFailureException(string message, double time) : base(message, ErrorKind.RunFailed)
     {
         Time = time;
     }
