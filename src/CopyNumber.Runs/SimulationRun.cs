@@ -7,23 +7,25 @@ using CopyNumber.Stochastic;
 
 namespace CopyNumber.Runs;
 
-/// <summary>Everything one <c>simulate</c> run needs: the model, the ensemble settings and where to write.</summary>
-/// <param name="Model">The loaded model.</param>
-/// <param name="Ensemble">Ensemble settings (grid, replicates, seed, method, threads, paths, shard).</param>
-/// <param name="Folder">An existing, empty output folder; or, with <see cref="Resume"/>, the folder of the run to continue.</param>
-/// <param name="Solver">Settings for the rate-equation solution computed beside the ensemble.</param>
-/// <param name="Arguments">The run's settings as text, for provenance; the shard is added when absent.</param>
-/// <param name="MethodReason">Why this simulation method was chosen, for the manifest and console.</param>
-public sealed record SimulationRequest(
-    LoadedModel Model,
-    EnsembleOptions Ensemble,
-    string Folder,
-    SolverOptions Solver,
-    IReadOnlyDictionary<string, string> Arguments,
-    string MethodReason)
+/// <summary>One planned run and where it goes.</summary>
+/// <param name="Plan">The run, planned: specification, method, rate equations.</param>
+/// <param name="Folder">A claimed, empty output folder; or, with <see cref="Resume"/>, the folder of the run to continue.</param>
+public sealed record SimulationRequest(RunPlan Plan, string Folder)
 {
+    /// <summary>The loaded model.</summary>
+    public LoadedModel Model => Plan.Specification.Model;
+
+    /// <summary>The ensemble's options.</summary>
+    public EnsembleOptions Ensemble => Plan.Ensemble;
+
+    /// <summary>The run's settings as the manifest records them.</summary>
+    public IReadOnlyDictionary<string, string> Arguments => Plan.Specification.ToArguments();
+
+    /// <summary>Why the method was chosen, for the manifest and console.</summary>
+    public string MethodReason => Plan.MethodReason;
+
     /// <summary>Stop the ensemble once this much wall-clock time has passed since the start (like an interruption); null for no limit.</summary>
-    public TimeSpan? WallLimit { get; init; }
+    public TimeSpan? WallLimit => Plan.Specification.WallLimit;
 
     /// <summary>
     /// <see cref="Folder"/> holds an interrupted run with the same model and settings: its finished
@@ -32,14 +34,14 @@ public sealed record SimulationRequest(
     public bool Resume { get; init; }
 
     /// <summary>
-    /// The method was chosen by <c>--method auto</c>: a tau-leaping run whose validation sample establishes
-    /// an error beyond the tolerances is then redone with the exact direct method (a whole run only; a
-    /// shard reports it). When false, the method was asked for and is kept, and a disagreement is reported.
+    /// The method was chosen by "auto": a tau-leaping run whose validation sample establishes an error
+    /// beyond the tolerances is then redone with the exact direct method (a whole run only; a shard
+    /// reports it). Otherwise the method was asked for and is kept, and a disagreement is reported.
     /// </summary>
-    public bool MethodChosenAutomatically { get; init; }
+    public bool MethodChosenAutomatically => Plan.Specification.MethodRequested == "auto";
 
     /// <summary>A fixed size for the validation sample (no time rule); null for the sizing rule of <see cref="ValidationSample"/>.</summary>
-    public long? ValidationReplicates { get; init; }
+    public long? ValidationReplicates => Plan.Specification.ValidationReplicates;
 }
 
 /// <summary>What a run produced.</summary>
@@ -111,16 +113,9 @@ public static class SimulationRun
             identity = identity with { Started = stored.Manifest.StartedUtc };
         }
 
-        DeterministicSolution? deterministic = null;
-        string? deterministicFailure = null;
-        try
-        {
-            deterministic = RateEquationSolver.Solve(model.Network, options.Grid, request.Solver);
-        }
-        catch (SolverFailureException e)
-        {
-            deterministicFailure = e.Message;
-        }
+        // Solved once, by the plan: the method choice, this table and the console share the solution.
+        var deterministic = request.Plan.Deterministic;
+        var deterministicFailure = request.Plan.DeterministicFailure;
         if (deterministic is not null)
         {
             var path = Path.Combine(request.Folder, RunFiles.Deterministic);

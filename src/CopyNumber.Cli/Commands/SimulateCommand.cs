@@ -13,147 +13,72 @@ namespace CopyNumber.Cli.Commands;
 /// <summary><c>copynumber simulate MODEL --until T --every DT --replicates R</c>: a stochastic ensemble.</summary>
 internal static class SimulateCommand
 {
-    private static readonly string[] MethodNames = MethodArgument.Names;
-
-    /// <summary>Most worker threads accepted; more only add memory and contention.</summary>
-    public static readonly int MaxThreads = Math.Max(1024, 4 * Environment.ProcessorCount);
-
     public static Command Create(CliSession session)
     {
         var model = ModelArgument.CreateOptional();
         var grid = new GridOptions(required: false);
-        var replicates = new Option<long?>("--replicates") { Description = "Number of independent replicates (required unless --resume)." };
-        var method = new Option<string>("--method") { Description = "auto (chosen from the network's size and copy numbers; the reason is printed), direct (Gillespie's direct method), next-reaction (Gibson-Bruck), tau-leap (adaptive explicit tau-leaping) or composition-rejection (for large networks).", DefaultValueFactory = _ => "auto" };
-        method.AcceptOnlyFromAmong(MethodNames);
-        var epsilon = new Option<double>("--epsilon") { Description = "Tau-leaping error control: the largest relative change of any propensity in one leap, in (0, 1).", DefaultValueFactory = _ => 0.03 };
-        var seed = new Option<ulong?>("--seed") { Description = "Run seed; without it one is drawn and recorded in manifest.json." };
-        var threads = new Option<int>("--threads") { Description = "Worker threads (default: all cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        var ensemble = new EnsembleOptionSet("Number of independent replicates (required unless --resume).", withShard: true);
         var output = new Option<string?>("--out") { Description = "Output folder (default: <model>-<start time> in the current folder)." };
-        var paths = new Option<string?>("--paths") { Description = "Also write paths.parquet for the first N replicates, or 'all'." };
         var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
-        var maxEvents = new Option<long?>("--max-events") { Description = "Stop a replicate after this many events; such replicates are counted and reported." };
-        var maxWall = new Option<double?>("--max-wall") { Description = "Stop the run after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
-        var shard = new Option<string?>("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
         var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder; MODEL and every option may be left out (they take the stored values), options given must agree with the stored run; finished blocks are kept." };
-        var validationReplicates = new Option<long?>("--validation-replicates") { Description = "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md)." };
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
 
         var command = new Command("simulate", "Run an ensemble of stochastic replicates and summarise it on the time grid beside the rate equations.");
         command.Arguments.Add(model);
         grid.AddTo(command);
-        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, maxWall, shard, resume, validationReplicates, noContrast })
+        ensemble.AddTo(command);
+        foreach (var option in new Option[] { output, force, resume, noContrast })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
         command.SetAction(parsed =>
         {
-            using var honouring = session.Honour();
             var resumeFolder = parsed.GetValue(resume);
             var stored = resumeFolder is null ? null : StoredRun.Open(resumeFolder);
             if (stored is not null && parsed.GetResult(output) is { Implicit: false })
                 throw new UserInputException("--resume continues the run in its own folder; leave out --out");
-            // With --resume, an option left out takes the value the stored run recorded.
-            T Pick<T>(Option<T> option, string key, Func<string, T> fromText)
-            {
-                if (stored is null || parsed.GetResult(option) is { Implicit: false } || !stored.Manifest.Arguments.TryGetValue(key, out var text))
-                    return parsed.GetValue(option)!;
-                try
-                {
-                    return fromText(text);
-                }
-                catch (Exception e) when (e is FormatException or OverflowException)
-                {
-                    throw new RunFolderException($"The manifest of '{stored.Folder}' records {option.Name} '{text}', which is not a valid value.", stored.Folder, e);
-                }
-            }
-
+            var storedSettings = stored is null ? null : StoredSettings.Read(stored);
             var timeGrid = grid.Read(parsed, stored?.Grid);
             var thresholds = contrastOptions.Thresholds(parsed);
-            var replicateCount = Pick(replicates, "replicates", t => (long?)long.Parse(t, CultureInfo.InvariantCulture))
-                ?? throw new UserInputException("--replicates is required (or --resume DIR, which takes it from the stored run)");
-            if (replicateCount < 1) throw new UserInputException($"--replicates must be at least 1 (got {replicateCount})");
-            var eps = Pick(epsilon, "epsilon", ParseDouble);
-            if (!(eps > 0 && eps < 1)) throw new UserInputException($"--epsilon must lie in (0, 1) (got {eps})");
-            var threadCount = parsed.GetValue(threads);
-            if (threadCount < 1 || threadCount > MaxThreads) throw new UserInputException($"--threads must be between 1 and {MaxThreads} (got {threadCount})");
-            var limit = Pick(maxEvents, "max_events", t => t == "none" ? null : long.Parse(t, CultureInfo.InvariantCulture)) ?? long.MaxValue;
-            if (limit < 1) throw new UserInputException($"--max-events must be at least 1 (got {limit})");
-            var wall = parsed.GetValue(maxWall);
-            if (wall is { } w && !(w > 0 && w <= TimeSpan.MaxValue.TotalSeconds / 2)) throw new UserInputException($"--max-wall must be a positive number of seconds (got {w})");
-            var pathCount = ReadPaths(Pick(paths, "paths", t => t == "0" ? null : t), replicateCount);
-            var runShard = ReadShard(Pick(shard, ManifestFields.ShardArgument, t => t), replicateCount);
-            var chosen = Pick(method, "method", t => MethodNames.Contains(t) ? t : throw new FormatException($"unknown method '{t}'"));
-            var sampleSize = Pick(validationReplicates, "validation_replicates", t => (long?)long.Parse(t, CultureInfo.InvariantCulture));
-            if (sampleSize is { } fixedSample && fixedSample < 2) throw new UserInputException($"--validation-replicates must be at least 2 (got {fixedSample})");
-            var runSeed = Pick(seed, "seed", t => (ulong?)ulong.Parse(t, CultureInfo.InvariantCulture)) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
-
             var loaded = parsed.GetValue(model) is { } modelPath ? ModelArgument.Load(modelPath)
                 : stored is not null ? ModelArgument.LoadStored(stored)
                 : throw new UserInputException("simulate needs a MODEL file (or --resume DIR, which reads the stored model)");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, loaded.Network, timeGrid.Until);
-            var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
-            // A resumed run goes on with the method its stored blocks were made with (auto may have fallen back).
-            if (stored is not null && Enum.TryParse<SimulationMethod>(stored.Manifest.Method, out var storedMethod) && storedMethod != simulationMethod)
-                (simulationMethod, methodReason) = (storedMethod, stored.Manifest.ExtraText(ManifestFields.MethodReason) ?? methodReason);
-            var options = new EnsembleOptions
-            {
-                Grid = timeGrid,
-                Replicates = replicateCount,
-                Seed = runSeed,
-                Method = simulationMethod,
-                Simulator = new SimulatorOptions(Epsilon: eps, MaxEvents: limit),
-                Threads = threadCount,
-                PathReplicates = pathCount,
-                Shard = runShard,
-            };
-            var memory = EnsembleMemory.For(loaded.Network, options);
-            if (memory.Problem(GC.GetGCMemoryInfo().TotalAvailableMemoryBytes) is { } tooLarge) throw new UserInputException(tooLarge);
-            var arguments = new Dictionary<string, string>
-            {
-                ["command"] = "simulate",
-                ["until"] = Invariant(timeGrid.Until),
-                ["every"] = Invariant(timeGrid.Every),
-                ["replicates"] = replicateCount.ToString(CultureInfo.InvariantCulture),
-                ["method"] = chosen,
-                ["epsilon"] = Invariant(eps),
-                ["seed"] = runSeed.ToString(CultureInfo.InvariantCulture),
-                ["paths"] = pathCount.ToString(CultureInfo.InvariantCulture),
-                ["max_events"] = limit == long.MaxValue ? "none" : limit.ToString(CultureInfo.InvariantCulture),
-                [ManifestFields.ShardArgument] = runShard.ToString(),
-            };
-            // Recorded only when given, so folders written before the option existed can still be resumed.
-            if (sampleSize is { } size) arguments["validation_replicates"] = size.ToString(CultureInfo.InvariantCulture);
+            var specification = ensemble.Bind(parsed, loaded, timeGrid, storedSettings, "simulate");
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
-            stored?.EnsureSameRun(new RunSettings(Provenance.Sha256Hex(loaded.Text), arguments, options.BlockSize));
+            stored?.EnsureSameRun(specification.Settings(EnsembleOptions.DefaultBlockSize));
             if (stored is not null && !stored.IsPartial)
             {
-                error.WriteLine($"nothing to resume: the run in {stored.Folder} has all its {stored.Manifest.ReplicatesFinished} replicates");
+                error.WriteLine($"nothing to resume: the run in {Paths.Shown(stored.Folder)} has all its {stored.Manifest.ReplicatesFinished} replicates");
                 return ExitCodes.Done;
             }
-            var folder = stored?.Folder ?? OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
-            var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, methodReason)
-            {
-                WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
-                Resume = stored is not null,
-                MethodChosenAutomatically = chosen == "auto",
-                ValidationReplicates = sampleSize,
-            };
 
-            var shardText = runShard.IsWhole ? "" : $", shard {runShard}";
-            var toRun = ShardReplicates(options) - (stored?.Manifest.ReplicatesFinished ?? 0);
-            error.WriteLine(stored is null
-                ? $"simulating {loaded.Network.Name}: {replicateCount} replicates{shardText}, method {MethodArgument.NameOf(simulationMethod)} ({methodReason}), seed {runSeed}, {threadCount} threads -> {Paths.Shown(folder)}"
-                : $"resuming {loaded.Network.Name} in {Paths.Shown(folder)}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {MethodArgument.NameOf(simulationMethod)}, seed {runSeed}, {threadCount} threads");
-            var monitor = new EnsembleMonitor();
+            // Planning (the rate equations) computes nothing a signal could lose, so a signal ends the process at
+            // once; from the ensemble to the last table a signal stops the run and what is finished is written.
+            var plan = RunPlan.Make(specification, storedSettings);
             SimulationOutcome outcome;
-            using (new ProgressDisplay(monitor, toRun, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
-                outcome = SimulationRun.Execute(request, monitor, session.Interrupt);
+            string folder;
+            using (session.Honour())
+            {
+                folder = stored?.Folder ?? OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
+                var request = new SimulationRequest(plan, folder) { Resume = stored is not null };
+                var shardText = specification.Shard.IsWhole ? "" : $", shard {specification.Shard}";
+                var toRun = ShardReplicates(plan.Ensemble) - (stored?.Manifest.ReplicatesFinished ?? 0);
+                var method = MethodChoice.NameOf(plan.Method);
+                error.WriteLine(stored is null
+                    ? $"simulating {loaded.Network.Name}: {specification.Replicates} replicates{shardText}, method {method} ({plan.MethodReason}), seed {specification.Seed}, {specification.Threads} threads -> {Paths.Shown(folder)}"
+                    : $"resuming {loaded.Network.Name} in {Paths.Shown(folder)}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {method}, seed {specification.Seed}, {specification.Threads} threads");
+                var monitor = new EnsembleMonitor();
+                using (new ProgressDisplay(monitor, toRun, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
+                    outcome = SimulationRun.Execute(request, monitor, session.Interrupt);
+            }
             var code = Report(outcome, folder, writer, error);
             // A shard is only part of a run: its contrast waits for the merged folder.
-            if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && runShard.IsWhole && !parsed.GetValue(noContrast))
+            if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && !parsed.GetValue(noContrast))
             {
+                error.WriteLine($"the run's tables are complete in {Paths.Shown(folder)}; contrasting it with the rate equations (an interruption now loses nothing: 'copynumber contrast' redoes it)");
                 var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap);
                 writer.Write("\n" + ContrastOptions.RenderVerdicts(contrast));
                 writer.WriteLine($"wrote {Paths.Shown(files)}");
@@ -163,42 +88,11 @@ internal static class SimulateCommand
         return command;
     }
 
-    private static string NameOf(SimulationMethod method) => method switch
-    {
-        SimulationMethod.NextReaction => "next-reaction",
-        SimulationMethod.TauLeap => "tau-leap",
-        SimulationMethod.CompositionRejection => "composition-rejection",
-        _ => "direct",
-    };
-
-    private static long ReadPaths(string? text, long replicates)
-    {
-        if (text is null) return 0;
-        if (text == "all") return replicates;
-        if (!long.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var n) || n < 1)
-            throw new UserInputException($"--paths takes a positive number of replicates or 'all' (got '{text}')");
-        return Math.Min(n, replicates);
-    }
-
-    private static Shard ReadShard(string? text, long replicates)
-    {
-        if (text is null) return Shard.Whole;
-        if (!Shard.TryParse(text, out var shard, out var problem)) throw new UserInputException($"--shard: {problem}");
-        var blocks = BlockRanges.BlocksFor(replicates, EnsembleOptions.DefaultBlockSize);
-        if (shard.Count > blocks)
-            throw new UserInputException($"--shard {shard}: {replicates} replicates make {blocks} block{(blocks == 1 ? "" : "s")} of {EnsembleOptions.DefaultBlockSize}, so at most {blocks} shard{(blocks == 1 ? "" : "s")}; use fewer shards or more replicates");
-        return shard;
-    }
-
     private static long ShardReplicates(EnsembleOptions options)
     {
         var (first, end) = options.Shard.Blocks(options.TotalBlocks);
         return BlockRanges.ReplicatesIn(options.Replicates, options.BlockSize, first, end);
     }
-
-    private static double ParseDouble(string text) => double.Parse(text, NumberStyles.Float, CultureInfo.InvariantCulture);
-
-    private static string Invariant(double value) => value.ToString("R", CultureInfo.InvariantCulture);
 
     /// <summary>The closing lines and the exit code: 0 done or stopped at --max-wall, 1 a replicate failed, 130 interrupted.</summary>
     private static int Report(SimulationOutcome outcome, string folder, TextWriter writer, TextWriter error)

@@ -25,12 +25,7 @@ internal static class SweepCommand
         var model = ModelArgument.Create();
         var grid = new GridOptions();
         var sizes = new Option<string>("--sizes") { Description = "System sizes Ω, comma-separated, e.g. 1,10,100,1000.", Required = true };
-        var replicates = new Option<long>("--replicates") { Description = "Replicates at each size.", Required = true };
-        var method = new Option<string>("--method") { Description = "Simulation method, as for simulate (auto chooses at each size).", DefaultValueFactory = _ => "auto" };
-        method.AcceptOnlyFromAmong(MethodArgument.Names);
-        var epsilon = new Option<double>("--epsilon") { Description = "Tau-leaping error control in (0, 1).", DefaultValueFactory = _ => 0.03 };
-        var seed = new Option<ulong?>("--seed") { Description = "Run seed, shared by every size; drawn and recorded when absent." };
-        var threads = new Option<int>("--threads") { Description = "Worker threads.", DefaultValueFactory = _ => Environment.ProcessorCount };
+        var ensemble = new EnsembleOptionSet("Replicates at each size (required).", withShard: false);
         var output = new Option<string?>("--out") { Description = "Output folder (default: <model>-sweep-<start time>)." };
         var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty folder." };
         var contrastOptions = new ContrastOptions();
@@ -38,7 +33,8 @@ internal static class SweepCommand
         var command = new Command("sweep", "Simulate the model at several system sizes and report from which size the rate equations are adequate.");
         command.Arguments.Add(model);
         grid.AddTo(command);
-        foreach (var option in new Option[] { sizes, replicates, method, epsilon, seed, threads, output, force })
+        ensemble.AddTo(command);
+        foreach (var option in new Option[] { sizes, output, force })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
@@ -46,60 +42,43 @@ internal static class SweepCommand
         {
             var timeGrid = grid.Read(parsed);
             var sizeList = ReadSizes(parsed.GetValue(sizes)!);
-            var replicateCount = parsed.GetValue(replicates);
-            if (replicateCount < 1) throw new UserInputException($"--replicates must be at least 1 (got {replicateCount})");
-            var eps = parsed.GetValue(epsilon);
-            if (!(eps > 0 && eps < 1)) throw new UserInputException($"--epsilon must lie in (0, 1) (got {eps})");
-            var threadCount = parsed.GetValue(threads);
-            if (threadCount < 1) throw new UserInputException($"--threads must be at least 1 (got {threadCount})");
             var thresholds = contrastOptions.Thresholds(parsed);
-            var chosen = parsed.GetValue(method)!;
-            var runSeed = parsed.GetValue(seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
             var modelPath = parsed.GetValue(model)!;
             var baseModel = ModelArgument.Load(modelPath);
+            // One seed for every size, drawn once when not given.
+            var baseSpecification = ensemble.Bind(parsed, baseModel, timeGrid, stored: null, "sweep");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);
             var root = OutputFolder.CreateFresh(parsed.GetValue(output), baseModel.Network.Name + "-sweep", DateTimeOffset.Now, parsed.GetValue(force));
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
 
             var runs = new List<(double, RunContrastResult)>();
-            using var honouring = session.Honour();
             foreach (var size in sizeList)
             {
                 var loaded = ModelArgument.Load(modelPath, new CompileOptions(SizeOverride: size));
-                // Copy numbers grow with the size, so auto may choose differently at each size.
-                var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
+                var specification = baseSpecification with { Model = loaded, Size = size };
                 var folder = Path.Combine(root, "size-" + size.ToString("R", CultureInfo.InvariantCulture));
                 Directory.CreateDirectory(folder);
-                var arguments = new Dictionary<string, string>
-                {
-                    ["command"] = "sweep",
-                    ["size"] = size.ToString("R", CultureInfo.InvariantCulture),
-                    ["until"] = timeGrid.Until.ToString("R", CultureInfo.InvariantCulture),
-                    ["every"] = timeGrid.Every.ToString("R", CultureInfo.InvariantCulture),
-                    ["replicates"] = replicateCount.ToString(CultureInfo.InvariantCulture),
-                    ["method"] = chosen,
-                    ["epsilon"] = eps.ToString("R", CultureInfo.InvariantCulture),
-                    ["seed"] = runSeed.ToString(CultureInfo.InvariantCulture),
-                };
-                var options = new EnsembleOptions
-                {
-                    Grid = timeGrid,
-                    Replicates = replicateCount,
-                    Seed = runSeed,
-                    Method = simulationMethod,
-                    Simulator = new SimulatorOptions(Epsilon: eps),
-                    Threads = threadCount,
-                };
-                error.WriteLine($"size {size.ToString(CultureInfo.InvariantCulture)}: {replicateCount} replicates, {methodReason} -> {Paths.Shown(folder)}");
-                var monitor = new EnsembleMonitor();
+                // Copy numbers grow with the size, so auto may choose differently at each size.
+                var plan = RunPlan.Make(specification);
                 SimulationOutcome outcome;
-                using (new Rendering.ProgressDisplay(monitor, replicateCount, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
-                    outcome = SimulationRun.Execute(new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, methodReason), monitor, session.Interrupt);
-                if (outcome.Ensemble.Interrupted)
+                using (session.Honour())
+                {
+                    error.WriteLine($"size {size.ToString(CultureInfo.InvariantCulture)}: {specification.Replicates} replicates, {plan.MethodReason} -> {Paths.Shown(folder)}");
+                    var monitor = new EnsembleMonitor();
+                    using (new Rendering.ProgressDisplay(monitor, specification.Replicates, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
+                        outcome = SimulationRun.Execute(new SimulationRequest(plan, folder), monitor, session.Interrupt);
+                }
+                if (outcome.StopReason == StopReason.Interrupted)
                 {
                     error.WriteLine($"interrupted during size {size}: the sizes finished so far are in {Paths.Shown(root)}");
                     return ExitCodes.Interrupted;
+                }
+                if (outcome.StopReason != StopReason.Finished)
+                {
+                    error.WriteLine(outcome.Failure is { } failure ? $"error: at size {size}: {failure}" : $"error: size {size} stopped early ({outcome.StopReason}); a sweep needs every size whole");
+                    error.WriteLine($"the sizes finished so far are in {Paths.Shown(root)}");
+                    return outcome.StopReason == StopReason.Failed ? ExitCodes.RunFailed : ExitCodes.Done;
                 }
                 var (contrast, _) = ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap);
                 runs.Add((size, contrast));
@@ -107,7 +86,7 @@ internal static class SweepCommand
 
             var sweep = SizeSweep.Summarise(runs);
             var metadata = Provenance.For(baseModel.Path, baseModel.Text,
-                new Dictionary<string, string> { ["command"] = "sweep", ["sizes"] = parsed.GetValue(sizes)!, ["seed"] = runSeed.ToString(CultureInfo.InvariantCulture) },
+                new Dictionary<string, string> { ["command"] = "sweep", ["sizes"] = parsed.GetValue(sizes)!, ["seed"] = baseSpecification.Seed.ToString(CultureInfo.InvariantCulture) },
                 DateTimeOffset.UtcNow);
             SweepTable.Write(Path.Combine(root, "sweep.parquet"), sweep, metadata);
             var report = SweepReport.Build(baseModel.Network.Name, sweep, thresholds);

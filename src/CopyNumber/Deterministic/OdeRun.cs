@@ -76,6 +76,7 @@ internal sealed class OdeRun
         while (true)
         {
             var t = stepper.Time;
+            _options.Cancel.ThrowIfCancellationRequested();
             if (_attempts >= _options.MaxSteps)
                 throw new SolverFailureException(t, null, $"more than {_options.MaxSteps} steps were needed"
                     + (_options.Kind == SolverKind.Explicit ? "; the problem may be stiff (try the stiff or automatic solver)" : ""));

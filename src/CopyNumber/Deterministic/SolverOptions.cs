@@ -26,6 +26,12 @@ public sealed record SolverOptions(
     double AbsoluteTolerance = 1e-9,
     int MaxSteps = 1_000_000)
 {
+    /// <summary>
+    /// Stops the integration at its next step with <see cref="OperationCanceledException"/> (a signal, a
+    /// wall-clock limit); not a setting of the solution, so two options that differ only here solve alike.
+    /// </summary>
+    public CancellationToken Cancel { get; init; }
+
     /// <summary>Null when the options are usable, otherwise a message saying what is wrong.</summary>
     public string? Check()
     {

@@ -140,7 +140,7 @@ public class ResumeTests
         foreach (var file in ResultFiles.Append(RunFiles.Paths)) AssertSameCells(whole, folder, file);
 
         // Without --resume the options are still required, with a message rather than a stack trace.
-        var bare = CliRun.Of(["simulate", "--until", "5", "--every", "0.5"]);
+        var bare = CliRun.Of(["simulate", WriteModel(scratch), "--until", "5", "--every", "0.5"]);
         Assert.Equal(2, bare.ExitCode);
         Assert.Contains("--replicates is required", bare.Error);
         AssertNoStackTrace(bare);
@@ -176,21 +176,19 @@ public class ResumeTests
     /// <summary>The run every test here uses: 1000 replicates of the bursty gene, seed 21, paths of the first 100.</summary>
     private static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null, string methodArgument = "direct")
     {
-        var grid = new TimeGrid(5, 0.5);
-        var options = new EnsembleOptions { Grid = grid, Replicates = Replicates, Seed = Seed, Threads = threads, PathReplicates = 100 };
-        var arguments = new Dictionary<string, string>
+        var specification = new RunSpecification
         {
-            ["command"] = "simulate",
-            ["until"] = "5",
-            ["every"] = "0.5",
-            ["replicates"] = Replicates.ToString(CultureInfo.InvariantCulture),
-            ["method"] = methodArgument,
-            ["epsilon"] = "0.03",
-            ["seed"] = Seed.ToString(CultureInfo.InvariantCulture),
-            ["paths"] = "100",
-            ["max_events"] = "none",
+            Model = model,
+            Grid = new TimeGrid(5, 0.5),
+            Replicates = Replicates,
+            Seed = Seed,
+            MethodRequested = methodArgument,
+            PathReplicates = 100,
+            Threads = threads,
         };
-        var request = new SimulationRequest(model, options, folder, new SolverOptions(), arguments, "test") { Resume = resume };
+        // The direct method whatever was asked for, so that the stored settings, not the method, differ between tests.
+        var plan = RunPlan.Make(specification with { MethodRequested = "direct" }) with { Specification = specification };
+        var request = new SimulationRequest(plan, folder) { Resume = resume };
         return SimulationRun.Execute(request, new EnsembleMonitor { BlockFinished = blockFinished }, cancel);
     }
 }

@@ -1,0 +1,120 @@
+using System.CommandLine;
+using System.Globalization;
+using System.Security.Cryptography;
+using CopyNumber.Ensembles;
+using CopyNumber.Network;
+using CopyNumber.Runs;
+
+namespace CopyNumber.Cli.Commands;
+
+/// <summary>
+/// The options of an ensemble, declared and checked once for every command that runs one (simulate,
+/// sweep), and bound into a <see cref="RunSpecification"/>. With a stored run (resume), an option left
+/// out takes the stored value.
+/// </summary>
+internal sealed class EnsembleOptionSet
+{
+    /// <summary>Most worker threads accepted; more only add memory and contention.</summary>
+    public static readonly int MaxThreads = Math.Max(1024, 4 * Environment.ProcessorCount);
+
+    private readonly Option<long?> _replicates;
+    private readonly Option<string> _method;
+    private readonly Option<double> _epsilon;
+    private readonly Option<ulong?> _seed;
+    private readonly Option<int> _threads;
+    private readonly Option<string?> _paths;
+    private readonly Option<long?> _maxEvents;
+    private readonly Option<double?> _maxWall;
+    private readonly Option<string?>? _shard;
+    private readonly Option<long?> _validationReplicates;
+
+    /// <param name="replicatesText">What --replicates means for this command.</param>
+    /// <param name="withShard">Whether the command takes --shard (a sweep does not).</param>
+    public EnsembleOptionSet(string replicatesText, bool withShard)
+    {
+        _replicates = new("--replicates") { Description = replicatesText };
+        _method = new("--method") { Description = "auto (chosen from the network's size and copy numbers; the reason is printed), direct (Gillespie's direct method), next-reaction (Gibson-Bruck), tau-leap (adaptive tau-leaping with a validation sample) or composition-rejection (for large networks).", DefaultValueFactory = _ => "auto" };
+        _method.AcceptOnlyFromAmong([.. MethodChoice.Names]);
+        _epsilon = new("--epsilon") { Description = "Tau-leaping error control: the largest relative change of any propensity in one leap, in (0, 1).", DefaultValueFactory = _ => RunSpecification.DefaultEpsilon };
+        _seed = new("--seed") { Description = "Run seed; without it one is drawn and recorded in manifest.json." };
+        _threads = new("--threads") { Description = "Worker threads (default: all cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
+        _paths = new("--paths") { Description = "Also write paths.parquet for the first N replicates, or 'all'." };
+        _maxEvents = new("--max-events") { Description = "Stop a replicate after this many events; such replicates are counted and reported." };
+        _maxWall = new("--max-wall") { Description = "Stop after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
+        if (withShard) _shard = new("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
+        _validationReplicates = new("--validation-replicates") { Description = "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md)." };
+    }
+
+    public void AddTo(Command command)
+    {
+        foreach (var option in new Option?[] { _replicates, _method, _epsilon, _seed, _threads, _paths, _maxEvents, _maxWall, _shard, _validationReplicates })
+            if (option is not null) command.Options.Add(option);
+    }
+
+    /// <summary>The options' values, checked, as a run specification.</summary>
+    /// <param name="parsed">The parsed command line.</param>
+    /// <param name="model">The model, compiled (at <paramref name="size"/> when set).</param>
+    /// <param name="grid">The time grid, already checked.</param>
+    /// <param name="stored">The settings of the run being resumed; options left out take these.</param>
+    /// <param name="command">The command, for provenance.</param>
+    /// <param name="size">A sweep's system size; null otherwise.</param>
+    public RunSpecification Bind(ParseResult parsed, LoadedModel model, TimeGrid grid, StoredSettings? stored, string command, double? size = null)
+    {
+        T? Given<T>(Option<T?> option, T? fallback) where T : struct =>
+            parsed.GetResult(option) is { Implicit: false } ? parsed.GetValue(option) : fallback ?? parsed.GetValue(option);
+
+        var replicates = Given(_replicates, stored?.Replicates)
+            ?? throw new UserInputException("--replicates is required (or --resume DIR, which takes it from the stored run)");
+        if (replicates < 1) throw new UserInputException($"--replicates must be at least 1 (got {replicates})");
+        var epsilon = parsed.GetResult(_epsilon) is { Implicit: false } ? parsed.GetValue(_epsilon) : stored?.Epsilon ?? parsed.GetValue(_epsilon);
+        if (!(epsilon > 0 && epsilon < 1)) throw new UserInputException($"--epsilon must lie in (0, 1) (got {epsilon})");
+        var threads = parsed.GetValue(_threads);
+        if (threads < 1 || threads > MaxThreads) throw new UserInputException($"--threads must be between 1 and {MaxThreads} (got {threads})");
+        var maxEvents = Given(_maxEvents, stored?.MaxEvents is long.MaxValue ? null : stored?.MaxEvents);
+        if (maxEvents is < 1) throw new UserInputException($"--max-events must be at least 1 (got {maxEvents})");
+        var wall = parsed.GetValue(_maxWall);
+        if (wall is { } w && !(w > 0 && w <= TimeSpan.MaxValue.TotalSeconds / 2)) throw new UserInputException($"--max-wall must be a positive number of seconds (got {w})");
+        var paths = parsed.GetResult(_paths) is { Implicit: false } ? ReadPaths(parsed.GetValue(_paths), replicates) : stored?.PathReplicates ?? 0;
+        var shard = _shard is not null && parsed.GetResult(_shard) is { Implicit: false } ? ReadShard(parsed.GetValue(_shard), replicates) : stored?.Shard ?? Shard.Whole;
+        var method = parsed.GetResult(_method) is { Implicit: false } ? parsed.GetValue(_method)! : stored?.MethodRequested ?? parsed.GetValue(_method)!;
+        var sample = Given(_validationReplicates, stored?.ValidationReplicates);
+        if (sample is < 2) throw new UserInputException($"--validation-replicates must be at least 2 (got {sample})");
+        var seed = Given(_seed, stored?.Seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
+        return new RunSpecification
+        {
+            Model = model,
+            Command = command,
+            Size = size,
+            Grid = grid,
+            Replicates = replicates,
+            Seed = seed,
+            MethodRequested = method,
+            Epsilon = epsilon,
+            MaxEvents = maxEvents,
+            PathReplicates = paths,
+            Shard = shard,
+            ValidationReplicates = sample,
+            WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
+            Threads = threads,
+        };
+    }
+
+    private static long ReadPaths(string? text, long replicates)
+    {
+        if (text is null) return 0;
+        if (text == "all") return replicates;
+        if (!long.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var n) || n < 1)
+            throw new UserInputException($"--paths takes a positive number of replicates or 'all' (got '{text}')");
+        return Math.Min(n, replicates);
+    }
+
+    private static Shard ReadShard(string? text, long replicates)
+    {
+        if (text is null) return Shard.Whole;
+        if (!Shard.TryParse(text, out var shard, out var problem)) throw new UserInputException($"--shard: {problem}");
+        var blocks = BlockRanges.BlocksFor(replicates, EnsembleOptions.DefaultBlockSize);
+        if (shard.Count > blocks)
+            throw new UserInputException($"--shard {shard}: {replicates} replicates make {blocks} block{(blocks == 1 ? "" : "s")} of {EnsembleOptions.DefaultBlockSize}, so at most {blocks} shard{(blocks == 1 ? "" : "s")}; use fewer shards or more replicates");
+        return shard;
+    }
+}
