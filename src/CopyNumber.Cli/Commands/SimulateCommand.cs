@@ -30,7 +30,8 @@ internal static class SimulateCommand
         var threads = new Option<int>("--threads") { Description = "Worker threads (default: all cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
         var output = new Option<string?>("--out") { Description = "Output folder (default: <model>-<start time> in the current folder)." };
         var paths = new Option<string?>("--paths") { Description = "Also write paths.parquet for the first N replicates, or 'all'." };
-        var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
+        var force = new Option<bool>("--force") { Description = "Replace the run in an existing, non-empty output folder: its files are removed first (a folder holding files copynumber did not write is refused)." };
+        var takeOver = TakeOverOption.Create();
         var maxEvents = new Option<long?>("--max-events") { Description = "Stop a replicate after this many events; such replicates are counted and reported." };
         var maxWall = new Option<double?>("--max-wall") { Description = "Stop the run after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
         var shard = new Option<string?>("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
@@ -42,7 +43,7 @@ internal static class SimulateCommand
         var command = new Command("simulate", "Run an ensemble of stochastic replicates and summarise it on the time grid beside the rate equations.");
         command.Arguments.Add(model);
         grid.AddTo(command);
-        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, maxWall, shard, resume, validationReplicates, noContrast })
+        foreach (var option in new Option[] { replicates, method, epsilon, seed, threads, output, paths, force, maxEvents, maxWall, shard, resume, validationReplicates, noContrast, takeOver })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
@@ -50,6 +51,9 @@ internal static class SimulateCommand
         {
             using var honouring = session.Honour();
             var resumeFolder = parsed.GetValue(resume);
+            // The run's claim on its folder lasts until the contrast is written (issue 10: exclusive output folders).
+            using var resumeClaim = resumeFolder is not null && Directory.Exists(resumeFolder)
+                ? FolderClaim.Take(resumeFolder, "simulate --resume", takeOverStale: true, parsed.GetValue(takeOver)) : null;
             var stored = resumeFolder is null ? null : StoredRun.Open(resumeFolder);
             if (stored is not null && parsed.GetResult(output) is { Implicit: false })
                 throw new UserInputException("--resume continues the run in its own folder; leave out --out");
@@ -132,7 +136,10 @@ internal static class SimulateCommand
                 error.WriteLine($"nothing to resume: the run in {stored.Folder} has all its {stored.Manifest.ReplicatesFinished} replicates");
                 return ExitCodes.Done;
             }
-            var folder = stored?.Folder ?? OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
+            using var freshClaim = stored is null ? OutputFolder.Claim(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force), parsed.GetValue(takeOver)) : null;
+            var folder = stored?.Folder ?? freshClaim!.Folder;
+            if ((freshClaim ?? resumeClaim)?.Replaced is { } replaced)
+                parsed.InvocationConfiguration.Error.WriteLine($"warning: took over the claim on {Paths.Shown(folder)} left by {replaced.Describe()}");
             var request = new SimulationRequest(loaded, options, folder, new SolverOptions(), arguments, methodReason)
             {
                 WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
@@ -216,6 +223,8 @@ internal static class SimulateCommand
         }
         if (outcome.ValidationFailure is not null)
             error.WriteLine($"warning: the validation sample could not be run ({outcome.ValidationFailure}); the leaping error is not measured");
+        if (outcome.PathsFailure is not null)
+            error.WriteLine($"error: {outcome.PathsFailure}; the summary tables and manifest.json were written without them (manifest: {ManifestFields.PathsFailure})");
         writer.Write(RenderFinal(outcome));
         writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {Paths.Shown(folder)}");
         if (result.ReplicatesStoppedEarly > 0)
@@ -234,7 +243,7 @@ internal static class SimulateCommand
                 error.WriteLine($"interrupted: {partial}");
                 return ExitCodes.Interrupted;
             default:
-                return ExitCodes.Done;
+                return outcome.PathsFailure is null ? ExitCodes.Done : ExitCodes.RunFailed;
         }
     }
 

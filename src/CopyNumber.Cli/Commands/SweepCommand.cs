@@ -32,7 +32,7 @@ internal static class SweepCommand
         var seed = new Option<ulong?>("--seed") { Description = "Run seed, shared by every size; drawn and recorded when absent." };
         var threads = new Option<int>("--threads") { Description = "Worker threads.", DefaultValueFactory = _ => Environment.ProcessorCount };
         var output = new Option<string?>("--out") { Description = "Output folder (default: <model>-sweep-<start time>)." };
-        var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty folder." };
+        var force = new Option<bool>("--force") { Description = "Replace the sweep in an existing, non-empty folder: its files are removed first (a folder holding files copynumber did not write is refused)." };
         var contrastOptions = new ContrastOptions();
 
         var command = new Command("sweep", "Simulate the model at several system sizes and report from which size the rate equations are adequate.");
@@ -58,7 +58,8 @@ internal static class SweepCommand
             var modelPath = parsed.GetValue(model)!;
             var baseModel = ModelArgument.Load(modelPath);
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);
-            var root = OutputFolder.CreateFresh(parsed.GetValue(output), baseModel.Network.Name + "-sweep", DateTimeOffset.Now, parsed.GetValue(force));
+            using var claim = OutputFolder.Claim(parsed.GetValue(output), baseModel.Network.Name + "-sweep", DateTimeOffset.Now, parsed.GetValue(force), takeOver: false, "sweep");
+            var root = claim.Folder;
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
 
