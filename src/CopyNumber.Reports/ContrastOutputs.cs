@@ -8,19 +8,29 @@ namespace CopyNumber.Reports;
 public static class ContrastOutputs
 {
     /// <summary>File names inside the run folder.</summary>
-    public const string TableFile = "contrast.parquet", MarkdownFile = "report.md", HtmlFile = "report.html";
+    public const string TableFile = RunFiles.Contrast, MarkdownFile = RunFiles.ReportMarkdown, HtmlFile = RunFiles.ReportHtml;
 
     /// <summary>Computes the contrast of the run in <paramref name="folder"/> and writes its table and reports.</summary>
+    /// <remarks>The folder is claimed while it is written (<see cref="FolderClaim"/>; within a run that holds it the
+    /// claim nests), and the previous contrast's table, reports and figures are removed before the new ones are
+    /// written, so no figure of an earlier contrast survives beside the new report.</remarks>
+    /// <param name="folder">The run folder.</param>
+    /// <param name="thresholds">The verdicts' thresholds.</param>
+    /// <param name="histogramTimes">Times whose histograms the report draws.</param>
+    /// <param name="heatmapQuantity">The quantity drawn as a heatmap, or null.</param>
+    /// <param name="takeOver">Take over a claim on the folder by a run on another host (or one that ended without releasing it).</param>
     /// <returns>The contrast and the files written.</returns>
     public static (RunContrastResult Contrast, IReadOnlyList<string> Files) Write(
-        string folder, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity)
+        string folder, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity, bool takeOver = false)
     {
+        using var claim = FolderClaim.Take(folder, "contrast", takeOverStale: false, takeOver);
         var run = RunFolder.Read(folder);
         ContrastReport.CheckChoices(run.Quantities.Select(q => q.Name).ToList(), run.Times[^1], histogramTimes, heatmapQuantity);
         var contrast = RunContrast.Compute(run, thresholds);
         var metadata = Provenance.For(run.Manifest.ModelFile, run.ModelText,
             new Dictionary<string, string> { ["command"] = "contrast", ["z"] = thresholds.Z.ToString("R", System.Globalization.CultureInfo.InvariantCulture) },
             DateTimeOffset.UtcNow);
+        FolderContents.RemoveContrastOutputs(folder);
         var table = Path.Combine(folder, TableFile);
         ContrastTable.Write(table, contrast.Quantities, metadata);
         var report = ContrastReport.Build(contrast, thresholds, histogramTimes, heatmapQuantity);

@@ -1,5 +1,3 @@
-using System.Text;
-
 namespace CopyNumber.Reports;
 
 /// <summary>
@@ -7,14 +5,14 @@ namespace CopyNumber.Reports;
 /// folder beside it) or as one self-contained HTML file. The report is checked first, so a report that
 /// cannot be written writes nothing; problems with the report or with the files raise
 /// <see cref="ReportException"/> with a message naming what is wrong. Text is UTF-8 without a byte-order
-/// mark, lines end in "\n", and existing files of the same names are replaced.
+/// mark, lines end in "\n", and existing files of the same names are replaced. Every file is written
+/// through a temporary name and renamed into place (<see cref="Storage.AtomicFile"/>), so a full disk leaves
+/// the old file or none under the final name, never a truncated one.
 /// </summary>
 public static class ReportWriter
 {
     /// <summary>Name of the folder, beside the Markdown file, that holds its figures.</summary>
     public const string FigureFolder = "figures";
-
-    private static readonly UTF8Encoding Utf8 = new(encoderShouldEmitUTF8Identifier: false);
 
     /// <summary>
     /// The report as CommonMark text whose figures are image links to
@@ -47,8 +45,8 @@ public static class ReportWriter
             string figures = Path.Combine(Path.GetFullPath(folder), FigureFolder);
             Directory.CreateDirectory(figures);
             foreach (var figure in report.Sections.SelectMany(s => s.Figures))
-                File.WriteAllBytes(Path.Combine(figures, figure.FileName), figure.Png);
-            File.WriteAllText(path, markdown, Utf8);
+                Storage.AtomicFile.WriteAllBytes(Path.Combine(figures, figure.FileName), figure.Png);
+            Storage.AtomicFile.WriteAllText(path, markdown);
             return path;
         });
     }
@@ -75,7 +73,7 @@ public static class ReportWriter
         {
             string full = Path.GetFullPath(path);
             if (Path.GetDirectoryName(full) is { Length: > 0 } directory) Directory.CreateDirectory(directory);
-            File.WriteAllText(full, html, Utf8);
+            Storage.AtomicFile.WriteAllText(full, html);
             return full;
         });
     }

@@ -25,7 +25,11 @@ public static class RunMerge
     /// <summary>Merges <paramref name="inputs"/> into the folder <paramref name="output"/>, which must be new or empty unless <paramref name="force"/> is set.</summary>
     /// <exception cref="RunFolderException">An input cannot be read, the inputs belong to different runs (model, grid, seed, method, …), or two hold the same block.</exception>
     /// <exception cref="OutputException">A file could not be written, or the output folder is one of the inputs.</exception>
-    public static MergeOutcome Execute(IReadOnlyList<string> inputs, string output, bool force = false)
+    /// <param name="inputs">The run folders to merge.</param>
+    /// <param name="output">The folder to write; claimed for the merge (<see cref="FolderClaim"/>).</param>
+    /// <param name="force">Replace the run in a non-empty <paramref name="output"/>.</param>
+    /// <param name="takeOver">Take over a claim on <paramref name="output"/> by a run on another host.</param>
+    public static MergeOutcome Execute(IReadOnlyList<string> inputs, string output, bool force = false, bool takeOver = false)
     {
         ArgumentNullException.ThrowIfNull(inputs);
         if (inputs.Count == 0) throw new ArgumentException("at least one run folder is needed", nameof(inputs));
@@ -62,7 +66,8 @@ public static class RunMerge
         var network = loaded.Model.Network;
         var combined = runs.Select(r => r.Load(network)).Aggregate(EnsembleResult.Combine);
 
-        var folder = OutputFolder.CreateFresh(output, network.Name, DateTimeOffset.Now, force);
+        using var claim = OutputFolder.Claim(output, network.Name, DateTimeOffset.Now, force, takeOver, "merge");
+        var folder = claim.Folder;
         var arguments = new Dictionary<string, string>(first.Manifest.Arguments, StringComparer.Ordinal)
         {
             [ManifestFields.ShardArgument] = combined.Shard.ToString(),

@@ -42,6 +42,9 @@ public sealed record SimulationRequest(RunPlan Plan, string Folder)
 
     /// <summary>A fixed size for the validation sample (no time rule); null for the sizing rule of <see cref="ValidationSample"/>.</summary>
     public long? ValidationReplicates => Plan.Specification.ValidationReplicates;
+
+    /// <summary>Opens the temporary file paths.parquet is built in; tests put a disk that fills up here. Null for the real file.</summary>
+    internal Func<string, Stream>? OpenPathsFile { get; init; }
 }
 
 /// <summary>What a run produced.</summary>
@@ -74,6 +77,9 @@ public sealed record SimulationOutcome(
 
     /// <summary>The method the summaries come from: the request's, or the direct method after a fallback.</summary>
     public SimulationMethod Method { get; init; }
+
+    /// <summary>Why paths.parquet could not be written (e.g. the disk filled); the paths were dropped, the summaries written, and the manifest says so. Null when the paths were written or not asked for.</summary>
+    public string? PathsFailure { get; init; }
 }
 
 /// <summary>
@@ -90,6 +96,8 @@ public static class SimulationRun
     public static SimulationOutcome Execute(SimulationRequest request, EnsembleMonitor? monitor = null, CancellationToken cancel = default)
     {
         ArgumentNullException.ThrowIfNull(request);
+        // The folder is held for the whole run (nested in the caller's claim when it holds it already).
+        using var claim = FolderClaim.Take(request.Folder, "simulate", takeOverStale: request.Resume, takeOver: false);
         var started = DateTimeOffset.UtcNow;
         var clock = System.Diagnostics.Stopwatch.StartNew();
         var model = request.Model;
@@ -126,7 +134,7 @@ public static class SimulationRun
         using var wallLimit = new CancellationTokenSource();
         if (request.WallLimit is { } limit) wallLimit.CancelAfter(ClampedDelay(limit - clock.Elapsed));
         using var stop = CancellationTokenSource.CreateLinkedTokenSource(cancel, wallLimit.Token);
-        var (combined, failure) = RunEnsemble(request, options, prior, priorHasPaths, identity, monitor, stop.Token, files);
+        var (combined, failure, pathsFailure) = RunEnsemble(request, options, prior, priorHasPaths, identity, monitor, stop.Token, files);
 
         // The validation sample (docs/methods.md): a finished tau-leaping run, and of a sharded run the first
         // shard only, compares itself with exact replicates; a stored sample is reused on resuming.
@@ -154,7 +162,7 @@ public static class SimulationRun
                     // auto falls back to the exact method: the whole run again, every replicate with its own stream.
                     var exact = options with { Method = SimulationMethod.Direct, SkipBlocks = new HashSet<long>() };
                     monitor?.Restart();
-                    (combined, failure) = RunEnsemble(request, exact, prior: null, priorHasPaths: false, identity, monitor, stop.Token, files: null);
+                    (combined, failure, pathsFailure) = RunEnsemble(request, exact, prior: null, priorHasPaths: false, identity, monitor, stop.Token, files: null);
                     method = SimulationMethod.Direct;
                     options = exact;
                     methodReason += "; the validation sample found a tau-leaping error beyond the tolerance, so the run was redone with the exact direct method";
@@ -168,6 +176,7 @@ public static class SimulationRun
             : wallLimit.IsCancellationRequested && !cancel.IsCancellationRequested ? StopReason.WallLimit
             : StopReason.Interrupted;
         var manifest = SummaryFiles.Manifest(identity, combined, method.ToString(), options.Threads, reason, failure, methodReason, deterministicFailure, validation);
+        if (pathsFailure is not null) manifest.Extra[ManifestFields.PathsFailure] = pathsFailure;
         var manifestPath = Path.Combine(request.Folder, RunFiles.Manifest);
         manifest.WriteAtomic(manifestPath);
         files.Add(manifestPath);
@@ -179,17 +188,18 @@ public static class SimulationRun
             Validation = validation,
             ValidationFailure = validationFailure,
             Method = method,
+            PathsFailure = pathsFailure,
         };
     }
 
-    /// <summary>Runs the ensemble (writing paths as it goes) and combines it with the resumed part; the failure message, if a replicate failed.</summary>
-    private static (EnsembleResult Combined, string? Failure) RunEnsemble(
+    /// <summary>Runs the ensemble (writing paths as it goes) and combines it with the resumed part; the failure message, if a replicate failed, and why the paths were dropped, if they were.</summary>
+    private static (EnsembleResult Combined, string? Failure, string? PathsFailure) RunEnsemble(
         SimulationRequest request, EnsembleOptions options, EnsembleResult? prior, bool priorHasPaths, RunIdentity identity,
         EnsembleMonitor? monitor, CancellationToken cancel, List<string>? files)
     {
         var model = request.Model;
         var pathsFile = Path.Combine(request.Folder, priorHasPaths ? RunFiles.ResumedPaths : RunFiles.Paths);
-        PathsTable? paths = options.PathReplicates > 0 ? new PathsTable(pathsFile, model.Network, options.Grid, identity.Provenance(null)) : null;
+        PathsTable? paths = options.PathReplicates > 0 ? new PathsTable(pathsFile, model.Network, options.Grid, identity.Provenance(null), request.OpenPathsFile) : null;
         EnsembleResult result;
         string? failure = null;
         try
@@ -211,6 +221,8 @@ public static class SimulationRun
         }
 
         var combined = prior is null ? result : EnsembleResult.Combine(prior, result);
+        // A paths table that failed (a full disk) was dropped and its space given back: the summaries still get written.
+        if (paths?.FailureText is { } pathsFailure) return (combined, failure, pathsFailure);
         if (paths is not null)
         {
             var final = Path.Combine(request.Folder, RunFiles.Paths);
@@ -221,7 +233,7 @@ public static class SimulationRun
             }
             if (files is not null && !files.Contains(final)) files.Add(final);
         }
-        return (combined, failure);
+        return (combined, failure, null);
     }
 
     private static TimeSpan ClampedDelay(TimeSpan delay) =>

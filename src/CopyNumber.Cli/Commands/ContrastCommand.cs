@@ -14,6 +14,8 @@ internal static class ContrastCommand
         var command = new Command("contrast", "Set a simulate run against its rate equations, linear noise approximation and corrected mean; write contrast.parquet, report.md and report.html.");
         command.Arguments.Add(folder);
         options.AddTo(command);
+        var takeOver = TakeOverOption.Create();
+        command.Options.Add(takeOver);
         command.SetAction(parsed =>
         {
             var thresholds = options.Thresholds(parsed);
@@ -22,7 +24,7 @@ internal static class ContrastCommand
             if (!Directory.Exists(dir)) throw new UserInputException($"'{Paths.Shown(dir)}' is not a folder written by simulate");
             if (!File.Exists(Path.Combine(dir, Storage.RunFiles.Manifest)))
                 throw new UserInputException($"'{Paths.Shown(dir)}' has no {Storage.RunFiles.Manifest}: it is not a folder written by simulate");
-            var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap));
+            var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap), parsed.GetValue(takeOver));
             var writer = parsed.InvocationConfiguration.Output;
             writer.Write(ContrastOptions.RenderVerdicts(contrast));
             writer.WriteLine($"wrote {Paths.Shown(files)}");

@@ -12,11 +12,13 @@ internal static class MergeCommand
     {
         var folders = new Argument<string[]>("folders") { Description = "Run folders of the same run (shards, or an earlier merge and the shards it lacked).", Arity = ArgumentArity.OneOrMore };
         var output = new Option<string>("--out") { Description = "The folder to write the merged run into (new or empty).", Required = true };
-        var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
+        var force = new Option<bool>("--force") { Description = "Replace the run in an existing, non-empty output folder: its files are removed first (a folder holding files copynumber did not write is refused)." };
+        var takeOver = TakeOverOption.Create();
         var command = new Command("merge", "Combine the shards of a run into one folder with the same files and results as one run of all the replicates.");
         command.Arguments.Add(folders);
         command.Options.Add(output);
         command.Options.Add(force);
+        command.Options.Add(takeOver);
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations for a complete merge." };
         var contrastOptions = new ContrastOptions();
         command.Options.Add(noContrast);
@@ -26,7 +28,7 @@ internal static class MergeCommand
             var inputs = parsed.GetValue(folders)!;
             var thresholds = contrastOptions.Thresholds(parsed);
             var histogramTimes = contrastOptions.Times(parsed);
-            var outcome = RunMerge.Execute(inputs, parsed.GetValue(output)!, parsed.GetValue(force));
+            var outcome = RunMerge.Execute(inputs, parsed.GetValue(output)!, parsed.GetValue(force), parsed.GetValue(takeOver));
             var result = outcome.Ensemble;
             var folder = Path.GetDirectoryName(outcome.Files[^1])!;
             parsed.InvocationConfiguration.Output.WriteLine(

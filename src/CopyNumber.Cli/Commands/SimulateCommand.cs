@@ -19,7 +19,8 @@ internal static class SimulateCommand
         var grid = new GridOptions(required: false);
         var ensemble = new EnsembleOptionSet("Number of independent replicates (required unless --resume).", withShard: true);
         var output = new Option<string?>("--out") { Description = "Output folder (default: <model>-<start time> in the current folder)." };
-        var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
+        var force = new Option<bool>("--force") { Description = "Replace the run in an existing, non-empty output folder: its files are removed first (a folder holding files copynumber did not write is refused)." };
+        var takeOver = TakeOverOption.Create();
         var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder; MODEL and every option may be left out (they take the stored values), options given must agree with the stored run; finished blocks are kept." };
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
@@ -28,13 +29,16 @@ internal static class SimulateCommand
         command.Arguments.Add(model);
         grid.AddTo(command);
         ensemble.AddTo(command);
-        foreach (var option in new Option[] { output, force, resume, noContrast })
+        foreach (var option in new Option[] { output, force, resume, noContrast, takeOver })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
         command.SetAction(parsed =>
         {
             var resumeFolder = parsed.GetValue(resume);
+            // The run's claim on its folder lasts until the contrast is written (issue 10: exclusive output folders).
+            using var resumeClaim = resumeFolder is not null && Directory.Exists(resumeFolder)
+                ? FolderClaim.Take(resumeFolder, "simulate --resume", takeOverStale: true, parsed.GetValue(takeOver)) : null;
             var stored = resumeFolder is null ? null : StoredRun.Open(resumeFolder);
             if (stored is not null && parsed.GetResult(output) is { Implicit: false })
                 throw new UserInputException("--resume continues the run in its own folder; leave out --out");
@@ -60,9 +64,13 @@ internal static class SimulateCommand
             var plan = RunPlan.Make(specification, storedSettings);
             SimulationOutcome outcome;
             string folder;
+            // The run's claim on its folder lasts until the contrast is written (exclusive output folders).
+            using var freshClaim = stored is null ? OutputFolder.Claim(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force), parsed.GetValue(takeOver)) : null;
+            if ((freshClaim ?? resumeClaim)?.Replaced is { } replaced)
+                error.WriteLine($"warning: took over the claim on {Paths.Shown(stored?.Folder ?? freshClaim!.Folder)} left by {replaced.Describe()}");
             using (session.Honour())
             {
-                folder = stored?.Folder ?? OutputFolder.CreateFresh(parsed.GetValue(output), loaded.Network.Name, DateTimeOffset.Now, parsed.GetValue(force));
+                folder = stored?.Folder ?? freshClaim!.Folder;
                 var request = new SimulationRequest(plan, folder) { Resume = stored is not null };
                 var shardText = specification.Shard.IsWhole ? "" : $", shard {specification.Shard}";
                 var toRun = ShardReplicates(plan.Ensemble) - (stored?.Manifest.ReplicatesFinished ?? 0);
@@ -110,6 +118,8 @@ internal static class SimulateCommand
         }
         if (outcome.ValidationFailure is not null)
             error.WriteLine($"warning: the validation sample could not be run ({outcome.ValidationFailure}); the leaping error is not measured");
+        if (outcome.PathsFailure is not null)
+            error.WriteLine($"error: {outcome.PathsFailure}; the summary tables and manifest.json were written without them (manifest: {ManifestFields.PathsFailure})");
         writer.Write(RenderFinal(outcome));
         writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {Paths.Shown(folder)}");
         if (result.ReplicatesStoppedEarly > 0)
@@ -128,7 +138,7 @@ internal static class SimulateCommand
                 error.WriteLine($"interrupted: {partial}");
                 return ExitCodes.Interrupted;
             default:
-                return ExitCodes.Done;
+                return outcome.PathsFailure is null ? ExitCodes.Done : ExitCodes.RunFailed;
         }
     }
 

@@ -27,7 +27,7 @@ internal static class SweepCommand
         var sizes = new Option<string>("--sizes") { Description = "System sizes Ω, comma-separated, e.g. 1,10,100,1000.", Required = true };
         var ensemble = new EnsembleOptionSet("Replicates at each size (required).", withShard: false);
         var output = new Option<string?>("--out") { Description = "Output folder (default: <model>-sweep-<start time>)." };
-        var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty folder." };
+        var force = new Option<bool>("--force") { Description = "Replace the sweep in an existing, non-empty folder: its files are removed first (a folder holding files copynumber did not write is refused)." };
         var contrastOptions = new ContrastOptions();
 
         var command = new Command("sweep", "Simulate the model at several system sizes and report from which size the rate equations are adequate.");
@@ -48,7 +48,8 @@ internal static class SweepCommand
             // One seed for every size, drawn once when not given.
             var baseSpecification = ensemble.Bind(parsed, baseModel, timeGrid, stored: null, "sweep");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);
-            var root = OutputFolder.CreateFresh(parsed.GetValue(output), baseModel.Network.Name + "-sweep", DateTimeOffset.Now, parsed.GetValue(force));
+            using var claim = OutputFolder.Claim(parsed.GetValue(output), baseModel.Network.Name + "-sweep", DateTimeOffset.Now, parsed.GetValue(force), takeOver: false, "sweep");
+            var root = claim.Folder;
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
 

@@ -33,6 +33,9 @@ public static class ManifestFields
     /// <summary>Why the rate equations could not be solved, when they could not.</summary>
     public const string DeterministicFailure = "deterministic_failure";
 
+    /// <summary>Why paths.parquet was dropped (a full disk while writing it); absent when the paths were written or not asked for.</summary>
+    public const string PathsFailure = "paths_failure";
+
     /// <summary>
     /// Switches per replicate of each two-state species over [0, T] (array of objects, one per species:
     /// species, over, replicates, excluded_replicates, mean, variance, std_error, mean_rate, switches_sum,

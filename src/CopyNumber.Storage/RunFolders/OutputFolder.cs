@@ -13,35 +13,59 @@ public static class OutputFolder
     private const int MaxSuffix = 99;
 
     /// <summary>
-    /// Creates (if needed) and returns the full path of the run's output folder.
+    /// Creates (if needed) and claims the run's output folder (<see cref="FolderClaim"/>): the claim is taken
+    /// before the folder is checked for being empty, so no other run can slip in between the check and the
+    /// first write. Dispose the claim when the last file is written.
     /// </summary>
     /// <param name="requested">
     /// The folder the user named, relative to the current directory or absolute; <c>null</c> or blank
     /// for the default name. A named folder may exist if it is empty; if it holds anything it is refused
-    /// unless <paramref name="force"/> is set, in which case it is used as it is (nothing is deleted, and
-    /// files of the same names are replaced).
+    /// unless <paramref name="force"/> is set, in which case the files of the earlier run are removed first
+    /// (<see cref="FolderContents.ClearForNewRun"/>; a folder holding files we did not write is refused).
     /// </param>
     /// <param name="modelName">The model's name, usually its file name without extension; characters other
     /// than ASCII letters, digits, '-', '_' and '.' become '_' so the folder name is valid on every file system.</param>
     /// <param name="start">The run's start; the default name shows its clock time in the offset it carries
     /// (pass <see cref="DateTimeOffset.Now"/> for local time).</param>
-    /// <param name="force">Allow writing into a non-empty folder the user named.</param>
-    /// <remarks>A default name already taken by a non-empty folder (two runs in one second) gets a suffix
+    /// <param name="force">Write over the run in a non-empty folder the user named, taking over its claim if its process is gone from this host.</param>
+    /// <param name="takeOver">Take over a claim the holder cannot be checked for (another host's, or an unreadable one).</param>
+    /// <param name="command">The command claiming, named to other runs refused the folder.</param>
+    /// <remarks>A default name already taken by a non-empty or claimed folder (two runs in one second) gets a suffix
     /// <c>-2</c>, <c>-3</c>, … instead of being refused, since the user did not choose it.</remarks>
-    /// <exception cref="OutputException">The folder is refused, is a file, or cannot be created.</exception>
-    public static string CreateFresh(string? requested, string modelName, DateTimeOffset start, bool force) =>
-        CreateFresh(requested, modelName, start, force, Directory.GetCurrentDirectory());
+    /// <exception cref="OutputException">The folder is refused (not empty, in use, is a file), or cannot be created.</exception>
+    public static FolderClaim Claim(string? requested, string modelName, DateTimeOffset start, bool force, bool takeOver = false, string command = "simulate") =>
+        Claim(requested, modelName, start, force, takeOver, command, Directory.GetCurrentDirectory());
 
-    /// <summary>As the public overload, with the default name placed under <paramref name="baseDirectory"/> instead of the current directory.</summary>
-    internal static string CreateFresh(string? requested, string modelName, DateTimeOffset start, bool force, string baseDirectory)
+    /// <summary>As <see cref="Claim(string?, string, DateTimeOffset, bool, bool, string)"/>, releasing the claim at once; for tests of the naming and emptiness rules.</summary>
+    internal static string CreateFresh(string? requested, string modelName, DateTimeOffset start, bool force, string? baseDirectory = null)
+    {
+        using var claim = Claim(requested, modelName, start, force, takeOver: false, "test", baseDirectory ?? Directory.GetCurrentDirectory());
+        return claim.Folder;
+    }
+
+    private static FolderClaim Claim(string? requested, string modelName, DateTimeOffset start, bool force, bool takeOver, string command, string baseDirectory)
     {
         ArgumentNullException.ThrowIfNull(modelName);
         if (!string.IsNullOrWhiteSpace(requested))
         {
             var full = AtomicFile.FullPath(Path.Combine(baseDirectory, requested));
-            if (HoldsAnything(full) && !force)
-                throw new OutputException($"The output folder '{full}' already exists and is not empty; choose a new folder or allow writing into it.", full, refused: true);
-            return Create(full);
+            // Refused before anything is created in it, unless a claim there should name its holder instead.
+            if (HoldsAnything(full) && !force && !File.Exists(Path.Combine(full, RunFiles.Claim))) throw NotEmpty(full);
+            var claim = FolderClaim.Take(Create(full), command, takeOverStale: force, takeOver);
+            try
+            {
+                if (HoldsAnything(full))
+                {
+                    if (!force) throw NotEmpty(full);
+                    FolderContents.ClearForNewRun(full);
+                }
+                return claim;
+            }
+            catch
+            {
+                claim.Dispose();
+                throw;
+            }
         }
 
         var baseName = DefaultName(modelName, start);
@@ -49,11 +73,25 @@ public static class OutputFolder
         {
             var name = attempt == 1 ? baseName : $"{baseName}-{attempt.ToString(CultureInfo.InvariantCulture)}";
             var full = AtomicFile.FullPath(Path.Combine(baseDirectory, name));
-            if (!HoldsAnything(full)) return Create(full);
+            if (HoldsAnything(full) || File.Exists(Path.Combine(full, RunFiles.Claim))) continue;
+            FolderClaim claim;
+            try
+            {
+                claim = FolderClaim.Take(Create(full), command, takeOverStale: false, takeOver: false);
+            }
+            catch (OutputException e) when (e.IsRefusal)
+            {
+                continue; // another run took this name first
+            }
+            if (!HoldsAnything(full)) return claim;
+            claim.Dispose();
         }
         var first = AtomicFile.FullPath(Path.Combine(baseDirectory, baseName));
         throw new OutputException($"The output folder '{first}' and its numbered variants up to -{MaxSuffix} all exist already; name an output folder explicitly.", first, refused: true);
     }
+
+    private static OutputException NotEmpty(string full) =>
+        new($"The output folder '{full}' already exists and is not empty; choose a new folder, or replace the run in it with --force.", full, refused: true);
 
     /// <summary>The default folder name <c>&lt;model&gt;-&lt;yyyyMMdd-HHmmss&gt;</c> for a run of <paramref name="modelName"/> started at <paramref name="start"/>.</summary>
     public static string DefaultName(string modelName, DateTimeOffset start) =>
@@ -74,7 +112,7 @@ public static class OutputFolder
         if (File.Exists(full)) throw new OutputException($"The output folder '{full}' is an existing file.", full, refused: true);
         try
         {
-            return Directory.Exists(full) && Directory.EnumerateFileSystemEntries(full).Any();
+            return FolderContents.HoldsAnything(full);
         }
         catch (Exception e) when (AtomicFile.IsStorageFailure(e))
         {

@@ -8,9 +8,43 @@ public static class RunFiles
         Deterministic = "deterministic.parquet", Paths = "paths.parquet", Manifest = "manifest.json",
         ReadoutState = "readout-state.parquet", Validation = "validation.parquet";
 
+    /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files).</summary>
+    public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
+
+    /// <summary>What a size sweep writes into its folder beside one run folder per size (<see cref="SweepRunPrefix"/><c>&lt;size&gt;</c>) and the two reports.</summary>
+    public const string Sweep = "sweep.parquet", SweepRunPrefix = "size-";
+
+    /// <summary>
+    /// The claim of the run that holds the folder (host, process, start; see <see cref="FolderClaim"/>) and the
+    /// file its advisory lock is taken on. Both exist only while a run holds the folder, or after one died.
+    /// </summary>
+    public const string Claim = ".copynumber-claim", Lock = ".copynumber-lock";
+
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="Paths"/>.</summary>
     internal const string ResumedPaths = "paths-resumed.parquet";
 
     /// <summary>Footer key (after <see cref="Provenance.KeyPrefix"/>) of the finished blocks a table covers.</summary>
     public const string FinishedBlocksKey = "finished_blocks";
+
+    /// <summary>
+    /// Every file name a run folder may hold directly (tables, manifest, contrast outputs, claim and lock).
+    /// <c>--force</c> removes exactly these (and their unfinished <c>.partial-</c> siblings), and refuses a
+    /// folder holding anything else; a writer of a new file in a run folder must add its name here.
+    /// </summary>
+    public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
+    {
+        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, ResumedPaths,
+        Contrast, ReportMarkdown, ReportHtml, Claim, Lock,
+    };
+
+    /// <summary>Whether <paramref name="name"/> is a file name we write into a run folder: one of <see cref="Known"/> or a temporary sibling of one.</summary>
+    public static bool IsKnown(string name) =>
+        Known.Contains(BaseName(name));
+
+    /// <summary><paramref name="name"/> without an <see cref="AtomicFile.PartialMarker"/> suffix.</summary>
+    internal static string BaseName(string name)
+    {
+        var marker = name.IndexOf(AtomicFile.PartialMarker, StringComparison.Ordinal);
+        return marker < 0 ? name : name[..marker];
+    }
 }

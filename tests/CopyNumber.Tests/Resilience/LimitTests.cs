@@ -65,7 +65,7 @@ public partial class LimitTests
     }
 
     [Fact]
-    public void A_non_empty_output_folder_is_refused_with_exit_2_unless_forced()
+    public void A_non_empty_output_folder_is_refused_with_exit_2_and_force_does_not_take_a_folder_of_foreign_files()
     {
         using var scratch = new ScratchFolder();
         var model = WriteModel(scratch);
@@ -77,9 +77,11 @@ public partial class LimitTests
         Assert.Contains("already exists and is not empty", refused.Error);
         AssertNoStackTrace(refused);
         Assert.Equal(["notes.txt"], Directory.GetFiles(folder).Select(Path.GetFileName));
+        // --force replaces a run, never the user's files (issue 10, fault 11): a folder of foreign files stays refused.
         var forced = CliRun.Of("simulate", model, "--until", "1", "--every", "0.5", "--replicates", "10", "--seed", "1", "--out", folder, "--force");
-        Assert.Equal(0, forced.ExitCode);
-        Assert.True(File.Exists(Path.Combine(folder, RunFiles.Manifest)));
+        Assert.Equal(2, forced.ExitCode);
+        Assert.Contains("holds files copynumber did not write ('notes.txt')", forced.Error);
+        Assert.Equal(["notes.txt"], Directory.GetFiles(folder).Select(Path.GetFileName));
         Assert.Equal("mine", File.ReadAllText(Path.Combine(folder, "notes.txt")));
     }
 

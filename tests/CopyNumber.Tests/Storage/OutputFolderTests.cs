@@ -50,11 +50,16 @@ public sealed class OutputFolderTests
 
         var refusal = Assert.Throws<OutputException>(() => OutputFolder.CreateFresh("results", "toggle", Start, force: false, scratch.Path));
         Assert.Equal(named, refusal.Path);
-        Assert.Equal($"The output folder '{named}' already exists and is not empty; choose a new folder or allow writing into it.", refusal.Message);
+        Assert.Equal($"The output folder '{named}' already exists and is not empty; choose a new folder, or replace the run in it with --force.", refusal.Message);
 
-        Assert.Equal(named, OutputFolder.CreateFresh("results", "toggle", Start, force: true, scratch.Path));
-        // Forcing deletes nothing.
+        // Forcing replaces a run's own files only: a file we did not write is refused and kept.
+        var forced = Assert.Throws<OutputException>(() => OutputFolder.CreateFresh("results", "toggle", Start, force: true, scratch.Path));
+        Assert.True(forced.IsRefusal);
         Assert.Equal("earlier run", File.ReadAllText(Path.Combine(named, "keep.txt")));
+        File.Delete(Path.Combine(named, "keep.txt"));
+        File.WriteAllText(Path.Combine(named, RunFiles.Moments), "an earlier run's table");
+        Assert.Equal(named, OutputFolder.CreateFresh("results", "toggle", Start, force: true, scratch.Path));
+        Assert.Empty(Directory.EnumerateFileSystemEntries(named));
     }
 
     [Fact]
