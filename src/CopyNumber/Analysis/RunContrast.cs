@@ -38,8 +38,10 @@ public static class RunContrast
     /// The replicate count an exact law stands in for: no sampling error at all. An exact folder (manifest
     /// <see cref="ExactRun.ErrorKindField"/>) stores the mean's error bar from the projection bound in
     /// std_error; it enters the contrast as z·SE, so the half-width of every band is that error bar.
+    /// int.MaxValue (not more) because the exact binomial test of P(0) counts replicates in an int; at
+    /// 2.1·10⁹ its sampling terms are far below any threshold.
     /// </summary>
-    public const long ExactReplicates = long.MaxValue;
+    public const long ExactReplicates = int.MaxValue;
 
     /// <summary>Computes the contrast of <paramref name="run"/>.</summary>
     /// <exception cref="OutputException">The run folder lacks what a contrast needs (grid, model).</exception>
