@@ -18,7 +18,11 @@ public sealed record RunContrastResult(
     ReactionNetwork Network,
     IReadOnlyList<QuantityContrast> Quantities,
     SystemSizeExpansionSolution? Expansion,
-    string? ExpansionFailure);
+    string? ExpansionFailure)
+{
+    /// <summary>Where the error bars of the means come from: the sampling error of an ensemble, or an exact run's bounds.</summary>
+    public string ErrorSource { get; init; } = RunContrast.SamplingErrorSource;
+}
 
 /// <summary>
 /// Sets a finished run against its deterministic descriptions: recompiles the model from the text
@@ -28,6 +32,18 @@ public sealed record RunContrastResult(
 /// </summary>
 public static class RunContrast
 {
+    /// <summary><see cref="RunContrastResult.ErrorSource"/> of an ensemble run.</summary>
+    public const string SamplingErrorSource = "sampling: the standard error of the ensemble mean";
+
+    /// <summary>
+    /// The replicate count an exact law stands in for: no sampling error at all. An exact folder (manifest
+    /// <see cref="ExactRun.ErrorKindField"/>) stores the mean's error bar from the projection bound in
+    /// std_error; it enters the contrast as z·SE, so the half-width of every band is that error bar.
+    /// int.MaxValue (not more) because the exact binomial test of P(0) counts replicates in an int; at
+    /// 2.1·10⁹ its sampling terms are far below any threshold.
+    /// </summary>
+    public const long ExactReplicates = int.MaxValue;
+
     /// <summary>Computes the contrast of <paramref name="run"/>.</summary>
     /// <exception cref="OutputException">The run folder lacks what a contrast needs (grid, model).</exception>
     public static RunContrastResult Compute(RunFolder run, ContrastThresholds? thresholds = null, SolverOptions? solver = null)
@@ -55,6 +71,8 @@ public static class RunContrast
             failure = e.Message;
         }
 
+        var exact = manifest.ExtraText(ExactRun.ErrorKindField) == ExactRun.ExactErrorKind;
+        var z = (thresholds ?? ContrastThresholds.Default).Z;
         var zeroOne = ZeroOneSpecies.Of(network);
         var switching = SwitchingJson.Read(manifest, network, grid.Until).Where(x => x.Replicates > 0).ToDictionary(x => x.Species);
         var contrasts = new List<QuantityContrast>();
@@ -64,11 +82,12 @@ public static class RunContrast
             var points = new List<ContrastPoint>(run.Times.Length);
             for (var k = 0; k < run.Times.Length; k++)
             {
-                if (series.Replicates[k] < 1) break; // replicates stopped early leave later times empty
+                if (!exact && series.Replicates[k] < 1) break; // replicates stopped early leave later times empty
+                var replicates = exact ? ExactReplicates : series.Replicates[k];
                 var (counts, probabilities) = run.Distribution(series.Name, k);
-                var histogram = counts.Length > 0 ? CountDistribution.FromProbabilities(counts, probabilities, series.Replicates[k]) : null;
+                var histogram = counts.Length > 0 ? CountDistribution.FromProbabilities(counts, probabilities, exact ? double.PositiveInfinity : replicates) : null;
                 var deterministic = double.IsNaN(series.Deterministic[k]) && column >= 0 ? expansion!.RateEquationValue(k, column) : series.Deterministic[k];
-                points.Add(new ContrastPoint(run.Times[k], series.Replicates[k], series.Mean[k], series.Variance[k], series.StandardError[k],
+                points.Add(new ContrastPoint(run.Times[k], replicates, series.Mean[k], series.Variance[k], exact ? series.StandardError[k] / z : series.StandardError[k],
                     series.ZeroFraction[k], histogram, deterministic,
                     column >= 0 ? expansion!.Variance(k, column) : double.NaN,
                     column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN));
@@ -78,7 +97,7 @@ public static class RunContrast
                 points[^1] = points[^1] with { SwitchesPerReplicate = switches.Mean };
             if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name)));
         }
-        return new RunContrastResult(run, network, contrasts, expansion, failure);
+        return new RunContrastResult(run, network, contrasts, expansion, failure) { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource };
     }
 
     private static double ReadArgument(RunFolder run, string name) =>

@@ -16,7 +16,14 @@ public static class DistributionsTable
     public static readonly IReadOnlyList<string> ColumnNames = ["time", "species", "count", "probability", "frequency"];
 
     /// <summary>Writes the histograms, a row group per batch of roughly a million rows.</summary>
-    public static void Write(string path, EnsembleResult result, IReadOnlyDictionary<string, string> metadata)
+    public static void Write(string path, EnsembleResult result, IReadOnlyDictionary<string, string> metadata) =>
+        Write(path, Rows(result), metadata);
+
+    /// <summary>
+    /// Writes rows given in file order (time, then quantity, then increasing count), a row group per batch of
+    /// roughly a million rows. An exact law (from the master equation) has no replicates: its frequency is 0.
+    /// </summary>
+    public static void Write(string path, IEnumerable<DistributionRow> rows, IReadOnlyDictionary<string, string> metadata)
     {
         ColumnSpec[] columns =
         [
@@ -35,6 +42,23 @@ public static class DistributionsTable
             writer.WriteRowGroup([time.ToArray(), name.ToArray(), count.ToArray(), probability.ToArray(), frequencies.ToArray()]);
             time.Clear(); name.Clear(); count.Clear(); probability.Clear(); frequencies.Clear();
         }
+        foreach (var row in rows)
+        {
+            // Row groups end between times only, as before.
+            if (time.Count >= 1_000_000 && time[^1] != row.Time) FlushGroup();
+            time.Add(row.Time);
+            name.Add(row.Quantity);
+            count.Add(row.Count);
+            probability.Add(row.Probability);
+            frequencies.Add(row.Frequency);
+        }
+        FlushGroup();
+        if (writer.RowsWritten == 0) writer.WriteRowGroup([Array.Empty<double>(), Array.Empty<string>(), Array.Empty<long>(), Array.Empty<double>(), Array.Empty<long>()]);
+        writer.Complete();
+    }
+
+    private static IEnumerable<DistributionRow> Rows(EnsembleResult result)
+    {
         for (var k = 0; k < result.Grid.Count; k++)
         {
             for (var q = 0; q < result.CountQuantities.Count; q++)
@@ -42,19 +66,9 @@ public static class DistributionsTable
                 var histogram = result.Histogram(k, q);
                 var total = (double)histogram.Total;
                 foreach (var (value, frequency) in histogram)
-                {
-                    time.Add(result.Grid[k]);
-                    name.Add(result.CountQuantities[q].Name);
-                    count.Add(value);
-                    probability.Add(frequency / total);
-                    frequencies.Add(frequency);
-                }
+                    yield return new DistributionRow(result.Grid[k], result.CountQuantities[q].Name, value, frequency / total, frequency);
             }
-            if (time.Count >= 1_000_000) FlushGroup();
         }
-        FlushGroup();
-        if (writer.RowsWritten == 0) writer.WriteRowGroup([Array.Empty<double>(), Array.Empty<string>(), Array.Empty<long>(), Array.Empty<double>(), Array.Empty<long>()]);
-        writer.Complete();
     }
 
     /// <summary>
@@ -85,3 +99,11 @@ public static class DistributionsTable
         return histograms;
     }
 }
+
+/// <summary>One row of <c>distributions.parquet</c>.</summary>
+/// <param name="Time">Grid time.</param>
+/// <param name="Quantity">Species or count readout.</param>
+/// <param name="Count">The copy number.</param>
+/// <param name="Probability">Its probability at that time.</param>
+/// <param name="Frequency">Replicates with that count (0 for an exact law).</param>
+public readonly record struct DistributionRow(double Time, string Quantity, long Count, double Probability, long Frequency);

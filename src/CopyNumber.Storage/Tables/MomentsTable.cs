@@ -19,7 +19,14 @@ public static class MomentsTable
     ];
 
     /// <summary>Writes the table; one row group per block of grid points keeps memory flat for long grids.</summary>
-    public static void Write(string path, EnsembleResult result, DeterministicSolution? deterministic, IReadOnlyDictionary<string, string> metadata)
+    public static void Write(string path, EnsembleResult result, DeterministicSolution? deterministic, IReadOnlyDictionary<string, string> metadata) =>
+        Write(path, Rows(result, deterministic), metadata);
+
+    /// <summary>
+    /// Writes rows given in file order (time, then quantity), a row group per block of about 65 536 rows
+    /// ending between times. <see cref="MomentRow.Statistics"/> holds the columns from mean to p_zero in file order.
+    /// </summary>
+    public static void Write(string path, IEnumerable<MomentRow> rows, IReadOnlyDictionary<string, string> metadata)
     {
         var columns = ColumnNames.Select(n => new ColumnSpec(n, n switch
         {
@@ -28,55 +35,72 @@ public static class MomentsTable
             _ => ColumnType.Double,
         })).ToArray();
         using var writer = ParquetTableWriter.Create(path, columns, metadata);
-        var quantities = result.Quantities;
-        var deterministicColumn = quantities.Select(q => deterministic is null ? -1 : IndexOf(deterministic.Columns, q.Name)).ToArray();
-        const int pointsPerGroup = 4096;
-        for (var start = 0; start < result.Grid.Count; start += pointsPerGroup)
+        var time = new List<double>();
+        var name = new List<string>();
+        var replicates = new List<long>();
+        var stats = Enumerable.Range(0, StatisticsCount + 1).Select(_ => new List<double>()).ToArray();
+        void FlushGroup()
         {
-            var end = Math.Min(result.Grid.Count, start + pointsPerGroup);
-            var rows = (end - start) * quantities.Count;
-            var time = new double[rows];
-            var name = new string[rows];
-            var replicates = new long[rows];
-            var stats = Enumerable.Range(0, 14).Select(_ => new double[rows]).ToArray();
-            var row = 0;
-            for (var k = start; k < end; k++)
-            {
-                int countIndex = 0, realIndex = 0;
-                for (var q = 0; q < quantities.Count; q++, row++)
-                {
-                    time[row] = result.Grid[k];
-                    name[row] = quantities[q].Name;
-                    double[] values;
-                    if (quantities[q].IsCount && result.Histogram(k, countIndex).IsEmpty)
-                    {
-                        // No replicate recorded this time (none finished yet, or all stopped early).
-                        countIndex++;
-                        replicates[row] = 0;
-                        values = Enumerable.Repeat(double.NaN, 13).ToArray();
-                    }
-                    else if (quantities[q].IsCount)
-                    {
-                        var s = DistributionSummary.From(result.Histogram(k, countIndex++));
-                        replicates[row] = s.Replicates;
-                        values = [s.Mean, s.Variance, s.StandardError, s.FanoFactor, s.SquaredCoefficientOfVariation, s.Minimum, s.Quantile05, s.Quantile25, s.Median, s.Quantile75, s.Quantile95, s.Maximum, s.ZeroFraction];
-                    }
-                    else
-                    {
-                        var m = result.Moments(k, realIndex++);
-                        replicates[row] = m.Count;
-                        var se = m.Count > 0 ? Math.Sqrt(m.Variance / m.Count) : double.NaN;
-                        values = [m.Mean, m.Variance, se, NoiseRatios.Fano(m.Mean, m.Variance, m.Minimum), NoiseRatios.SquaredCoefficientOfVariation(m.Mean, m.Variance, m.Minimum), m.Minimum,
-                            double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, m.Maximum, double.NaN];
-                    }
-                    for (var c = 0; c < values.Length; c++) stats[c][row] = values[c];
-                    stats[13][row] = deterministicColumn[q] >= 0 ? deterministic!.Values[k, deterministicColumn[q]] : double.NaN;
-                }
-            }
-            writer.WriteRowGroup([time, name, replicates, .. stats]);
+            writer.WriteRowGroup([time.ToArray(), name.ToArray(), replicates.ToArray(), .. stats.Select(s => s.ToArray())]);
+            time.Clear(); name.Clear(); replicates.Clear();
+            foreach (var s in stats) s.Clear();
         }
+        foreach (var row in rows)
+        {
+            if (time.Count >= 65_536 && time[^1] != row.Time) FlushGroup();
+            time.Add(row.Time);
+            name.Add(row.Quantity);
+            replicates.Add(row.Replicates);
+            for (var c = 0; c < StatisticsCount; c++) stats[c].Add(row.Statistics[c]);
+            stats[StatisticsCount].Add(row.Deterministic);
+        }
+        if (time.Count > 0 || writer.RowsWritten == 0) FlushGroup();
         writer.Complete();
     }
+
+    /// <summary>The statistics columns between replicates and deterministic (mean … p_zero).</summary>
+    public const int StatisticsCount = 13;
+
+    private static IEnumerable<MomentRow> Rows(EnsembleResult result, DeterministicSolution? deterministic)
+    {
+        var quantities = result.Quantities;
+        var deterministicColumn = quantities.Select(q => deterministic is null ? -1 : IndexOf(deterministic.Columns, q.Name)).ToArray();
+        for (var k = 0; k < result.Grid.Count; k++)
+        {
+            int countIndex = 0, realIndex = 0;
+            for (var q = 0; q < quantities.Count; q++)
+            {
+                long replicates;
+                double[] values;
+                if (quantities[q].IsCount && result.Histogram(k, countIndex).IsEmpty)
+                {
+                    // No replicate recorded this time (none finished yet, or all stopped early).
+                    countIndex++;
+                    replicates = 0;
+                    values = Enumerable.Repeat(double.NaN, StatisticsCount).ToArray();
+                }
+                else if (quantities[q].IsCount)
+                {
+                    var s = DistributionSummary.From(result.Histogram(k, countIndex++));
+                    replicates = s.Replicates;
+                    values = [s.Mean, s.Variance, s.StandardError, s.FanoFactor, s.SquaredCoefficientOfVariation, s.Minimum, s.Quantile05, s.Quantile25, s.Median, s.Quantile75, s.Quantile95, s.Maximum, s.ZeroFraction];
+                }
+                else
+                {
+                    var m = result.Moments(k, realIndex++);
+                    replicates = m.Count;
+                    var se = m.Count > 0 ? Math.Sqrt(m.Variance / m.Count) : double.NaN;
+                    values = [m.Mean, m.Variance, se, NoiseRatios.Fano(m.Mean, m.Variance, m.Minimum), NoiseRatios.SquaredCoefficientOfVariation(m.Mean, m.Variance, m.Minimum), m.Minimum,
+                        double.NaN, double.NaN, double.NaN, double.NaN, double.NaN, m.Maximum, double.NaN];
+                }
+                yield return new MomentRow(result.Grid[k], quantities[q].Name, replicates, values,
+                    deterministicColumn[q] >= 0 ? deterministic!.Values[k, deterministicColumn[q]] : double.NaN);
+            }
+        }
+    }
+
+    /// <summary>The column of <paramref name="name"/> in <paramref name="names"/>, or −1.</summary>
+    internal static int ColumnOf(IReadOnlyList<string> names, string name) => IndexOf(names, name);
 
     private static int IndexOf(IReadOnlyList<string> names, string name)
     {
@@ -84,3 +108,11 @@ public static class MomentsTable
         return -1;
     }
 }
+
+/// <summary>One row of <c>moments.parquet</c>.</summary>
+/// <param name="Time">Grid time.</param>
+/// <param name="Quantity">Species or readout.</param>
+/// <param name="Replicates">Replicates summarised (0 for an exact law, which has none).</param>
+/// <param name="Statistics">mean, variance, std_error, fano, cv2, min, q05, q25, median, q75, q95, max, p_zero.</param>
+/// <param name="Deterministic">The rate-equation value, or NaN.</param>
+public readonly record struct MomentRow(double Time, string Quantity, long Replicates, double[] Statistics, double Deterministic);

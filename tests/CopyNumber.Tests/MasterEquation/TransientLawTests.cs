@@ -1,0 +1,76 @@
+using CopyNumber.MasterEquation;
+using CopyNumber.Network;
+
+namespace CopyNumber.Tests.MasterEquation;
+
+/// <summary>
+/// The transient master equation against laws known in closed form, and the finite state projection's
+/// bound against the true error. The bound 1 − Σp must never be smaller than ‖p_true − p‖₁ (Munsky &amp;
+/// Khammash 2006, J. Chem. Phys. 124:044104, Theorems 2.1–2.2: the projected solution lies below the true
+/// one state by state); here the true law is known, so the true error is computed outright.
+/// </summary>
+public sealed class TransientLawTests
+{
+    // Round-off of sums over a few hundred states is below 1e-13; the checks allow 1e-12.
+    private const double RoundOff = 1e-12;
+
+    /// <summary>
+    /// Immigration–death 0 → X (k), X → 0 (μ) from X(0) = 0: X(t) is Poisson with mean (k/μ)(1 − e^{−μt})
+    /// (Bailey 1964, The Elements of Stochastic Processes with Applications to the Natural Sciences, Wiley; quoted from memory: the M/M/∞ queue started empty).
+    /// </summary>
+    [Theory]
+    [InlineData(1e-6)]
+    [InlineData(1e-9)]
+    public void ImmigrationDeathIsPoissonAndTheBoundHoldsAtEveryTime(double tolerance)
+    {
+        const double k = 20, mu = 0.5;
+        var grid = new TimeGrid(until: 10, every: 0.5);
+        var solution = FiniteStateProjection.Solve(ExactModels.ImmigrationDeath(k, mu), grid, new ExactOptions(tolerance));
+        for (var g = 0; g < grid.Count; g++)
+        {
+            var mean = k / mu * (1 - Math.Exp(-mu * grid[g]));
+            var error = TrueError(solution, g, 0, x => ExactModels.Poisson(mean, x), upTo: 200);
+            Assert.True(error <= solution.Bound[g] + RoundOff, $"t = {grid[g]}: true error {error:G3} above the bound {solution.Bound[g]:G3}");
+            Assert.True(solution.Bound[g] <= tolerance, $"t = {grid[g]}: bound {solution.Bound[g]:G3} above the tolerance {tolerance:G3}");
+            Assert.InRange(solution.Law(g, 0).Mean, mean - 2 * tolerance * 200, mean + 2 * tolerance * 200);
+        }
+    }
+
+    /// <summary>
+    /// Isomerisation A ⇄ B from A = n: B(t) is binomial(n, q(t)) with q(t) = c1/(c1+c2)·(1 − e^{−(c1+c2)t})
+    /// (common practice: each molecule is an independent two-state chain; Jahnke &amp; Huisinga 2007, J. Math. Biol. 54:1).
+    /// A + B = n is a conservation law, so only one coordinate is stored.
+    /// </summary>
+    [Fact]
+    public void IsomerisationIsBinomialWithOneStoredCoordinate()
+    {
+        const long n = 40;
+        const double c1 = 1.0, c2 = 0.5;
+        var grid = new TimeGrid(until: 6, every: 0.25);
+        var solution = FiniteStateProjection.Solve(ExactModels.Isomerisation(n, c1, c2), grid, new ExactOptions(1e-8));
+        Assert.Equal(1, solution.Dimension);
+        for (var g = 0; g < grid.Count; g++)
+        {
+            var q = c1 / (c1 + c2) * (1 - Math.Exp(-(c1 + c2) * grid[g]));
+            var error = TrueError(solution, g, 1, b => b <= n ? ExactModels.Binomial(n, q, b) : 0, upTo: n);
+            Assert.True(error <= solution.Bound[g] + RoundOff, $"t = {grid[g]}: true error {error:G3} above the bound {solution.Bound[g]:G3}");
+            Assert.True(error < 1e-8 + RoundOff, $"t = {grid[g]}: error {error:G3}");
+            Assert.Equal(n * q, solution.Law(g, 1).Mean, 1e-6);
+        }
+    }
+
+    /// <summary>
+    /// ‖p_true − p‖₁ for a one-dimensional joint law: p is the stored marginal times (1 − bound) (the
+    /// unnormalised projected law), summed over 0..upTo, where the true law has all but a negligible mass.
+    /// </summary>
+    internal static double TrueError(ExactSolution solution, int g, int quantity, Func<long, double> truth, long upTo)
+    {
+        var law = solution.Law(g, quantity).Distribution!;
+        var kept = 1 - solution.Bound[g];
+        var computed = new Dictionary<long, double>();
+        for (var i = 0; i < law.Values.Count; i++) computed[law.Values[i]] = law.Probabilities[i] * kept;
+        var error = 0.0;
+        for (long x = 0; x <= upTo; x++) error += Math.Abs(truth(x) - computed.GetValueOrDefault(x));
+        return error;
+    }
+}
