@@ -54,11 +54,11 @@ public static class RunContrast
             : null;
         var loaded = ModelLoader.LoadText(run.ModelText, manifest.ModelFile, options);
         if (loaded.Model is null)
-            throw new OutputException($"the model stored with '{run.Path}' no longer compiles: {loaded.Diagnostics[0].Format()}", run.Path);
+            throw new RunFolderException($"the model stored with '{run.Path}' no longer compiles: {loaded.Diagnostics[0].Format()}", run.Path);
         var network = loaded.Model.Network;
         var grid = new TimeGrid(ReadArgument(run, "until"), ReadArgument(run, "every"));
         if (grid.Count != run.Times.Length)
-            throw new OutputException($"the grid in '{run.Path}/manifest.json' has {grid.Count} points but the tables have {run.Times.Length}", run.Path);
+            throw new RunFolderException($"the grid in '{run.Path}/manifest.json' has {grid.Count} points but the tables have {run.Times.Length}", run.Path);
 
         SystemSizeExpansionSolution? expansion = null;
         string? failure = null;
@@ -103,5 +103,5 @@ public static class RunContrast
     private static double ReadArgument(RunFolder run, string name) =>
         run.Manifest.Arguments.TryGetValue(name, out var text) && double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var value)
             ? value
-            : throw new OutputException($"'{run.Path}/manifest.json' does not record --{name}", run.Path);
+            : throw new RunFolderException($"'{run.Path}/manifest.json' does not record --{name}", run.Path);
 }

@@ -95,11 +95,13 @@ public sealed class RunFolder
     /// <exception cref="OutputException">A file is missing or unreadable.</exception>
     public static RunFolder Read(string folder)
     {
-        if (!Directory.Exists(folder)) throw new OutputException($"'{folder}' is not a folder", folder);
+        if (!Directory.Exists(folder)) throw new RunFolderException($"'{folder}' is not a folder", folder);
         var manifest = RunManifest.Read(System.IO.Path.Combine(folder, RunFiles.Manifest));
         using var moments = ParquetTableReader.Open(System.IO.Path.Combine(folder, RunFiles.Moments));
         if (!moments.Metadata.TryGetValue(Provenance.ModelTextKey, out var modelText))
-            throw new OutputException($"'{folder}/{RunFiles.Moments}' carries no model text in its metadata", folder);
+            throw new RunFolderException($"'{folder}/{RunFiles.Moments}' carries no model text in its metadata, so it was not written by copynumber's simulate or exact", folder);
+        var tables = new TableAgreement(folder, manifest);
+        tables.Note(RunFiles.Moments, moments.Metadata);
 
         var time = moments.Doubles("time");
         var name = moments.Strings("species");
@@ -119,6 +121,8 @@ public sealed class RunFolder
         {
             var s = series[name[row]];
             var k = timeIndex[time[row]];
+            if (!double.IsNaN(s.Values[0][k]) || s.Replicates[k] != 0)
+                throw tables.Mismatch($"{RunFiles.Moments} holds '{name[row]}' at time {time[row].ToString("R", System.Globalization.CultureInfo.InvariantCulture)} twice");
             s.Replicates[k] = replicates[row];
             for (var c = 0; c < columns.Length; c++) s.Values[c][k] = columns[c][row];
         }
@@ -132,6 +136,7 @@ public sealed class RunFolder
         long[] dCount;
         using (var table = ParquetTableReader.Open(System.IO.Path.Combine(folder, RunFiles.Distributions)))
         {
+            tables.Note(RunFiles.Distributions, table.Metadata);
             dTime = table.Doubles("time");
             dName = table.Strings("species");
             dCount = table.Longs("count");
@@ -141,7 +146,12 @@ public sealed class RunFolder
         {
             var end = start;
             while (end < dTime.Length && dTime[end] == dTime[start] && dName[end] == dName[start]) end++;
-            distributions[(dName[start], timeIndex[dTime[start]])] = (dCount[start..end], dProbability[start..end]);
+            if (!timeIndex.TryGetValue(dTime[start], out var k))
+                throw tables.Mismatch($"{RunFiles.Distributions} has time {dTime[start].ToString("R", System.Globalization.CultureInfo.InvariantCulture)}, which {RunFiles.Moments} does not have");
+            if (!series.ContainsKey(dName[start]))
+                throw tables.Mismatch($"{RunFiles.Distributions} has the quantity '{dName[start]}', which {RunFiles.Moments} does not have");
+            if (!distributions.TryAdd((dName[start], k), (dCount[start..end], dProbability[start..end])))
+                throw tables.Mismatch($"{RunFiles.Distributions} holds '{dName[start]}' at time {dTime[start].ToString("R", System.Globalization.CultureInfo.InvariantCulture)} in two places");
             start = end;
         }
 
@@ -150,6 +160,7 @@ public sealed class RunFolder
         if (File.Exists(pathsFile))
         {
             using var table = ParquetTableReader.Open(pathsFile);
+            tables.Note(RunFiles.Paths, table.Metadata, summarises: false);
             var speciesColumns = table.ColumnNames.Where(c => c is not ("replicate" or "time")).ToDictionary(c => c, c => table.Longs(c));
             paths = new PathColumns(table.Longs("replicate"), table.Doubles("time"), speciesColumns);
         }

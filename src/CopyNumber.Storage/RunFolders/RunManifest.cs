@@ -140,7 +140,8 @@ public sealed class RunManifest
     public void WriteAtomic(string path) => AtomicFile.WriteAllText(path, ToJson());
 
     /// <summary>Reads the manifest file at <paramref name="path"/>.</summary>
-    /// <exception cref="OutputException">The file cannot be read or is not a manifest; the message names the path.</exception>
+    /// <exception cref="OutputException">The file cannot be read; the message names the path.</exception>
+    /// <exception cref="RunFolderException">The file is not a manifest (edited or damaged).</exception>
     public static RunManifest Read(string path)
     {
         var full = AtomicFile.FullPath(path);
@@ -159,7 +160,17 @@ public sealed class RunManifest
         }
         catch (JsonException e)
         {
-            throw new OutputException($"The run manifest '{full}' is not valid: {e.Message.TrimEnd('.')}.", full, e);
+            throw new RunFolderException($"The run manifest '{full}' is not valid: {InWords(e)}; it was edited or damaged after it was written.", full, e);
         }
+    }
+
+    /// <summary>Where and what is wrong, in our words rather than the JSON reader's (which names .NET types).</summary>
+    private static string InWords(JsonException e)
+    {
+        var where = e.LineNumber is { } line ? $"line {line + 1}, column {(e.BytePositionInLine ?? 0) + 1}" : "somewhere in the file";
+        var field = e.Path is { Length: > 2 } path && path.StartsWith("$.", StringComparison.Ordinal) ? path[2..] : null;
+        return field is not null && e.Message.Contains("could not be converted", StringComparison.Ordinal)
+            ? $"the field '{field}' ({where}) does not hold the kind of value a manifest records there"
+            : $"it is not well-formed JSON ({where})";
     }
 }

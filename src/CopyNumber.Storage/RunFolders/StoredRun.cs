@@ -76,18 +76,20 @@ public sealed class StoredRun
         if (!int.TryParse(Field(ManifestFields.BlockSize), NumberStyles.None, CultureInfo.InvariantCulture, out var blockSize) || blockSize < 1) throw Bad("block_size is not a positive whole number");
         if (!long.TryParse(Field(ManifestFields.TotalBlocks), NumberStyles.None, CultureInfo.InvariantCulture, out var totalBlocks) || totalBlocks < 1) throw Bad("total_blocks is not a positive whole number");
         if (!Shard.TryParse(Argument(ManifestFields.ShardArgument), out var shard, out var shardProblem)) throw Bad(shardProblem);
+        if (!long.TryParse(Argument("replicates"), NumberStyles.None, CultureInfo.InvariantCulture, out var replicates) || replicates != manifest.ReplicatesRequested)
+            throw Bad($"replicates_requested ({manifest.ReplicatesRequested}) does not agree with the replicates argument ('{Argument("replicates")}')");
+        if (BlockRanges.BlocksFor(manifest.ReplicatesRequested, blockSize) != totalBlocks)
+            throw Bad("replicates_requested, block_size and total_blocks do not agree");
         long[] finished;
         try
         {
-            finished = BlockRanges.Parse(Field(ManifestFields.FinishedBlocks)).Order().ToArray();
+            finished = BlockRanges.Parse(Field(ManifestFields.FinishedBlocks), totalBlocks).Order().ToArray();
         }
         catch (Exception e) when (e is FormatException or OverflowException)
         {
             throw Bad($"finished_blocks is not a list of block ranges ({e.Message})");
         }
         if (finished.Length > 0 && (finished[0] < 0 || finished[^1] >= totalBlocks)) throw Bad("finished_blocks names a block outside the run");
-        if (BlockRanges.BlocksFor(manifest.ReplicatesRequested, blockSize) != totalBlocks)
-            throw Bad("replicates_requested, block_size and total_blocks do not agree");
         var expected = finished.Sum(b => BlockRanges.ReplicatesIn(manifest.ReplicatesRequested, blockSize, b, b + 1));
         if (expected != manifest.ReplicatesFinished) throw Bad($"replicates_finished is {manifest.ReplicatesFinished}, but the finished blocks hold {expected} replicates");
         TimeGrid grid;

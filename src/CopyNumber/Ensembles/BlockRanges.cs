@@ -26,11 +26,17 @@ public static class BlockRanges
 
     /// <summary>The replicates in blocks [<paramref name="first"/>, <paramref name="end"/>) of a run of <paramref name="replicates"/> in blocks of <paramref name="blockSize"/>.</summary>
     public static long ReplicatesIn(long replicates, int blockSize, long first, long end) =>
-        Math.Min(replicates, end * blockSize) - Math.Min(replicates, first * blockSize);
+        ReplicatesBefore(replicates, blockSize, end) - ReplicatesBefore(replicates, blockSize, first);
+
+    /// <summary>The replicates in the blocks before <paramref name="block"/>, without overflow for any block number (a damaged manifest may name any).</summary>
+    private static long ReplicatesBefore(long replicates, int blockSize, long block) =>
+        block <= 0 ? 0 : block > replicates / blockSize ? replicates : Math.Min(replicates, block * blockSize);
 
     /// <summary>Reads what <see cref="Format"/> wrote.</summary>
     /// <exception cref="FormatException">The text is not a list of ranges.</exception>
-    public static HashSet<long> Parse(string text)
+    /// <param name="text">Ranges such as "0-13,20".</param>
+    /// <param name="blockCount">The run's number of blocks: a range past it is refused before it is expanded, so an edited range cannot exhaust time or memory.</param>
+    public static HashSet<long> Parse(string text, long blockCount = long.MaxValue)
     {
         var set = new HashSet<long>();
         foreach (var part in text.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
@@ -39,6 +45,7 @@ public static class BlockRanges
             var start = long.Parse(dash < 0 ? part : part[..dash], CultureInfo.InvariantCulture);
             var end = dash < 0 ? start : long.Parse(part[(dash + 1)..], CultureInfo.InvariantCulture);
             if (end < start) throw new FormatException($"range '{part}' runs backwards");
+            if (start < 0 || end >= blockCount) throw new FormatException($"range '{part}' names a block outside the run's {blockCount} blocks");
             for (var b = start; b <= end; b++) set.Add(b);
         }
         return set;
