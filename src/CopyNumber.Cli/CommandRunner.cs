@@ -74,14 +74,3 @@ internal static partial class CommandRunner
     private static Exception Unwrapped(Exception e) =>
         e is AggregateException { InnerExceptions.Count: 1 } a ? Unwrapped(a.InnerExceptions[0]) : e;
 }
-
-/// <summary>Carries a model's diagnostics to the one place that prints them.</summary>
-internal sealed class ModelInputException(IReadOnlyList<Diagnostic> diagnostics) : CopyNumberException("the model has errors", ErrorKind.BadInput)
-{
-    public IReadOnlyList<Diagnostic> Diagnostics { get; } = diagnostics;
-
-    public override IReadOnlyList<string> Lines =>
-        [.. Diagnostics.Select(d => d.Format()), Diagnostics.Count == 1 ? "1 error" : $"{Diagnostics.Count} errors"];
-
-    public override bool LinesArePrefixed => true;
-}

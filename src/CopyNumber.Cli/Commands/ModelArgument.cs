@@ -1,3 +1,4 @@
+using CopyNumber.Language;
 using System.CommandLine;
 using CopyNumber.Network;
 using CopyNumber.Storage;
