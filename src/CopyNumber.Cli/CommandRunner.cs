@@ -43,6 +43,13 @@ internal static partial class CommandRunner
             error.WriteLine(e.Diagnostics.Count == 1 ? "1 error" : $"{e.Diagnostics.Count} errors");
             return ExitCodes.BadInput;
         }
+        catch (Exception e) when (Unsupported(e) is { } unsupported)
+        {
+            // A valid model that the chosen method cannot carry out yet (a state-triggered change, a
+            // non-integer amount in a stochastic run): bad input, with the model's line.
+            foreach (var d in unsupported.Problems) error.WriteLine(d.Format());
+            return ExitCodes.BadInput;
+        }
         catch (UserInputException e)
         {
             error.WriteLine($"error: {e.Message}");
@@ -87,6 +94,14 @@ internal static partial class CommandRunner
 
     [GeneratedRegex(@" as expected type '([^']+)'")]
     private static partial Regex ExpectedType();
+
+    private static Network.UnsupportedModelException? Unsupported(Exception e) => e switch
+    {
+        Network.UnsupportedModelException u => u,
+        AggregateException { InnerExceptions.Count: > 0 } a => a.InnerExceptions.Select(Unsupported).FirstOrDefault(u => u is not null),
+        { InnerException: { } inner } => Unsupported(inner),
+        _ => null,
+    };
 
     private static string Describe(Exception e) =>
         e is AggregateException { InnerExceptions.Count: 1 } a ? Describe(a.InnerExceptions[0]) : e.Message;

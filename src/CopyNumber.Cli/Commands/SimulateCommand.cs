@@ -90,6 +90,7 @@ internal static class SimulateCommand
             var loaded = parsed.GetValue(model) is { } modelPath ? ModelArgument.Load(modelPath)
                 : stored is not null ? ModelArgument.LoadStored(stored)
                 : throw new UserInputException("simulate needs a MODEL file (or --resume DIR, which reads the stored model)");
+            Network.ModelSupport.RequireStochastic(loaded.Network); // before anything is written
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, loaded.Network, timeGrid.Until);
             var (simulationMethod, methodReason) = MethodArgument.Resolve(chosen, loaded.Network, timeGrid);
             // A resumed run goes on with the method its stored blocks were made with (auto may have fallen back).

@@ -56,6 +56,7 @@ internal static class SweepCommand
             var runSeed = parsed.GetValue(seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
             var modelPath = parsed.GetValue(model)!;
             var baseModel = ModelArgument.Load(modelPath);
+            ModelSupport.RequireStochastic(baseModel.Network); // before anything is written
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);
             var root = OutputFolder.CreateFresh(parsed.GetValue(output), baseModel.Network.Name + "-sweep", DateTimeOffset.Now, parsed.GetValue(force));
             var error = parsed.InvocationConfiguration.Error;
