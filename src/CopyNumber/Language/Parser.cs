@@ -476,6 +476,13 @@ internal static class ModelParser
         while (true)
         {
             var target = line.Peek();
+            if (assignments.Count > 0 && (target.IsWord("at") || target.IsWord("every") || target.IsWord("whenever"))
+                && OperationOf(line.Peek(1).Kind) is null)
+            {
+                line.Fail(line.Tokens.Last(t => t.Kind == TokenKind.Comma && t.Position.Column < target.Position.Column).Position,
+                    "a ',' before the timing: remove it or add another assignment after it");
+                return;
+            }
             if (target.Kind != TokenKind.Identifier)
             {
                 line.FailAt(target, assignments.Count == 0
