@@ -243,7 +243,9 @@ internal static class SimulateCommand
     {
         var result = outcome.Ensemble;
         var last = result.Grid.Count - 1;
-        var table = new TextTable("quantity", "mean", "± s.e.", "rate eq.", "fano", "P(0)");
+        // The first column's heading says the time the row values are for, in the model's declared unit.
+        var unit = outcome.Manifest.Extra.TryGetValue(ManifestFields.TimeUnit, out var declared) ? declared?.ToString() : null;
+        var table = new TextTable($"quantity at t = {Numbers.Format(result.Grid.Until, 6)}{(unit is null ? "" : " " + unit)}", "mean", "± s.e.", "rate eq.", "fano", "P(0)");
         int countIndex = 0, realIndex = 0;
         foreach (var q in result.Quantities)
         {
