@@ -168,7 +168,7 @@ internal sealed class LineParser
 
     private Expr? ParseNegation(string what)
     {
-        if (!(Peek().IsWord("not") && Peek(1).Kind is TokenKind.Identifier or TokenKind.Number or TokenKind.LeftParen or TokenKind.Minus))
+        if (!(Peek().IsWord("not") && StartsOperand(Peek(1))))
             return ParseComparison(what);
         var not = Next();
         if (!Enter(not)) return null;
@@ -176,6 +176,15 @@ internal sealed class LineParser
         _nesting--;
         return operand is null ? null : Node(new NotExpr(operand, not.Position));
     }
+
+    // The words that may follow a complete expression (joining conditions, or starting a law's or change's
+    // next part): after 'not' they mean 'not' was a name.
+    private static readonly HashSet<string> FollowingWords = new(StringComparer.Ordinal) { "and", "or", "at", "every", "from", "until", "whenever", "back" };
+
+    // Whether 'not' followed by this token is the negation rather than a name.
+    private static bool StartsOperand(Token next) =>
+        next.Kind is TokenKind.Number or TokenKind.LeftParen or TokenKind.Minus
+        || (next.Kind == TokenKind.Identifier && !FollowingWords.Contains(next.Text));
 
     private Expr? ParseComparison(string what)
     {
@@ -246,6 +255,9 @@ internal sealed class LineParser
             case TokenKind.Number:
                 Next();
                 return Node(new NumberExpr(token.Number, token.Position));
+            case TokenKind.Identifier when token.Text == "not" && StartsOperand(Peek(1)):
+                // 'not' binds looser than comparisons and arithmetic, so inside a sum or product it needs brackets
+                return Fail<Expr>(token.Position, "'not' applies to a whole condition; inside arithmetic put it in parentheses, as in '(not A > 3)'");
             case TokenKind.Identifier when Peek(1).Kind == TokenKind.LeftParen:
                 return ParseCall(what);
             case TokenKind.Identifier:

@@ -282,6 +282,7 @@ public sealed class DiagnosticTests
     [InlineData("protein = 1  whenever 1 < protein < 3", 37, "comparisons do not chain")]
     [InlineData("protein = 1  whenever protein ! 3", 33, "write 'not' to negate a condition", "'!='")]
     [InlineData("protein = 1  whenever protein > 3 && dimer < 2", 37, "write 'and' and 'or'")]
+    [InlineData("protein = 1  whenever protein + not dimer > 2", 35, "'not' applies to a whole condition", "'(not A > 3)'")]
     public void ChangeLinesAreChecked(string changeLine, int column, params string[] words)
     {
         // the change line is line 9; readouts come after it
