@@ -243,9 +243,7 @@ internal static class SimulateCommand
     {
         var result = outcome.Ensemble;
         var last = result.Grid.Count - 1;
-        // The first column's heading says the time the row values are for, in the model's declared unit.
-        var unit = outcome.Manifest.Extra.TryGetValue(ManifestFields.TimeUnit, out var declared) ? declared?.ToString() : null;
-        var table = new TextTable($"quantity at t = {Numbers.Format(result.Grid.Until, 6)}{(unit is null ? "" : " " + unit)}", "mean", "± s.e.", "rate eq.", "fano", "P(0)");
+        var table = new TextTable("quantity", "mean", "± s.e.", "rate eq.", "fano", "P(0)");
         int countIndex = 0, realIndex = 0;
         foreach (var q in result.Quantities)
         {
@@ -266,6 +264,8 @@ internal static class SimulateCommand
                 table.Add(q.Name, Numbers.Format(m.Mean, 5), Numbers.Format(Math.Sqrt(m.Variance / m.Count), 2), Numbers.Format(deterministic, 5), Numbers.Format(NoiseRatios.Fano(m.Mean, m.Variance, m.Minimum), 3), "-");
             }
         }
-        return $"at t = {Numbers.Format(result.Grid[last], 6)}:\n{table}";
+        // The heading says the time the rows are for, in the model's declared unit (manifest: time_unit).
+        var unit = outcome.Manifest.Extra.TryGetValue(ManifestFields.TimeUnit, out var declared) && declared?.ToString() is { Length: > 0 } text ? " " + text : "";
+        return $"at t = {Numbers.Format(result.Grid[last], 6)}{unit}:\n{table}";
     }
 }

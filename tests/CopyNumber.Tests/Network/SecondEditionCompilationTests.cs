@@ -337,6 +337,6 @@ public sealed class SecondEditionCompilationTests
         var run = CliRun.Of("simulate", model, "--until", "2", "--every", "1", "--replicates", "8", "--seed", "3", "--out", folder);
         Assert.Equal(0, run.ExitCode);
         Assert.Contains("\"time_unit\": \"minute\"", File.ReadAllText(Path.Combine(folder, "manifest.json")));
-        Assert.Contains("quantity at t = 2 minute", run.Output);
+        Assert.Contains("at t = 2 minute:", run.Output);
     }
 }
