@@ -169,21 +169,35 @@ internal sealed class ModelChecker
 
     private void CheckSchedule()
     {
+        // The assignments of one line share its time expressions (by reference): check them once per line.
+        var checkedTimes = new HashSet<Expr>(ReferenceEqualityComparer.Instance);
         foreach (var change in _model.Schedule)
         {
-            var first = CheckTime(change.Time, change.Every is null ? "change time" : "first time of the repeating change");
-            if (change.Every is { } every && CheckNames(every, Place.ScheduleTime, 0, "") && Evaluate(every) is { } period)
-            {
-                if (!double.IsFinite(period))
-                    _bag.Report(SpanOf(every), $"the period of the repeating change is {ConstantEvaluator.DescribeNonFinite(period)}");
-                else if (period <= 0)
-                    _bag.Report(SpanOf(every), $"the period of a repeating change must be positive, found {period:G6}");
-            }
-            if (change.Until is { } until && CheckTime(until, "last time of the repeating change") is { } last && first is { } from && last < from)
-                _bag.Report(SpanOf(until), $"the last time of the repeating change ({last:G6}) is before its first time ({from:G6})");
+            if (checkedTimes.Add(change.Time)) CheckTiming(change);
             CheckTarget(change.Target, change.TargetPosition, change.Operation);
             CheckNames(change.Value, Place.ScheduleValue, 0, change.Target);
         }
+    }
+
+    private void CheckTiming(ScheduleDecl change)
+    {
+        double? first;
+        if (change.Every is { } every)
+        {
+            var period = CheckNames(every, Place.ScheduleTime, 0, "") ? Evaluate(every) : null;
+            if (period is { } p && !double.IsFinite(p))
+                _bag.Report(SpanOf(every), $"the period of the repeating change is {ConstantEvaluator.DescribeNonFinite(p)}");
+            else if (period is { } q && q <= 0)
+                _bag.Report(SpanOf(every), $"the period of a repeating change must be positive, found {q:G6}");
+            // without 'from' the first time is the period itself, checked just above
+            first = ReferenceEquals(change.Time, every) ? period : CheckTime(change.Time, "first time of the repeating change");
+        }
+        else
+        {
+            first = CheckTime(change.Time, "change time");
+        }
+        if (change.Until is { } until && CheckTime(until, "last time of the repeating change") is { } last && first is { } from && last < from)
+            _bag.Report(SpanOf(until), $"the last time of the repeating change ({last:G6}) is before its first time ({from:G6})");
     }
 
     // A time of a change: numbers, parameters and size; finite and not negative. Its value, when known.

@@ -272,6 +272,8 @@ public sealed class DiagnosticTests
     [InlineData("protein * 2  at time 5", 11, "expected '=', '+=' or '-=' after 'protein'")]
     [InlineData("protein = 1,  at time 5", 14, "a ',' before the timing", "remove it or add another assignment")]
     [InlineData("protein = 1  every 0", 22, "period of a repeating change must be positive", "0")]
+    [InlineData("protein = 1, dimer = 2  every -3", 33, "period of a repeating change must be positive", "-3")]
+    [InlineData("protein = 1, dimer = 2  at time -3", 35, "change time must not be negative", "-3")]
     [InlineData("protein = 1  every 5 from -1", 29, "first time of the repeating change must not be negative")]
     [InlineData("protein = 1  every 5 from 10 until 3", 38, "last time of the repeating change (3) is before its first time (10)")]
     [InlineData("protein = 1  every 5 until 20 from 10", 33, "unexpected 'from' after the last time")]
