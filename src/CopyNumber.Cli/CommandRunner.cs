@@ -35,20 +35,15 @@ internal static partial class CommandRunner
         {
             return parsed.Invoke(new InvocationConfiguration { Output = output, Error = error, EnableDefaultExceptionHandler = false, ProcessTerminationTimeout = null });
         }
-        catch (CopyNumberException e)
+        catch (Exception e) when (Unwrapped(e) is CopyNumberException known)
         {
-            foreach (var line in e.Lines) error.WriteLine(e.LinesArePrefixed ? line : $"error: {line}");
-            return ExitCodes.For(e.Kind);
+            foreach (var line in known.Lines) error.WriteLine(known.LinesArePrefixed ? line : $"error: {line}");
+            return ExitCodes.For(known.Kind);
         }
         catch (OperationCanceledException)
         {
             error.WriteLine("interrupted");
             return ExitCodes.Interrupted;
-        }
-        catch (Exception e) when (Unwrapped(e) is CopyNumberException known)
-        {
-            error.WriteLine($"error: {known.Message}");
-            return ExitCodes.For(known.Kind);
         }
         catch (Exception e)
         {

@@ -47,6 +47,7 @@ public static class ContrastReport
         var sections = new List<ReportSection> { summary };
         if (ValidationSection.For(run.Manifest, cautions) is { } validation) sections.Add(validation);
         var chosenTimes = ChooseTimes(times, histogramTimes);
+        var timeUnit = TimeUnit(run.Manifest);
         foreach (var q in contrast.Quantities)
         {
             var series = run.Quantities.First(s => s.Name == q.Name);
@@ -62,14 +63,14 @@ public static class ContrastReport
             }
             var safe = SafeName(q.Name);
             var band = new BandSeries(q.Name, times, series.Mean, series.Quantile05, series.Quantile95, series.Deterministic,
-                lnaLower, lnaUpper, run.SamplePaths(q.Name, 5));
+                lnaLower, lnaUpper, run.SamplePaths(q.Name, 5)) { TimeUnit = timeUnit };
             figures.Add(new ReportFigure($"{safe}-mean.png",
                 $"{q.Name}: ensemble mean with its 5–95% band, the rate equations and the LNA ±2σ band.", Figures.MeanWithBands(band)));
 
             var snapshots = chosenTimes
                 .Select(k => (k, run.Distribution(q.Name, k)))
                 .Where(p => p.Item2.Counts.Length > 0)
-                .Select(p => new HistogramSnapshot(q.Name, times[p.k], p.Item2.Counts, p.Item2.Probabilities, series.Deterministic[p.k]))
+                .Select(p => new HistogramSnapshot(q.Name, times[p.k], p.Item2.Counts, p.Item2.Probabilities, series.Deterministic[p.k]) { TimeUnit = timeUnit })
                 .ToList();
             if (snapshots.Count > 0)
                 figures.Add(new ReportFigure($"{safe}-histograms.png",
@@ -136,8 +137,12 @@ public static class ContrastReport
             for (var i = 0; i < counts.Length; i++) probability[k, counts[i] - min] = probabilities[i];
         }
         var deterministic = run.Quantities.First(s => s.Name == quantity).Deterministic;
-        return new DistributionHeatmap(quantity, times, min, max, probability, deterministic);
+        return new DistributionHeatmap(quantity, times, min, max, probability, deterministic) { TimeUnit = TimeUnit(run.Manifest) };
     }
+
+    /// <summary>The model's declared time unit from the manifest (<see cref="Storage.ManifestFields.TimeUnit"/>), or "time" (no unit shown) when it declares none.</summary>
+    private static string TimeUnit(Storage.RunManifest manifest) =>
+        manifest.Extra.TryGetValue(Storage.ManifestFields.TimeUnit, out var unit) && unit?.ToString() is { Length: > 0 } text ? text : "time";
 
     private static int[] ChooseTimes(double[] times, IReadOnlyList<double> requested)
     {

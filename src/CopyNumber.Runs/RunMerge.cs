@@ -72,7 +72,7 @@ public static class RunMerge
         {
             [ManifestFields.ShardArgument] = combined.Shard.ToString(),
         };
-        var identity = new RunIdentity(first.Manifest.ModelFile, text, arguments, runs.Min(r => r.Manifest.StartedUtc));
+        var identity = new RunIdentity(first.Manifest.ModelFile, text, arguments, runs.Min(r => r.Manifest.StartedUtc), network.Units.Time);
         var files = new List<string>();
         DeterministicSolution? deterministic = null;
         var withSolution = runs.FirstOrDefault(r => File.Exists(Path.Combine(r.Folder, RunFiles.Deterministic)));

@@ -1,5 +1,6 @@
 using CopyNumber.Deterministic;
 using CopyNumber.Ensembles;
+using CopyNumber.Network;
 using CopyNumber.Stochastic;
 
 namespace CopyNumber.Runs;
@@ -33,6 +34,7 @@ public sealed record RunPlan(
     {
         ArgumentNullException.ThrowIfNull(specification);
         var network = specification.Model.Network;
+        ModelSupport.RequireStochastic(network); // a model the simulators cannot carry out is refused before anything is written
         // Sized before anything is solved, so an impossible run is refused at once.
         var sized = specification.EnsembleOptions(SimulationMethod.Direct);
         var memory = EnsembleMemory.For(network, sized);

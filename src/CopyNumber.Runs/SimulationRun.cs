@@ -105,7 +105,7 @@ public static class SimulationRun
         var arguments = new Dictionary<string, string>(request.Arguments, StringComparer.Ordinal);
         arguments.TryAdd(ManifestFields.ShardArgument, options.Shard.ToString());
         arguments.TryAdd("seed", options.Seed.ToString(CultureInfo.InvariantCulture));
-        var identity = new RunIdentity(model.Path, model.Text, arguments, started);
+        var identity = new RunIdentity(model.Path, model.Text, arguments, started, model.Network.Units.Time);
         var files = new List<string>();
 
         EnsembleResult? prior = null;

@@ -168,6 +168,8 @@ internal static class SimulateCommand
                 table.Add(q.Name, Numbers.Format(m.Mean, 5), Numbers.Format(Math.Sqrt(m.Variance / m.Count), 2), Numbers.Format(deterministic, 5), Numbers.Format(NoiseRatios.Fano(m.Mean, m.Variance, m.Minimum), 3), "-");
             }
         }
-        return $"at t = {Numbers.Format(result.Grid[last], 6)}:\n{table}";
+        // The heading says the time the rows are for, in the model's declared unit (manifest: time_unit).
+        var unit = outcome.Manifest.Extra.TryGetValue(ManifestFields.TimeUnit, out var declared) && declared?.ToString() is { Length: > 0 } text ? " " + text : "";
+        return $"at t = {Numbers.Format(result.Grid[last], 6)}{unit}:\n{table}";
     }
 }

@@ -2,6 +2,7 @@ using System.CommandLine;
 using CopyNumber.Cli.Rendering;
 using CopyNumber.Deterministic;
 using CopyNumber.Storage;
+using CopyNumber.Network;
 
 namespace CopyNumber.Cli.Commands;
 
@@ -46,7 +47,7 @@ internal static class SolveCommand
                 };
                 DeterministicTable.Write(path, solution, Provenance.For(loaded.Path, loaded.Text, arguments, DateTimeOffset.UtcNow));
             }
-            writer.Write(Render(solution));
+            writer.Write(Render(solution, loaded.Network.Units));
             if (path is not null) writer.WriteLine($"wrote {Paths.Shown(path)}");
             return ExitCodes.Done;
         });
@@ -64,9 +65,9 @@ internal static class SolveCommand
     private static string Invariant(double value) => value.ToString("R", System.Globalization.CultureInfo.InvariantCulture);
 
     /// <summary>At most about a dozen rows, evenly spread over the grid, always including 0 and T.</summary>
-    internal static string Render(DeterministicSolution solution)
+    internal static string Render(DeterministicSolution solution, ModelUnits? units = null)
     {
-        var table = new TextTable(solution.Columns.Prepend("time").ToArray());
+        var table = new TextTable(solution.Columns.Prepend((units ?? ModelUnits.None).TimeHeading).ToArray());
         var count = solution.Grid.Count;
         var step = Math.Max(1, (count - 1) / 10);
         for (var k = 0; k < count; k += step)

@@ -15,6 +15,9 @@ public static class ManifestFields
     /// <summary>The finished blocks as ranges, e.g. "0-41,43" (see <see cref="Ensembles.BlockRanges"/>).</summary>
     public const string FinishedBlocks = "finished_blocks";
 
+    /// <summary>The model's declared time unit (<c>time unit minute</c>), a string; absent when the model declares none.</summary>
+    public const string TimeUnit = "time_unit";
+
     /// <summary>Grid points (int).</summary>
     public const string GridPoints = "grid_points";
 

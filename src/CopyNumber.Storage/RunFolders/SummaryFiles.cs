@@ -9,7 +9,8 @@ namespace CopyNumber.Storage;
 /// <param name="ModelText">The model text.</param>
 /// <param name="Arguments">The run's recorded arguments.</param>
 /// <param name="Started">When the run started.</param>
-internal sealed record RunIdentity(string ModelFile, string ModelText, IReadOnlyDictionary<string, string> Arguments, DateTimeOffset Started)
+/// <param name="TimeUnit">The model's declared time unit, recorded in the manifest; null when it declares none.</param>
+internal sealed record RunIdentity(string ModelFile, string ModelText, IReadOnlyDictionary<string, string> Arguments, DateTimeOffset Started, string? TimeUnit = null)
 {
     /// <summary>Footer pairs for a table that summarises <paramref name="result"/> (or for one that does not, when null).</summary>
     public IReadOnlyDictionary<string, string> Provenance(EnsembleResult? result, ValidationResult? validation = null)
@@ -85,6 +86,7 @@ internal static class SummaryFiles
         manifest.Extra[ManifestFields.StopReason] = stop.Name();
         manifest.Extra[ManifestFields.Switching] = SwitchingJson.Write(result.Switching);
         if (failure is not null) manifest.Extra[ManifestFields.Failure] = failure;
+        if (identity.TimeUnit is not null) manifest.Extra[ManifestFields.TimeUnit] = identity.TimeUnit;
         if (deterministicFailure is not null) manifest.Extra[ManifestFields.DeterministicFailure] = deterministicFailure;
         if (validation is not null) manifest.Extra[ManifestFields.Validation] = ValidationManifest.Of(validation);
         return manifest;

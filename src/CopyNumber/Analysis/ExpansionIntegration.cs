@@ -20,11 +20,12 @@ internal static class ExpansionIntegration
         ArgumentNullException.ThrowIfNull(grid);
         ArgumentNullException.ThrowIfNull(options);
         if (options.Check() is { } problem) throw new ArgumentException(problem, nameof(options));
+        ModelSupport.RequireDeterministic(network);
 
         var system = new ExpansionSystem(network, withMeanCorrection);
         var s = system.SpeciesCount;
         var y = new double[system.Dimension];
-        for (var i = 0; i < s; i++) y[i] = network.InitialCounts[i]; // C(0) = 0 and δ(0) = 0: a deterministic start
+        for (var i = 0; i < s; i++) y[i] = network.InitialAmounts[i]; // C(0) = 0 and δ(0) = 0: a deterministic start
         var states = new double[grid.Count][];
         // Readouts read the parameters in force at each point, so they are evaluated as the points are recorded.
         var columns = network.Species.Concat(network.Readouts.Select(r => r.Name)).ToArray();

@@ -30,6 +30,7 @@ public static class RateEquationSolver
         ArgumentNullException.ThrowIfNull(grid);
         ArgumentNullException.ThrowIfNull(options);
         if (options.Check() is { } problem) throw new ArgumentException(problem, nameof(options));
+        ModelSupport.RequireDeterministic(network);
 
         var system = new RateEquationSystem(network);
         var parameters = system.ParameterArray;
@@ -37,7 +38,7 @@ public static class RateEquationSolver
         var readouts = network.Readouts;
         var columns = network.Species.Concat(readouts.Select(r => r.Name)).ToArray();
         var values = new double[grid.Count, columns.Length];
-        var state = network.InitialCounts.Select(c => (double)c).ToArray();
+        var state = network.InitialAmounts.ToArray();
         var run = new OdeRun(system, options);
 
         void Record(int point, double[] x)

@@ -49,6 +49,18 @@ internal static class ConstantEvaluation
                 value = arguments[0]; // min and max of more than two arguments fold pairwise, as compiled
                 for (var a = 1; a < arguments.Length; a++) value = (double)method.Invoke(null, [value, arguments[a]])!;
                 return true;
+            case CompareExpr compare:
+                if (!TryEvaluate(compare.Left, valueOf, out var compareLeft) || !TryEvaluate(compare.Right, valueOf, out var compareRight)) return false;
+                value = ConstantEvaluator.Truth(ConstantEvaluator.Compare(compare.Operator, compareLeft, compareRight));
+                return true;
+            case LogicExpr logic:
+                if (!TryEvaluate(logic.Left, valueOf, out var p) || !TryEvaluate(logic.Right, valueOf, out var q)) return false;
+                value = ConstantEvaluator.Truth(logic.Conjunction ? p != 0 && q != 0 : p != 0 || q != 0);
+                return true;
+            case NotExpr not:
+                if (!TryEvaluate(not.Operand, valueOf, out var v)) return false;
+                value = ConstantEvaluator.Truth(v == 0);
+                return true;
             default:
                 throw new ModelException(expression.Position, "unsupported expression");
         }

@@ -102,8 +102,30 @@ public static class ExpressionCompiler
             BinaryExpr { Operator: '^' } power => Power(power.Left, power.Right),
             BinaryExpr binary => Binary(binary),
             CallExpr { Function: "pow", Arguments.Count: 2 } pow => Power(pow.Arguments[0], pow.Arguments[1]),
+            CallExpr { Function: BuiltinFunctions.Choose, Arguments.Count: 3 } choose =>
+                Expression.Condition(IsTrue(Build(choose.Arguments[0])), Build(choose.Arguments[1]), Build(choose.Arguments[2])),
             CallExpr call => Call(call),
+            CompareExpr compare => Truth(Compare(compare.Operator, Build(compare.Left), Build(compare.Right))),
+            LogicExpr { Conjunction: true } and => Truth(Expression.AndAlso(IsTrue(Build(and.Left)), IsTrue(Build(and.Right)))),
+            LogicExpr or => Truth(Expression.OrElse(IsTrue(Build(or.Left)), IsTrue(Build(or.Right)))),
+            NotExpr not => Truth(Expression.Equal(Build(not.Operand), Expression.Constant(0.0))),
             _ => throw new ModelException(expression.Position, "unsupported expression"),
+        };
+
+        // A condition is a number: true is anything but 0, and a comparison or a logical operator gives 1 or 0,
+        // as ConstantEvaluator.Compare and Truth do at compile time.
+        private static Expression IsTrue(Expression value) => Expression.NotEqual(value, Expression.Constant(0.0));
+
+        private static Expression Truth(Expression holds) => Expression.Condition(holds, Expression.Constant(1.0), Expression.Constant(0.0));
+
+        private static Expression Compare(Comparison op, Expression left, Expression right) => op switch
+        {
+            Comparison.Less => Expression.LessThan(left, right),
+            Comparison.LessOrEqual => Expression.LessThanOrEqual(left, right),
+            Comparison.Greater => Expression.GreaterThan(left, right),
+            Comparison.GreaterOrEqual => Expression.GreaterThanOrEqual(left, right),
+            Comparison.Equal => Expression.Equal(left, right),
+            _ => Expression.NotEqual(left, right),
         };
 
         private Expression Name(NameExpr name)

@@ -17,6 +17,9 @@ public static class ExpressionGraph
         NegateExpr negate => [negate.Operand],
         BinaryExpr binary => [binary.Left, binary.Right],
         CallExpr call => call.Arguments,
+        CompareExpr compare => [compare.Left, compare.Right],
+        LogicExpr logic => [logic.Left, logic.Right],
+        NotExpr not => [not.Operand],
         _ => [],
     };
 

@@ -67,8 +67,8 @@ public sealed class ExpressionScope
                 foreach (var n in Names(binary.Left)) yield return n;
                 foreach (var n in Names(binary.Right)) yield return n;
                 break;
-            case CallExpr call:
-                foreach (var n in call.Arguments.SelectMany(Names)) yield return n;
+            default:
+                foreach (var n in ExpressionGraph.Children(expression).SelectMany(Names)) yield return n;
                 break;
         }
     }
@@ -110,6 +110,28 @@ public sealed class ExpressionScope
                 var arguments = call.Arguments.Select(a => ExpandWithin(a, expanding, done)).ToArray();
                 expanded = arguments.Zip(call.Arguments).All(p => ReferenceEquals(p.First, p.Second))
                     ? call : call with { Arguments = arguments };
+                break;
+            }
+            case CompareExpr compare:
+            {
+                var left = ExpandWithin(compare.Left, expanding, done);
+                var right = ExpandWithin(compare.Right, expanding, done);
+                expanded = ReferenceEquals(left, compare.Left) && ReferenceEquals(right, compare.Right)
+                    ? compare : compare with { Left = left, Right = right };
+                break;
+            }
+            case LogicExpr logic:
+            {
+                var left = ExpandWithin(logic.Left, expanding, done);
+                var right = ExpandWithin(logic.Right, expanding, done);
+                expanded = ReferenceEquals(left, logic.Left) && ReferenceEquals(right, logic.Right)
+                    ? logic : logic with { Left = left, Right = right };
+                break;
+            }
+            case NotExpr not:
+            {
+                var operand = ExpandWithin(not.Operand, expanding, done);
+                expanded = ReferenceEquals(operand, not.Operand) ? not : not with { Operand = operand };
                 break;
             }
             default:

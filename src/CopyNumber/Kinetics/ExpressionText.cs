@@ -14,7 +14,7 @@ namespace CopyNumber.Kinetics;
 /// </summary>
 public static class ExpressionText
 {
-    private const int Sum = 1, Product = 2, Negation = 3, Power = 4, Atom = 5;
+    private const int Disjunction = -3, Conjunction = -2, Not = -1, Comparing = 0, Sum = 1, Product = 2, Negation = 3, Power = 4, Atom = 5;
 
     /// <summary>The expression as text.</summary>
     public static string Format(Expr expression)
@@ -40,6 +40,10 @@ public static class ExpressionText
         BinaryExpr { Operator: '*' or '/' } => Product,
         BinaryExpr { Operator: '^' } => Power,
         NegateExpr => Negation,
+        LogicExpr { Conjunction: false } => Disjunction,
+        LogicExpr => Conjunction,
+        NotExpr => Not,
+        CompareExpr => Comparing,
         NumberExpr n when n.Value < 0 || double.IsNegative(n.Value) => Negation,
         _ => Atom,
     };
@@ -67,6 +71,22 @@ public static class ExpressionText
                 text.Append(binary.Operator == '^' ? "^" : $" {binary.Operator} ");
                 WriteOperand(binary.Right, text, right <= p || right == Negation);
                 break;
+            case CompareExpr compare:
+                // comparisons do not chain: bracket any operand that is itself a comparison or looser
+                WriteOperand(compare.Left, text, Precedence(compare.Left) <= Comparing);
+                text.Append(' ').Append(Symbol(compare.Operator)).Append(' ');
+                WriteOperand(compare.Right, text, Precedence(compare.Right) <= Comparing);
+                break;
+            case LogicExpr logic:
+                var own = Precedence(logic);
+                WriteOperand(logic.Left, text, Precedence(logic.Left) < own);
+                text.Append(logic.Conjunction ? " and " : " or ");
+                WriteOperand(logic.Right, text, Precedence(logic.Right) <= own);
+                break;
+            case NotExpr not:
+                text.Append("not ");
+                WriteOperand(not.Operand, text, Precedence(not.Operand) < Not);
+                break;
             case CallExpr call:
                 text.Append(call.Function).Append('(');
                 for (var a = 0; a < call.Arguments.Count; a++)
@@ -81,6 +101,17 @@ public static class ExpressionText
                 break;
         }
     }
+
+    /// <summary>How a comparison is written in the language.</summary>
+    public static string Symbol(Comparison op) => op switch
+    {
+        Comparison.Less => "<",
+        Comparison.LessOrEqual => "<=",
+        Comparison.Greater => ">",
+        Comparison.GreaterOrEqual => ">=",
+        Comparison.Equal => "==",
+        _ => "!=",
+    };
 
     private static void WriteOperand(Expr operand, StringBuilder text, bool bracket)
     {

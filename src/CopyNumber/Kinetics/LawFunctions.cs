@@ -28,6 +28,7 @@ internal static class LawFunctions
         ["hill_rep"] = (3, 3, Of<Func<double, double, double, double>>(HillRepression)),
         ["mm"] = (2, 2, Of<Func<double, double, double>>(MichaelisMenten)),
         [SignFunction] = (1, 1, Of<Func<double, double>>(Sign)),
+        [Language.BuiltinFunctions.Choose] = (3, 3, Of<Func<double, double, double, double>>(Choose)),
     };
 
     /// <summary>
@@ -76,6 +77,12 @@ internal static class LawFunctions
 
     /// <summary>Michaelis–Menten saturation x/(K + x).</summary>
     public static double MichaelisMenten(double x, double k) => x / (k + x);
+
+    /// <summary>
+    /// choose(c, a, b): a when c is not 0, else b. Compile-time evaluation calls this; compiled laws use a
+    /// conditional expression with the same meaning (see <see cref="ExpressionCompiler"/>).
+    /// </summary>
+    public static double Choose(double condition, double then, double otherwise) => condition != 0 ? then : otherwise;
 
     /// <summary>+1, −1 or 0 (also for NaN, where <see cref="Math.Sign(double)"/> would throw).</summary>
     public static double Sign(double x) => x > 0 ? 1.0 : x < 0 ? -1.0 : 0.0;

@@ -44,6 +44,8 @@ public static class SymbolicDerivative
             var derivative = !Depends(e) ? Number(0, e) : e switch
             {
                 NameExpr => Number(1, e),
+                // a comparison or logical value is piecewise constant: derivative 0 wherever it is defined
+                CompareExpr or LogicExpr or NotExpr => Number(0, e),
                 NegateExpr negate => Neg(D(negate.Operand)),
                 BinaryExpr binary => Binary(binary),
                 CallExpr call => Call(call),
@@ -107,6 +109,13 @@ public static class SymbolicDerivative
                 case "sqrt": return Div(D(args[0]), Mul(Number(2, c), c));
                 case "abs": return Mul(Sign(args[0], c), D(args[0]));
                 case LawFunctions.SignFunction: return Number(0, c);
+                case BuiltinFunctions.Choose:
+                {
+                    // d choose(c, a, b) = choose(c, da, db): the condition picks the branch, the branch is differentiated
+                    var (da, db) = (D(args[1]), D(args[2]));
+                    if (IsNumber(da, 0) && IsNumber(db, 0)) return Number(0, c);
+                    return new CallExpr(BuiltinFunctions.Choose, [args[0], Folded(da), Folded(db)], c.Position);
+                }
                 case "pow": return PowerRule(args[0], args[1], c);
                 case "min" or "max" when args.Count > 2:
                     return D(c with { Arguments = [c with { Arguments = args.Take(args.Count - 1).ToArray() }, args[^1]] });
@@ -163,6 +172,9 @@ public static class SymbolicDerivative
                     NegateExpr negate => negate with { Operand = numbers[0] },
                     BinaryExpr binary => binary with { Left = numbers[0], Right = numbers[1] },
                     CallExpr call => call with { Arguments = numbers },
+                    CompareExpr compare => compare with { Left = numbers[0], Right = numbers[1] },
+                    LogicExpr logic => logic with { Left = numbers[0], Right = numbers[1] },
+                    NotExpr not => not with { Operand = numbers[0] },
                     _ => e,
                 };
                 if (ConstantEvaluation.TryNumber(folded, out var result)) value = result;

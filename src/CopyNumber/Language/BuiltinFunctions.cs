@@ -21,7 +21,14 @@ public static class BuiltinFunctions
         ["hill_act"] = 3,
         ["hill_rep"] = 3,
         ["mm"] = 2,
+        [Choose] = 3,
     };
+
+    /// <summary>
+    /// The conditional of the language: <c>choose(condition, a, b)</c> is a when the condition is not 0
+    /// (true), else b. Its derivative is the conditional of the derivatives (a comparison's derivative is 0).
+    /// </summary>
+    public const string Choose = "choose";
 
     /// <summary>Function name → how its arguments are written, for messages and documentation (e.g. <c>hill_rep(x, K, n)</c>).</summary>
     public static IReadOnlyDictionary<string, string> Signature { get; } = new Dictionary<string, string>(StringComparer.Ordinal)
@@ -36,6 +43,7 @@ public static class BuiltinFunctions
         ["hill_act"] = "hill_act(x, K, n)",
         ["hill_rep"] = "hill_rep(x, K, n)",
         ["mm"] = "mm(x, K)",
+        [Choose] = "choose(condition, a, b)",
     };
 
     /// <summary>
@@ -60,6 +68,7 @@ public static class BuiltinFunctions
             "abs" => Math.Abs(arguments[0]),
             "hill_act" => HillActivation(arguments[0], arguments[1], arguments[2]),
             "hill_rep" => HillRepression(arguments[0], arguments[1], arguments[2]),
+            Choose => arguments[0] != 0 ? arguments[1] : arguments[2],
             _ => MichaelisMenten(arguments[0], arguments[1]),
         };
     }

@@ -24,7 +24,29 @@ internal static class ConstantEvaluator
             }
             : null,
         CallExpr call => EvaluateCall(call, valueOf),
+        CompareExpr compare => Evaluate(compare.Left, valueOf) is { } a && Evaluate(compare.Right, valueOf) is { } b
+            ? Truth(Compare(compare.Operator, a, b)) : null,
+        LogicExpr logic => Evaluate(logic.Left, valueOf) is { } p && Evaluate(logic.Right, valueOf) is { } q
+            ? Truth(logic.Conjunction ? p != 0 && q != 0 : p != 0 || q != 0) : null,
+        NotExpr not => Evaluate(not.Operand, valueOf) is { } v ? Truth(v == 0) : null,
         _ => null,
+    };
+
+    /// <summary>The value of a condition as a number: 1 for true, 0 for false.</summary>
+    public static double Truth(bool holds) => holds ? 1.0 : 0.0;
+
+    /// <summary>
+    /// A comparison on two numbers, IEEE semantics (every comparison with NaN is false except <c>!=</c>),
+    /// the one meaning compiled laws also use.
+    /// </summary>
+    public static bool Compare(Comparison op, double a, double b) => op switch
+    {
+        Comparison.Less => a < b,
+        Comparison.LessOrEqual => a <= b,
+        Comparison.Greater => a > b,
+        Comparison.GreaterOrEqual => a >= b,
+        Comparison.Equal => a == b,
+        _ => a != b,
     };
 
     private static double? EvaluateCall(CallExpr call, Func<string, double?> valueOf)

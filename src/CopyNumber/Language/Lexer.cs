@@ -34,6 +34,11 @@ internal static class Lexer
             {
                 ReadArrowLike(line, ref i, lineNumber, tokens);
             }
+            else if (c == '!' && i + 1 < line.Length && line[i + 1] == '=')
+            {
+                i += 2;
+                tokens.Add(Make(TokenKind.NotEqual, line, start, i, lineNumber));
+            }
             else
             {
                 i++;
@@ -87,6 +92,8 @@ internal static class Lexer
             "." => "unexpected character '.'; a number needs a digit before or after its decimal point",
             "\"" or "'" => $"unexpected character {shown}; names and numbers are written without quotes",
             ";" => "unexpected character ';'; write one declaration per line, without a terminator",
+            "!" => "unexpected character '!'; write 'not' to negate a condition and '!=' for 'not equal'",
+            "&" or "|" => $"unexpected character '{text}'; write 'and' and 'or' to join conditions",
             _ => $"unexpected character {shown}",
         };
     }
@@ -132,9 +139,11 @@ internal static class Lexer
         return token with { Number = value };
     }
 
-    // A maximal run of < - = > that contains < or > is an arrow attempt: exactly "->" or "<->" is an
-    // arrow, anything else ("=>", "<-", "-->", "<=>") is reported as a wrong arrow by the parser. A run
-    // without an angle ("-=", "=-", "--") is split into operators here, so no character is scanned twice.
+    // A maximal run of < - = > is read whole. "->" is the arrow and "<->" the first edition's double
+    // arrow (reported by the parser with the second edition's form); "<", "<=", ">", ">=" and "==" are
+    // comparisons, and a comparison followed only by minus signs ("x >-1", "x ==-1") is the comparison
+    // and the signs; "<-" stays a wrong arrow (a reaction written right to left). Any other run with an angle ("=>", "<-", "-->", "<=>") is a wrong arrow. A run
+    // without an angle ("-=", "=-", "--", "==-") is split into operators, so no character is scanned twice.
     private static void ReadArrowLike(string line, ref int i, int lineNumber, List<Token> tokens)
     {
         var start = i;
@@ -145,20 +154,40 @@ internal static class Lexer
             hasAngle |= line[end] is '<' or '>';
             end++;
         }
-        if (hasAngle)
+        var run = line.AsSpan(start, end - start);
+        var operatorEnd = end;
+        while (operatorEnd > start + 1 && line[operatorEnd - 1] == '-') operatorEnd--;
+        var comparison = Comparison(line.AsSpan(start, operatorEnd - start));
+        if (run.StartsWith("<-") || run is "->" || (hasAngle && comparison is null))
         {
-            var kind = line.AsSpan(start, end - start) switch { "->" => TokenKind.Arrow, "<->" => TokenKind.BothArrow, _ => TokenKind.BadArrow };
+            var kind = run switch { "->" => TokenKind.Arrow, "<->" => TokenKind.BothArrow, _ => TokenKind.BadArrow };
             tokens.Add(Make(kind, line, start, end, lineNumber));
             i = end;
             return;
+        }
+        if (comparison is { } compare)
+        {
+            tokens.Add(Make(compare, line, start, operatorEnd, lineNumber));
+            i = operatorEnd;
         }
         while (i < end)
         {
             var from = i;
             TokenKind kind;
             if (line[i] == '-' && i + 1 < end && line[i + 1] == '=') { kind = TokenKind.MinusEquals; i += 2; }
+            else if (line[i] == '=' && i + 1 < end && line[i + 1] == '=') { kind = TokenKind.EqualEqual; i += 2; }
             else { kind = line[i] == '-' ? TokenKind.Minus : TokenKind.Equals; i++; }
             tokens.Add(Make(kind, line, from, i, lineNumber));
         }
     }
+
+    private static TokenKind? Comparison(ReadOnlySpan<char> text) => text switch
+    {
+        "<" => TokenKind.Less,
+        "<=" => TokenKind.LessEqual,
+        ">" => TokenKind.Greater,
+        ">=" => TokenKind.GreaterEqual,
+        "==" => TokenKind.EqualEqual,
+        _ => null,
+    };
 }

@@ -9,12 +9,19 @@ namespace CopyNumber.Language;
 /// Grammar of expressions, loosest first; <c>^</c> is right-associative and binds tighter than unary
 /// minus, so <c>-x^2</c> is <c>-(x^2)</c> and <c>2^-1</c> is allowed:
 /// <code>
+/// condition   = conjunction { "or" conjunction }
+/// conjunction = negation { "and" negation }
+/// negation    = "not" negation | comparison
+/// comparison  = sum [ ("&lt;" | "&lt;=" | "&gt;" | "&gt;=" | "==" | "!=") sum ]
 /// sum     = product { ("+" | "-") product }
 /// product = unary { ("*" | "/") unary }
 /// unary   = "-" unary | power
 /// power   = primary [ "^" unary ]
-/// primary = number | name | name "(" [ sum { "," sum } ] ")" | "(" sum ")"
+/// primary = number | name | name "(" [ condition { "," condition } ] ")" | "(" condition ")"
 /// </code>
+/// <c>and</c>, <c>or</c> and <c>not</c> are keywords only where they stand (after an operand; at the
+/// start of an operand, followed by one), so they stay usable as names. A comparison does not chain:
+/// <c>a &lt; b &lt; c</c> is reported.
 /// </remarks>
 internal sealed class LineParser
 {
@@ -33,7 +40,23 @@ internal sealed class LineParser
     private int _nodes;
 
     /// <summary>Parses the tokens of one line (ending with <see cref="TokenKind.End"/>).</summary>
-    public LineParser(List<Token> tokens) => _tokens = tokens;
+    /// <param name="tokens">The line's tokens.</param>
+    /// <param name="text">The line's text, for suggestions that quote parts of it.</param>
+    public LineParser(List<Token> tokens, string text = "")
+    {
+        _tokens = tokens;
+        Text = text;
+    }
+
+    /// <summary>The line as written.</summary>
+    public string Text { get; }
+
+    /// <summary>The text from column <paramref name="from"/> up to (not including) column <paramref name="to"/>, trimmed.</summary>
+    public string Slice(int from, int to) =>
+        from >= 1 && to >= from && to - 1 <= Text.Length ? Text[(from - 1)..(to - 1)].Trim() : "";
+
+    /// <summary>The text a span covers.</summary>
+    public string Slice(SourcePosition span) => Slice(span.Column, span.Column + span.Length);
 
     /// <summary>The line's first mistake, if any.</summary>
     public (SourcePosition Position, string Message)? Error { get; private set; }
@@ -101,8 +124,8 @@ internal sealed class LineParser
 
     /// <summary>Why <paramref name="text"/> is not an arrow.</summary>
     public static string WrongArrow(string text) => text.StartsWith('<') && !text.EndsWith('>')
-        ? $"'{text}' is not an arrow: reactions read from left to right; swap the sides and write '->', or write '<->' for a reversible reaction"
-        : $"'{text}' is not an arrow; write '->' for a one-way reaction or '<->' for a reversible one";
+        ? $"'{text}' is not an arrow: reactions read from left to right; swap the sides and write '->' (a reversible reaction adds 'back' and the reverse law after the forward one)"
+        : $"'{text}' is not an arrow; write '->' (a reversible reaction adds 'back' and the reverse law after the forward one)";
 
     /// <summary>
     /// Parses an expression and returns it with the span of text it covers. <paramref name="what"/>
@@ -112,12 +135,79 @@ internal sealed class LineParser
     {
         _nodes = 0;
         var first = Peek();
-        var expr = ParseSum(what);
+        var expr = ParseCondition(what);
         if (expr is null) return null;
         var last = _tokens[Math.Max(0, _next - 1)].Position;
         var length = last.Column + last.Length - first.Position.Column;
         return (expr, first.Position with { Length = Math.Max(1, length) });
     }
+
+    private Expr? ParseCondition(string what)
+    {
+        var left = ParseConjunction(what);
+        while (left is not null && Peek().IsWord("or"))
+        {
+            var op = Next();
+            var right = ParseConjunction(what);
+            left = right is null ? null : Node(new LogicExpr(false, left, right, op.Position));
+        }
+        return left;
+    }
+
+    private Expr? ParseConjunction(string what)
+    {
+        var left = ParseNegation(what);
+        while (left is not null && Peek().IsWord("and"))
+        {
+            var op = Next();
+            var right = ParseNegation(what);
+            left = right is null ? null : Node(new LogicExpr(true, left, right, op.Position));
+        }
+        return left;
+    }
+
+    private Expr? ParseNegation(string what)
+    {
+        if (!(Peek().IsWord("not") && StartsOperand(Peek(1))))
+            return ParseComparison(what);
+        var not = Next();
+        if (!Enter(not)) return null;
+        var operand = ParseNegation(what);
+        _nesting--;
+        return operand is null ? null : Node(new NotExpr(operand, not.Position));
+    }
+
+    // The words that may follow a complete expression (joining conditions, or starting a law's or change's
+    // next part): after 'not' they mean 'not' was a name.
+    private static readonly HashSet<string> FollowingWords = new(StringComparer.Ordinal) { "and", "or", "at", "every", "from", "until", "whenever", "back" };
+
+    // Whether 'not' followed by this token is the negation rather than a name.
+    private static bool StartsOperand(Token next) =>
+        next.Kind is TokenKind.Number or TokenKind.LeftParen or TokenKind.Minus
+        || (next.Kind == TokenKind.Identifier && !FollowingWords.Contains(next.Text));
+
+    private Expr? ParseComparison(string what)
+    {
+        var left = ParseSum(what);
+        if (left is null || ComparisonOf(Peek().Kind) is not { } comparison) return left;
+        var op = Next();
+        var right = ParseSum(what);
+        if (right is null) return null;
+        if (ComparisonOf(Peek().Kind) is not null)
+            return Fail<Expr>(Peek().Position, $"comparisons do not chain: write 'a < b and b < c' instead of 'a < b < c'");
+        return Node(new CompareExpr(comparison, left, right, op.Position));
+    }
+
+    private static Comparison? ComparisonOf(TokenKind kind) => kind switch
+    {
+        TokenKind.Less => Comparison.Less,
+        TokenKind.LessEqual => Comparison.LessOrEqual,
+        TokenKind.Greater => Comparison.Greater,
+        TokenKind.GreaterEqual => Comparison.GreaterOrEqual,
+        TokenKind.EqualEqual => Comparison.Equal,
+        TokenKind.NotEqual => Comparison.NotEqual,
+        _ => null,
+    };
 
     private Expr? ParseSum(string what) => ParseChain(what, TokenKind.Plus, TokenKind.Minus, ParseProduct);
 
@@ -165,6 +255,9 @@ internal sealed class LineParser
             case TokenKind.Number:
                 Next();
                 return Node(new NumberExpr(token.Number, token.Position));
+            case TokenKind.Identifier when token.Text == "not" && StartsOperand(Peek(1)):
+                // 'not' binds looser than comparisons and arithmetic, so inside a sum or product it needs brackets
+                return Fail<Expr>(token.Position, "'not' applies to a whole condition; inside arithmetic put it in parentheses, as in '(not A > 3)'");
             case TokenKind.Identifier when Peek(1).Kind == TokenKind.LeftParen:
                 return ParseCall(what);
             case TokenKind.Identifier:
@@ -174,7 +267,7 @@ internal sealed class LineParser
             {
                 Next();
                 if (!Enter(token)) return null;
-                var inner = ParseSum(what);
+                var inner = ParseCondition(what);
                 _nesting--;
                 if (inner is null) return null;
                 if (Peek().Kind != TokenKind.RightParen)
@@ -199,7 +292,7 @@ internal sealed class LineParser
         {
             while (true)
             {
-                var argument = ParseSum(what);
+                var argument = ParseCondition(what);
                 if (argument is null) { _nesting--; return null; }
                 arguments.Add(argument);
                 if (Peek().Kind != TokenKind.Comma) break;

@@ -13,7 +13,7 @@ internal sealed class ModelChecker
     private sealed record Declared(Kind Kind, int Order, SourcePosition Position);
 
     /// <summary>Where an expression stands, which decides the names it may use.</summary>
-    private enum Place { Parameter, MassConstant, RateLaw, ScheduleTime, ScheduleValue, Readout }
+    private enum Place { Parameter, MassConstant, RateLaw, ScheduleTime, ScheduleValue, Readout, Condition }
 
     /// <summary>Names that can never be declared.</summary>
     public static readonly IReadOnlySet<string> Reserved = new HashSet<string>(StringComparer.Ordinal) { "time", "replicate", "size" };
@@ -40,6 +40,7 @@ internal sealed class ModelChecker
         checker.CheckParameters();
         checker.CheckReactions();
         checker.CheckSchedule();
+        checker.CheckTriggers();
         checker.CheckReadouts();
         checker.CheckNotEmpty();
     }
@@ -129,15 +130,16 @@ internal sealed class ModelChecker
         {
             CheckSide(reaction.Reactants);
             CheckSide(reaction.Products);
-            var place = reaction.Law == LawKind.Mass ? Place.MassConstant : Place.RateLaw;
-            var forwardOk = CheckNames(reaction.Forward, place, 0, reaction.Name);
-            var reverseOk = reaction.Reverse is null || CheckNames(reaction.Reverse, place, 0, reaction.Name);
-            if (reaction.Law != LawKind.Mass) continue;
+            var forwardOk = CheckNames(reaction.Forward, PlaceOf(reaction.Law), 0, reaction.Name);
+            var reverseOk = reaction.Reverse is null || CheckNames(reaction.Reverse, PlaceOf(reaction.BackLaw), 0, reaction.Name);
             var which = reaction.Reversible ? "forward " : "";
-            if (forwardOk) CheckMassConstant(reaction.Forward, $"{which}mass-action constant of reaction '{reaction.Name}'");
-            if (reverseOk && reaction.Reverse is not null) CheckMassConstant(reaction.Reverse, $"reverse mass-action constant of reaction '{reaction.Name}'");
+            if (forwardOk && reaction.Law == LawKind.Mass) CheckMassConstant(reaction.Forward, $"{which}mass-action constant of reaction '{reaction.Name}'");
+            if (reverseOk && reaction.Reverse is not null && reaction.BackLaw == LawKind.Mass)
+                CheckMassConstant(reaction.Reverse, $"reverse mass-action constant of reaction '{reaction.Name}'");
         }
     }
+
+    private static Place PlaceOf(LawKind law) => law == LawKind.Mass ? Place.MassConstant : Place.RateLaw;
 
     private void CheckMassConstant(Expr constant, string what)
     {
@@ -167,37 +169,78 @@ internal sealed class ModelChecker
 
     private void CheckSchedule()
     {
+        // The assignments of one line share its time expressions (by reference): check them once per line.
+        var checkedTimes = new HashSet<Expr>(ReferenceEqualityComparer.Instance);
         foreach (var change in _model.Schedule)
         {
-            if (CheckNames(change.Time, Place.ScheduleTime, 0, "") && Evaluate(change.Time) is { } time)
-            {
-                if (!double.IsFinite(time))
-                    _bag.Report(SpanOf(change.Time), $"the schedule time is {ConstantEvaluator.DescribeNonFinite(time)}");
-                else if (time < 0)
-                    _bag.Report(SpanOf(change.Time), $"the schedule time must not be negative, found {time:G6}");
-            }
-            CheckTarget(change);
+            if (checkedTimes.Add(change.Time)) CheckTiming(change);
+            CheckTarget(change.Target, change.TargetPosition, change.Operation);
             CheckNames(change.Value, Place.ScheduleValue, 0, change.Target);
         }
     }
 
-    private void CheckTarget(ScheduleDecl change)
+    private void CheckTiming(ScheduleDecl change)
     {
-        var name = change.Target;
-        var at = change.TargetPosition;
+        double? first;
+        if (change.Every is { } every)
+        {
+            var period = CheckNames(every, Place.ScheduleTime, 0, "") ? Evaluate(every) : null;
+            if (period is { } p && !double.IsFinite(p))
+                _bag.Report(SpanOf(every), $"the period of the repeating change is {ConstantEvaluator.DescribeNonFinite(p)}");
+            else if (period is { } q && q <= 0)
+                _bag.Report(SpanOf(every), $"the period of a repeating change must be positive, found {q:G6}");
+            // without 'from' the first time is the period itself, checked just above
+            first = ReferenceEquals(change.Time, every) ? period : CheckTime(change.Time, "first time of the repeating change");
+        }
+        else
+        {
+            first = CheckTime(change.Time, "change time");
+        }
+        if (change.Until is { } until && CheckTime(until, "last time of the repeating change") is { } last && first is { } from && last < from)
+            _bag.Report(SpanOf(until), $"the last time of the repeating change ({last:G6}) is before its first time ({from:G6})");
+    }
+
+    // A time of a change: numbers, parameters and size; finite and not negative. Its value, when known.
+    private double? CheckTime(Expr time, string what)
+    {
+        if (!CheckNames(time, Place.ScheduleTime, 0, "") || Evaluate(time) is not { } value) return null;
+        if (!double.IsFinite(value))
+            _bag.Report(SpanOf(time), $"the {what} is {ConstantEvaluator.DescribeNonFinite(value)}");
+        else if (value < 0)
+            _bag.Report(SpanOf(time), $"the {what} must not be negative, found {value:G6}");
+        else
+            return value;
+        return null;
+    }
+
+    private void CheckTriggers()
+    {
+        foreach (var trigger in _model.Triggers)
+        {
+            foreach (var assignment in trigger.Assignments)
+            {
+                CheckTarget(assignment.Target, assignment.TargetPosition, assignment.Operation);
+                CheckNames(assignment.Value, Place.ScheduleValue, 0, assignment.Target);
+            }
+            CheckNames(trigger.Condition, Place.Condition, 0, "");
+        }
+    }
+
+    private void CheckTarget(string name, SourcePosition at, ScheduleOperation operation)
+    {
         if (_names.TryGetValue(name, out var declared))
         {
             if (declared.Kind == Kind.Readout)
-                _bag.Report(at, $"readout '{name}' cannot be scheduled; a schedule changes a species or a parameter");
-            else if (declared.Kind == Kind.Parameter && change.Operation != ScheduleOperation.Set)
-                _bag.Report(at, $"parameter '{name}' can only be set with '=', not changed with '{(change.Operation == ScheduleOperation.Add ? "+=" : "-=")}'; write '{name} = {name} {(change.Operation == ScheduleOperation.Add ? '+' : '-')} ...'");
+                _bag.Report(at, $"readout '{name}' cannot be changed; a change sets a species or a parameter");
+            else if (declared.Kind == Kind.Parameter && operation != ScheduleOperation.Set)
+                _bag.Report(at, $"parameter '{name}' can only be set with '=', not changed with '{(operation == ScheduleOperation.Add ? "+=" : "-=")}'; write '{name} = {name} {(operation == ScheduleOperation.Add ? '+' : '-')} ...'");
         }
         else if (name == "size")
-            _bag.Report(at, "the system size cannot be changed by a schedule");
+            _bag.Report(at, "the system size cannot be changed");
         else if (Reserved.Contains(name))
-            _bag.Report(at, $"'{name}' cannot be scheduled; a schedule changes a species or a parameter");
+            _bag.Report(at, $"'{name}' cannot be changed; a change sets a species or a parameter");
         else if (!_model.NamesOnBadLines.Contains(name))
-            _bag.Report(at, $"unknown schedule target '{name}'{NameSuggestions.Hint(name, _species.Concat(_parameters))}");
+            _bag.Report(at, $"unknown change target '{name}'{NameSuggestions.Hint(name, _species.Concat(_parameters))}");
     }
 
     private void CheckReadouts()
@@ -247,6 +290,17 @@ internal sealed class ModelChecker
                     CheckCall(call);
                     for (var i = call.Arguments.Count - 1; i >= 0; i--) pending.Push(call.Arguments[i]);
                     break;
+                case CompareExpr compare:
+                    pending.Push(compare.Right);
+                    pending.Push(compare.Left);
+                    break;
+                case LogicExpr logic:
+                    pending.Push(logic.Right);
+                    pending.Push(logic.Left);
+                    break;
+                case NotExpr not:
+                    pending.Push(not.Operand);
+                    break;
             }
         }
         return _bag.Count == before;
@@ -261,10 +315,10 @@ internal sealed class ModelChecker
             case "size":
                 return;
             case "time":
-                _bag.Report(at, "laws must not depend on time explicitly; use a schedule to change a value at a given time");
+                _bag.Report(at, "laws and conditions must not depend on time explicitly; use a change line 'x = ...  at time T' to change a value at a given time");
                 return;
             case "replicate":
-                _bag.Report(at, "expressions may not use 'replicate': every replicate runs the same model (use a schedule for changes over time)");
+                _bag.Report(at, "expressions may not use 'replicate': every replicate runs the same model (use a change line for changes over time)");
                 return;
         }
         if (!_names.TryGetValue(name, out var declared))
@@ -282,7 +336,7 @@ internal sealed class ModelChecker
                 _bag.Report(at, $"mass-action constant may not depend on species '{name}'; write a rate law instead");
                 break;
             case (Kind.Species, Place.ScheduleTime):
-                _bag.Report(at, $"a schedule time may not depend on species '{name}'; it is a number, parameter or 'size'");
+                _bag.Report(at, $"a change time may not depend on species '{name}'; it is a number, parameter or 'size' (a change on a condition of the state is written with 'whenever')");
                 break;
             case (Kind.Parameter, Place.Parameter) when declared.Order == order:
                 _bag.Report(at, $"parameter '{name}' is used in its own definition");
@@ -304,14 +358,15 @@ internal sealed class ModelChecker
         Place.Parameter => "a parameter",
         Place.MassConstant => "a mass-action constant",
         Place.RateLaw => "a rate law",
-        Place.ScheduleTime => "a schedule time",
-        Place.ScheduleValue => "a schedule value",
+        Place.ScheduleTime => "a change time",
+        Place.ScheduleValue => "a change value",
+        Place.Condition => "a condition",
         _ => "a readout",
     };
 
     private IEnumerable<string> Allowed(Place place, int order)
     {
-        var species = place is Place.RateLaw or Place.ScheduleValue or Place.Readout ? _species : [];
+        var species = place is Place.RateLaw or Place.ScheduleValue or Place.Readout or Place.Condition ? _species : [];
         var parameters = place == Place.Parameter
             ? _parameters.Where(p => _names[p].Order < order)
             : _parameters;

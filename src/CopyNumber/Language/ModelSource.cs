@@ -27,7 +27,8 @@ public static class ModelSource
         var parsed = ModelParser.Parse(bag);
         ModelChecker.Check(parsed, bag);
         if (bag.Count > 0) return new ParseOutcome(null, bag.Sorted());
-        var model = new ModelSyntax(file, parsed.Size, parsed.Species, parsed.Parameters, parsed.Reactions, parsed.Schedule, parsed.Readouts);
+        var model = new ModelSyntax(file, parsed.Size, parsed.Species, parsed.Parameters, parsed.Reactions, parsed.Schedule, parsed.Readouts,
+            parsed.Triggers, parsed.TimeUnit, parsed.SizeUnit);
         return new ParseOutcome(model, []);
     }
 

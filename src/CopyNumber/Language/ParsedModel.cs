@@ -8,7 +8,8 @@ internal enum Section
     Species,
     Parameters,
     Reactions,
-    Schedule,
+    /// <summary>Timed and state-triggered changes (the first edition's <c>schedule</c> header leads here too, with an error).</summary>
+    Changes,
     Readouts,
     /// <summary>After a header that names no section; its lines are skipped.</summary>
     Unknown,
@@ -32,8 +33,17 @@ internal sealed class ParsedModel
     /// <summary>Reaction lines in file order.</summary>
     public List<ReactionDecl> Reactions { get; } = [];
 
-    /// <summary>Schedule lines in file order.</summary>
+    /// <summary>Timed change assignments in file order (one per assignment of a change line).</summary>
     public List<ScheduleDecl> Schedule { get; } = [];
+
+    /// <summary>State-triggered change lines in file order.</summary>
+    public List<TriggerDecl> Triggers { get; } = [];
+
+    /// <summary>The declared time unit, or null.</summary>
+    public string? TimeUnit { get; set; }
+
+    /// <summary>The declared unit of <c>size</c>, or null.</summary>
+    public string? SizeUnit { get; set; }
 
     /// <summary>Readout lines in file order.</summary>
     public List<ReadoutDecl> Readouts { get; } = [];

@@ -4,8 +4,10 @@ namespace CopyNumber.Language;
 /// Reads a model file line by line: decides what kind of line each is (section header, <c>size</c>,
 /// or a declaration of the current section) and parses it. A line with a mistake yields one
 /// diagnostic and is left out; parsing resumes at the next line, so every line is looked at once.
-/// Section names, <c>mass</c>, <c>rate</c> and <c>at</c> are keywords only where they stand: a lone
-/// word on a line, the word after a reaction's products, the first word of a schedule line.
+/// Section names, <c>mass</c>, <c>rate</c>, <c>back</c>, <c>held</c>, <c>at</c>, <c>every</c>,
+/// <c>from</c>, <c>until</c> and <c>whenever</c> are keywords only where they stand: a lone word on a
+/// line, the word after a reaction's products or law, the word after a species' amount, the word after a
+/// change's assignments or timing.
 /// </summary>
 internal static class ModelParser
 {
@@ -15,11 +17,17 @@ internal static class ModelParser
         ["species"] = Section.Species,
         ["parameters"] = Section.Parameters,
         ["reactions"] = Section.Reactions,
-        ["schedule"] = Section.Schedule,
+        ["changes"] = Section.Changes,
         ["readouts"] = Section.Readouts,
     };
 
-    private static readonly string SectionList = "species, parameters, reactions, schedule and readouts";
+    /// <summary>The first edition's name of the changes section, reported with the second edition's form.</summary>
+    private const string FirstEditionSchedule = "schedule";
+
+    /// <summary>The word on a species line that marks a species no reaction changes.</summary>
+    public const string HeldWord = "held";
+
+    private static readonly string SectionList = "species, parameters, reactions, changes and readouts";
 
     /// <summary>Parses every line of the bag's file; syntax mistakes go to <paramref name="bag"/>.</summary>
     public static ParsedModel Parse(DiagnosticBag bag)
@@ -31,7 +39,7 @@ internal static class ModelParser
         {
             var tokens = Lexer.Tokenize(bag.Lines[n - 1], n);
             if (tokens[0].Kind == TokenKind.End) continue;
-            var line = new LineParser(tokens);
+            var line = new LineParser(tokens, bag.Lines[n - 1]);
             var lineSection = section;
             section = ParseLine(line, section, model, ref sizeLine);
             if (line.Error is not { } error) continue;
@@ -50,6 +58,12 @@ internal static class ModelParser
     {
         var first = line.Peek();
         var second = line.Peek(1);
+
+        if (first.IsWord(FirstEditionSchedule) && second.Kind is TokenKind.End or TokenKind.Colon)
+        {
+            line.Fail(first.Position, "the 'schedule' section is the first edition's form; write the header 'changes' and each change as what, then when: 'A = A + 4  at time 5'");
+            return Enter(line, Section.Changes, first, model);
+        }
 
         if (first.Kind == TokenKind.Identifier && SectionWords.TryGetValue(first.Text, out var named))
         {
@@ -86,9 +100,19 @@ internal static class ModelParser
             return Section.Unknown;
         }
 
+        if (first.IsWord("size") && second.IsWord("unit"))
+        {
+            ParseUnit(line, "size", model.SizeUnit, unit => model.SizeUnit = unit);
+            return section;
+        }
         if (first.IsWord("size") && second.Kind != TokenKind.Equals)
         {
             ParseSize(line, model, ref sizeLine);
+            return section;
+        }
+        if (first.IsWord("time") && second.IsWord("unit"))
+        {
+            ParseUnit(line, "time", model.TimeUnit, unit => model.TimeUnit = unit);
             return section;
         }
 
@@ -106,11 +130,11 @@ internal static class ModelParser
                 : $"reaction line in the '{Word(section)}' section; reactions belong under the 'reactions' header");
             return section;
         }
-        if (section != Section.Schedule && first.IsWord("at") && second.Kind is not (TokenKind.Equals or TokenKind.Colon))
+        if (section != Section.Changes && (first.IsWord("at") && second.Kind is not (TokenKind.Equals or TokenKind.Colon) || LooksLikeChange(line)))
         {
             line.Fail(first.Position, section == Section.None
-                ? "schedule line before any section; put it under a 'schedule' header"
-                : $"schedule line in the '{Word(section)}' section; timed changes belong under the 'schedule' header");
+                ? "change line before any section; put it under a 'changes' header"
+                : $"change line in the '{Word(section)}' section; changes belong under the 'changes' header");
             return section;
         }
 
@@ -134,8 +158,8 @@ internal static class ModelParser
             case Section.Reactions:
                 if (ParseReaction(line, model) is { } reaction) model.Reactions.Add(reaction);
                 break;
-            case Section.Schedule:
-                if (ParseSchedule(line, model) is { } change) model.Schedule.Add(change);
+            case Section.Changes:
+                ParseChange(line, model);
                 break;
         }
         return section;
@@ -150,6 +174,41 @@ internal static class ModelParser
         else
             model.Headers[section] = header.Position;
         return section;
+    }
+
+    // "x = ... at time T", "x = ... every P", "x = ..., y = ... whenever c": a timing word after an assignment.
+    private static bool LooksLikeChange(LineParser line)
+    {
+        if (line.Peek().Kind != TokenKind.Identifier || line.Peek(1).Kind is not (TokenKind.Equals or TokenKind.PlusEquals or TokenKind.MinusEquals))
+            return false;
+        var tokens = line.Tokens;
+        for (var i = 3; i < tokens.Count - 1; i++)
+        {
+            if (tokens[i - 1].Kind is TokenKind.Identifier or TokenKind.Number or TokenKind.RightParen
+                && (tokens[i].IsWord("at") && tokens[i + 1].IsWord("time") || tokens[i].IsWord("every") || tokens[i].IsWord("whenever")))
+                return true;
+        }
+        return false;
+    }
+
+    private static void ParseUnit(LineParser line, string of, string? earlier, Action<string> set)
+    {
+        line.Next();
+        line.Next();
+        var unit = line.Peek();
+        if (unit.Kind != TokenKind.Identifier)
+        {
+            line.FailAt(unit, $"a unit name after '{of} unit', as in '{of} unit {(of == "time" ? "minute" : "litre")}'");
+            return;
+        }
+        line.Next();
+        if (!line.ExpectEnd($"the {of} unit (it is a single name)")) return;
+        if (earlier is not null)
+        {
+            line.Fail(unit.Position, $"the {of} unit is declared twice; it is already '{earlier}'");
+            return;
+        }
+        set(unit.Text);
     }
 
     private static bool LooksLikeReaction(LineParser line)
@@ -196,50 +255,61 @@ internal static class ModelParser
 
     private static SpeciesDecl? ParseSpecies(LineParser line)
     {
-        if (ParseNameAndEquals(line, "species", "as in 'A = 10'", " and an initial count") is not { } name) return null;
+        if (ParseNameAndEquals(line, "species", "as in 'A = 10'", " and an initial amount") is not { } name) return null;
         var count = line.Peek();
         if (count.Kind == TokenKind.Minus && line.Peek(1).Kind == TokenKind.Number)
         {
             var number = line.Peek(1);
             var span = count.Position with { Length = number.Position.Column + number.Position.Length - count.Position.Column };
-            line.Fail(span, $"initial count of '{name.Text}' must be a non-negative integer, found '-{number.Text}'");
+            line.Fail(span, $"initial amount of '{name.Text}' must not be negative, found '-{number.Text}'");
             return null;
         }
         if (count.Kind != TokenKind.Number)
         {
             if (count.Kind is TokenKind.Identifier or TokenKind.LeftParen)
-                line.Fail(count.Position, $"initial count of '{name.Text}' must be a non-negative integer written as a number, found {count.Describe()}");
+                line.Fail(count.Position, $"initial amount of '{name.Text}' must be a non-negative number written as a number, found {count.Describe()}");
             else
-                line.FailAt(count, $"an initial count (a non-negative integer) for '{name.Text}'");
+                line.FailAt(count, $"an initial amount (a non-negative number) for '{name.Text}'");
             return null;
         }
         line.Next();
-        if (count.Number != Math.Floor(count.Number))
-        {
-            line.Fail(count.Position, $"initial count of '{name.Text}' must be a non-negative integer, found '{count.Text}'");
-            return null;
-        }
+        var whole = count.Number == Math.Floor(count.Number);
         // The double the lexer made has already rounded 2^53 + 1 down to 2^53, so the digits decide.
         if (!decimal.TryParse(count.Text, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var exact) || exact > LargestCount)
         {
-            line.Fail(count.Position, $"initial count of '{name.Text}' is too large (at most 2^53 = {LargestCount})");
+            line.Fail(count.Position, $"initial amount of '{name.Text}' is too large (at most 2^53 = {LargestCount})");
             return null;
+        }
+        var held = false;
+        if (line.Peek().IsWord(HeldWord))
+        {
+            line.Next();
+            held = true;
         }
         if (line.Peek().Kind != TokenKind.End)
         {
             var after = line.Peek();
             line.Fail(after.Position, after.Kind is TokenKind.Invalid or TokenKind.BadArrow
                 ? LineParser.Unexpected(after, "")
-                : $"initial count of '{name.Text}' must be a single non-negative integer; unexpected {after.Describe()} after it");
+                : after.Kind == TokenKind.Identifier && !held && NameSuggestions.Closest(after.Text, [HeldWord]) is { } meant
+                    ? $"unknown word '{after.Text}' after the amount of '{name.Text}'; did you mean '{meant}'?"
+                    : $"initial amount of '{name.Text}' must be a single non-negative number, optionally followed by '{HeldWord}'; unexpected {after.Describe()} after it");
             return null;
         }
-        return new SpeciesDecl(name.Text, (long)count.Number, name.Position);
+        return whole
+            ? new SpeciesDecl(name.Text, (long)count.Number, name.Position, held)
+            : new SpeciesDecl(name.Text, (long)Math.Round(count.Number, MidpointRounding.AwayFromZero), name.Position, held, count.Number);
     }
 
     private static (string Name, Expr Value, SourcePosition Position)? ParseNamedExpression(LineParser line, string what, ParsedModel model)
     {
         if (ParseNameAndEquals(line, what, "as in 'x = ...'", "") is not { } name) return null;
         if (line.ParseExpression($"the value of {what} '{name.Text}'") is not { } value) return null;
+        if (line.Peek().IsWord("at") || line.Peek().IsWord("every") || line.Peek().IsWord("whenever"))
+        {
+            line.Fail(line.Peek().Position, $"a change of '{name.Text}' at a time or on a condition is a change line; put it under the 'changes' header");
+            return null;
+        }
         if (!line.ExpectEnd($"the value of {what} '{name.Text}'")) return null;
         model.Spans[value.Expr] = value.Span;
         return (name.Text, value.Expr, name.Position);
@@ -291,15 +361,16 @@ internal static class ModelParser
             line.Fail(arrow.Position, arrow.Kind switch
             {
                 TokenKind.Invalid or TokenKind.BadArrow => LineParser.Unexpected(arrow, ""),
-                TokenKind.Identifier when arrow.Text is "mass" or "rate" => $"missing arrow: expected '->' or '<->' and the products before '{arrow.Text}'",
-                TokenKind.End => "missing arrow: expected '->' or '<->' and the products after the reactants",
-                TokenKind.Equals => "'=' is not an arrow; write '->' for a one-way reaction or '<->' for a reversible one",
-                _ => $"expected '+' or an arrow ('->' or '<->') after the reactants, found {arrow.Describe()}",
+                TokenKind.Identifier when arrow.Text is "mass" or "rate" => $"missing arrow: expected '->' and the products before '{arrow.Text}'",
+                TokenKind.End => "missing arrow: expected '->' and the products after the reactants",
+                TokenKind.Equals => "'=' is not an arrow; write '->' (a reversible reaction adds 'back' and the reverse law after the forward one)",
+                _ => $"expected '+' or the arrow '->' after the reactants, found {arrow.Describe()}",
             });
             return null;
         }
         line.Next();
-        var reversible = arrow.Kind == TokenKind.BothArrow;
+        var doubleArrow = arrow.Kind == TokenKind.BothArrow;
+        var productsStart = line.Peek().Position.Column;
         var products = line.ParseSide("products");
         if (products is null) return null;
 
@@ -309,32 +380,71 @@ internal static class ModelParser
             line.Fail(law.Position, MissingLaw(law, products));
             return null;
         }
+        var productsText = line.Slice(productsStart, law.Position.Column);
         line.Next();
         var kind = law.Text == "mass" ? LawKind.Mass : LawKind.Rate;
         var lawName = kind == LawKind.Mass ? "the mass-action constant" : "the rate law";
         if (line.ParseExpression(lawName) is not { } forward) return null;
         model.Spans[forward.Expr] = forward.Span;
-        Expr? reverse = null;
+
+        // The first edition's second constant, "mass kf, kr": read it to suggest the second edition's form.
+        (Expr Expr, SourcePosition Span)? firstEditionReverse = null;
         var comma = line.Peek();
         if (comma.Kind == TokenKind.Comma)
         {
             line.Next();
             if (line.ParseExpression(kind == LawKind.Mass ? "the reverse mass-action constant" : "the rate law") is not { } second2) return null;
-            reverse = second2.Expr;
-            model.Spans[reverse] = second2.Span;
+            firstEditionReverse = second2;
+            model.Spans[second2.Expr] = second2.Span;
         }
-        if (!line.ExpectEnd(reverse is null && reversible ? $"{lawName} (a reversible reaction lists two constants separated by ',')" : lawName)) return null;
 
-        // These mistakes keep the reaction: its names are still checked, and it still claims its name.
-        if (reversible && kind == LawKind.Rate)
-            line.Fail(law.Position, $"reversible reaction '{name.Text}' needs mass-action constants, 'mass k_fwd, k_rev'; write a reversible rate law as two one-way reactions");
-        else if (reversible && reverse is null)
-            line.Fail(law.Position, $"reversible reaction '{name.Text}' needs two constants, forward and reverse: 'mass k_fwd, k_rev'");
-        else if (!reversible && reverse is not null)
-            line.Fail(comma.Position, kind == LawKind.Mass
-                ? $"one-way reaction '{name.Text}' takes one constant; write '<->' for a reversible reaction with 'mass k_fwd, k_rev'"
-                : $"a rate law is a single expression; write '<->' only with 'mass k_fwd, k_rev'");
-        return new ReactionDecl(name.Text, name.Position, reactants, products, reversible, kind, forward.Expr, reverse);
+        Expr? reverse = null;
+        LawKind? reverseKind = null;
+        var back = line.Peek();
+        if (back.IsWord("back") && firstEditionReverse is null)
+        {
+            line.Next();
+            var backLaw = line.Peek();
+            if (!(backLaw.IsWord("mass") || backLaw.IsWord("rate")))
+            {
+                line.Fail(backLaw.Position, backLaw.Kind == TokenKind.End
+                    ? "'back' needs the reverse law: 'back mass <constant>' or 'back rate <propensity>'"
+                    : backLaw.Kind == TokenKind.Identifier && NameSuggestions.Closest(backLaw.Text, ["mass", "rate"]) is { } meantLaw
+                        ? $"unknown law '{backLaw.Text}' after 'back'; did you mean '{meantLaw}'?"
+                        : $"expected 'mass' or 'rate' after 'back', found {backLaw.Describe()}");
+                return null;
+            }
+            line.Next();
+            reverseKind = backLaw.Text == "mass" ? LawKind.Mass : LawKind.Rate;
+            if (line.ParseExpression(reverseKind == LawKind.Mass ? "the reverse mass-action constant" : "the reverse rate law") is not { } reversed) return null;
+            reverse = reversed.Expr;
+            model.Spans[reverse] = reversed.Span;
+            if (!line.ExpectEnd(reverseKind == LawKind.Mass ? "the reverse mass-action constant" : "the reverse rate law")) return null;
+        }
+        else if (!line.ExpectEnd(lawName))
+        {
+            return null;
+        }
+
+        // The first edition's forms keep the reaction (its names are still checked and it still claims its
+        // name); the message shows the same reaction in the second edition's form.
+        var reactantsText = line.Slice(name.Position.Column + name.Position.Length + 1, arrow.Position.Column).TrimStart(':').Trim();
+        string Suggestion(string reverseLaw) =>
+            $"'{name.Text}: {reactantsText} -> {productsText}  {law.Text} {line.Slice(forward.Span)}  back {reverseLaw}'";
+        if (doubleArrow)
+        {
+            var reverseLaw = firstEditionReverse is { } r ? $"{law.Text} {line.Slice(r.Span)}" : reverse is not null ? $"{(reverseKind == LawKind.Mass ? "mass" : "rate")} {line.Slice(model.Spans[reverse])}" : "mass <reverse constant>";
+            line.Fail(arrow.Position, $"the double arrow '<->' is the first edition's form; write one arrow and the reverse law after 'back': {Suggestion(reverseLaw)}");
+            if (firstEditionReverse is { } pair) { reverse = pair.Expr; reverseKind = kind; }
+            else if (reverse is null) reverse = forward.Expr;
+            return new ReactionDecl(name.Text, name.Position, reactants, products, true, kind, forward.Expr, reverse, reverseKind);
+        }
+        if (firstEditionReverse is { } listed)
+        {
+            line.Fail(comma.Position, $"a second constant after ',' is the first edition's form of a reversible reaction; write the reverse law after 'back': {Suggestion($"{law.Text} {line.Slice(listed.Span)}")}");
+            return new ReactionDecl(name.Text, name.Position, reactants, products, true, kind, forward.Expr, listed.Expr, kind);
+        }
+        return new ReactionDecl(name.Text, name.Position, reactants, products, reverse is not null, kind, forward.Expr, reverse, reverseKind);
     }
 
     private static string MissingLaw(Token found, ReactionSide products)
@@ -348,48 +458,150 @@ internal static class ModelParser
             return LineParser.Unexpected(found, "");
         if (found.Kind == TokenKind.Identifier && NameSuggestions.Closest(found.Text, ["mass", "rate"]) is { } meant)
             return $"unknown law '{found.Text}'; did you mean '{meant}'?";
+        if (found.IsWord("back"))
+            return "missing law: the forward law ('mass <constant>' or 'rate <expression>') comes before 'back'";
         return $"expected '+', 'mass' or 'rate' after the products, found {found.Describe()}";
     }
 
-    private static ScheduleDecl? ParseSchedule(LineParser line, ParsedModel model)
+    // assignment { "," assignment } ( "at" "time" T | "every" P [ "from" T ] [ "until" U ] | "whenever" condition )
+    private static void ParseChange(LineParser line, ParsedModel model)
     {
-        var at = line.Peek();
-        if (!at.IsWord("at"))
+        var start = line.Peek();
+        if (start.IsWord("at") && line.Peek(1).Kind is not (TokenKind.Equals or TokenKind.PlusEquals or TokenKind.MinusEquals))
         {
-            if (at.Kind == TokenKind.Identifier && line.Peek(1).Kind == TokenKind.Equals)
-                line.Fail(at.Position, $"a schedule line reads 'at <time>: {at.Text} = <value>'; declarations belong under 'species', 'parameters' or 'readouts'");
-            else
-                line.FailAt(at, "'at' to start a schedule line, as in 'at 50: k = 2'");
-            return null;
+            FirstEditionChange(line);
+            return;
         }
-        line.Next();
-        if (line.ParseExpression("the schedule time") is not { } time) return null;
-        model.Spans[time.Expr] = time.Span;
-        if (!line.Expect(TokenKind.Colon, "':' after the schedule time")) return null;
+        var assignments = new List<AssignmentDecl>();
+        while (true)
+        {
+            var target = line.Peek();
+            if (assignments.Count > 0 && (target.IsWord("at") || target.IsWord("every") || target.IsWord("whenever"))
+                && OperationOf(line.Peek(1).Kind) is null)
+            {
+                line.Fail(line.Tokens.Last(t => t.Kind == TokenKind.Comma && t.Position.Column < target.Position.Column).Position,
+                    "a ',' before the timing: remove it or add another assignment after it");
+                return;
+            }
+            if (target.Kind != TokenKind.Identifier)
+            {
+                line.FailAt(target, assignments.Count == 0
+                    ? "a species or parameter to change at the start of a change line, as in 'k = 2  at time 50'"
+                    : "a species or parameter to change after ','");
+                return;
+            }
+            line.Next();
+            var op = line.Peek();
+            var operation = OperationOf(op.Kind);
+            if (operation is null)
+            {
+                line.FailAt(op, $"'=', '+=' or '-=' after '{target.Text}'");
+                return;
+            }
+            line.Next();
+            if (line.ParseExpression($"the new value of '{target.Text}'") is not { } value) return;
+            model.Spans[value.Expr] = value.Span;
+            assignments.Add(new AssignmentDecl(target.Text, target.Position, operation.Value, value.Expr));
+            if (line.Peek().Kind != TokenKind.Comma) break;
+            line.Next();
+        }
+
+        var timing = line.Peek();
+        if (timing.IsWord("at"))
+        {
+            line.Next();
+            if (!line.Peek().IsWord("time"))
+            {
+                line.FailAt(line.Peek(), "'time' after 'at', as in 'at time 50'");
+                return;
+            }
+            line.Next();
+            if (Timed(line, model, "the change time") is not { } time) return;
+            if (!line.ExpectEnd("the change time")) return;
+            foreach (var a in assignments)
+                model.Schedule.Add(new ScheduleDecl(time, a.Target, a.TargetPosition, a.Operation, a.Value, start.Position));
+            return;
+        }
+        if (timing.IsWord("every"))
+        {
+            line.Next();
+            if (Timed(line, model, "the period") is not { } every) return;
+            var from = every;
+            Expr? until = null;
+            if (line.Peek().IsWord("from"))
+            {
+                line.Next();
+                if (Timed(line, model, "the first time") is not { } first) return;
+                from = first;
+            }
+            if (line.Peek().IsWord("until"))
+            {
+                line.Next();
+                if (Timed(line, model, "the last time") is not { } last) return;
+                until = last;
+            }
+            if (!line.ExpectEnd(until is null ? "the repetition ('from <time>' and 'until <time>' may follow, in that order)" : "the last time")) return;
+            foreach (var a in assignments)
+                model.Schedule.Add(new ScheduleDecl(from, a.Target, a.TargetPosition, a.Operation, a.Value, start.Position, every, until));
+            return;
+        }
+        if (timing.IsWord("whenever"))
+        {
+            line.Next();
+            if (line.ParseExpression("the condition") is not { } condition) return;
+            model.Spans[condition.Expr] = condition.Span;
+            if (!line.ExpectEnd("the condition")) return;
+            model.Triggers.Add(new TriggerDecl(assignments, condition.Expr, start.Position));
+            return;
+        }
+        if (timing.Kind == TokenKind.End)
+            line.Fail(timing.Position, "a change needs its timing after the assignments: 'at time <time>', 'every <period>' or 'whenever <condition>'");
+        else if (timing.Kind is TokenKind.Invalid or TokenKind.BadArrow)
+            line.FailAt(timing, "");
+        else if (timing.Kind == TokenKind.Identifier && NameSuggestions.Closest(timing.Text, ["at", "every", "whenever"]) is { } meant)
+            line.Fail(timing.Position, $"unknown timing '{timing.Text}'; did you mean '{meant}'?");
+        else
+            line.Fail(timing.Position, $"expected ',' and another assignment, or the timing ('at time', 'every', 'whenever'), found {timing.Describe()}");
+    }
+
+    private static ScheduleOperation? OperationOf(TokenKind kind) => kind switch
+    {
+        TokenKind.Equals => ScheduleOperation.Set,
+        TokenKind.PlusEquals => ScheduleOperation.Add,
+        TokenKind.MinusEquals => ScheduleOperation.Subtract,
+        _ => null,
+    };
+
+    private static Expr? Timed(LineParser line, ParsedModel model, string what)
+    {
+        if (line.ParseExpression(what) is not { } value) return null;
+        model.Spans[value.Expr] = value.Span;
+        return value.Expr;
+    }
+
+    // "at <time>: <target> <op> <value>": read it as the first edition did, then report it with the
+    // second edition's form; the line is not kept.
+    private static void FirstEditionChange(LineParser line)
+    {
+        var at = line.Next();
+        if (line.ParseExpression("the change time") is not { } time) return;
+        if (!line.Expect(TokenKind.Colon, "':' after the time of a first-edition change line 'at <time>: ...'")) return;
         var target = line.Peek();
         if (target.Kind != TokenKind.Identifier)
         {
             line.FailAt(target, "a species or parameter to change after ':'");
-            return null;
+            return;
         }
         line.Next();
         var op = line.Peek();
-        var operation = op.Kind switch
-        {
-            TokenKind.Equals => ScheduleOperation.Set,
-            TokenKind.PlusEquals => ScheduleOperation.Add,
-            TokenKind.MinusEquals => ScheduleOperation.Subtract,
-            _ => (ScheduleOperation?)null,
-        };
-        if (operation is null)
+        if (OperationOf(op.Kind) is null)
         {
             line.FailAt(op, $"'=', '+=' or '-=' after '{target.Text}'");
-            return null;
+            return;
         }
         line.Next();
-        if (line.ParseExpression($"the new value of '{target.Text}'") is not { } value) return null;
-        if (!line.ExpectEnd($"the new value of '{target.Text}'")) return null;
-        model.Spans[value.Expr] = value.Span;
-        return new ScheduleDecl(time.Expr, target.Text, target.Position, operation.Value, value.Expr, at.Position);
+        if (line.ParseExpression($"the new value of '{target.Text}'") is not { } value) return;
+        if (!line.ExpectEnd($"the new value of '{target.Text}'")) return;
+        line.Fail(at.Position, $"a change line opening with 'at' is the first edition's form; write what, then when: '{target.Text} {op.Text} {line.Slice(value.Span)}  at time {line.Slice(time.Span)}'");
     }
 }

@@ -25,6 +25,18 @@ internal enum TokenKind
     BothArrow,
     /// <summary>A run of <c>&lt; - = &gt;</c> that looks like an arrow but is none, e.g. <c>=&gt;</c> or <c>--&gt;</c>.</summary>
     BadArrow,
+    /// <summary><c>&lt;</c></summary>
+    Less,
+    /// <summary><c>&lt;=</c></summary>
+    LessEqual,
+    /// <summary><c>&gt;</c></summary>
+    Greater,
+    /// <summary><c>&gt;=</c></summary>
+    GreaterEqual,
+    /// <summary><c>==</c></summary>
+    EqualEqual,
+    /// <summary><c>!=</c></summary>
+    NotEqual,
     /// <summary>Text the lexer could not read; <see cref="Token.Problem"/> says why.</summary>
     Invalid,
     /// <summary>The end of the line (or the start of its comment).</summary>

@@ -65,6 +65,8 @@ public sealed class FiniteStateProjection
         ArgumentNullException.ThrowIfNull(grid);
         ArgumentNullException.ThrowIfNull(options);
         if (!(options.Tolerance > 0 && options.Tolerance < 1)) throw new ArgumentOutOfRangeException(nameof(options), "the tolerance lies in (0, 1)");
+        // The master equation is over counts: what the simulators cannot carry out, it cannot either (state-triggered changes, non-integer amounts).
+        ModelSupport.RequireStochastic(network);
         var clock = Stopwatch.StartNew();
         var solver = new FiniteStateProjection(network, options);
         return solver.Run(grid, clock, cancel);

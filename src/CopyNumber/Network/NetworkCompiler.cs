@@ -6,8 +6,9 @@ namespace CopyNumber.Network;
 
 /// <summary>
 /// Turns a checked model into an immutable <see cref="ReactionNetwork"/>: resolves names to indices,
-/// evaluates parameters, splits reversible lines, builds N, compiles every law to delegates (with
-/// symbolic derivatives for the exact Jacobian), classifies readouts and orders the schedule.
+/// evaluates parameters, splits reversible lines, builds N (dropping the entries of held species),
+/// compiles every law to delegates (with symbolic derivatives for the exact Jacobian), classifies
+/// readouts, orders the timed changes and compiles the state-triggered ones.
 /// </summary>
 public static class NetworkCompiler
 {
@@ -52,7 +53,7 @@ public static class NetworkCompiler
             var size = Size();
             if (size is null) return Failed();
             var speciesNames = model.Species.Select(s => s.Name).ToArray();
-            var counts = InitialCounts(size.Value);
+            var (counts, amounts) = InitialCounts(size.Value);
             var readoutDefinitions = new Dictionary<string, Expr>();
             foreach (var r in model.Readouts) readoutDefinitions.TryAdd(r.Name, r.Value);
             _scope = new ExpressionScope(speciesNames, model.Parameters.Select(p => p.Name).ToArray(), size.Value, readoutDefinitions);
@@ -62,9 +63,11 @@ public static class NetworkCompiler
             var kinetics = columns.Select(CompileKinetics).ToArray();
             var readouts = model.Readouts.Select(CompileReadout).ToArray();
             var schedule = model.Schedule.Select(CompileChange).ToArray();
+            var triggers = model.TriggerLines.Select(CompileTrigger).ToArray();
             if (_diagnostics.Count > 0) return Failed();
 
-            var stoichiometry = new Stoichiometry(model.Species.Count, Sparse(columns));
+            var held = model.Species.Select(s => s.Fixed).ToArray();
+            var stoichiometry = new Stoichiometry(model.Species.Count, Sparse(columns, held));
             var propensities = new Propensities(
                 size.Value,
                 columns.Select(c => (IReadOnlyList<(int, long)>)c.Reactants).ToArray(),
@@ -93,7 +96,12 @@ public static class NetworkCompiler
                 propensities,
                 rateEquations,
                 readouts.Select(r => r!).ToArray(),
-                schedule.Select(s => s!).ToArray());
+                schedule.Select(s => s!).ToArray(),
+                amounts,
+                triggers.Select(t => t!).ToArray(),
+                new ModelUnits(model.TimeUnit, model.SizeUnit),
+                held,
+                model.Species.Select(s => s.Position).ToArray());
             return new CompileOutcome(network, []);
         }
 
@@ -113,28 +121,39 @@ public static class NetworkCompiler
             return null;
         }
 
-        // Scaling by Ω/Ω₀ keeps each initial concentration count/Ω (up to rounding to a whole count).
-        private long[] InitialCounts(double size)
+        // Scaling by Ω/Ω₀ keeps each initial concentration count/Ω (up to rounding to a whole count); a
+        // non-integer amount is scaled without rounding (only the deterministic methods accept it).
+        private (long[] Counts, double[] Amounts) InitialCounts(double size)
         {
             var ratio = size / model.Size;
             var counts = new long[model.Species.Count];
+            var amounts = new double[model.Species.Count];
             for (var i = 0; i < counts.Length; i++)
             {
                 var species = model.Species[i];
+                amounts[i] = species.InitialAmount * ratio;
+                if (species.FractionalAmount is { } fraction)
+                {
+                    if (!(fraction >= 0) || !double.IsFinite(amounts[i]))
+                        Report(species.Position, $"the initial amount of '{species.Name}' must be a finite number, zero or more");
+                    counts[i] = (long)Math.Min(Math.Round(amounts[i], MidpointRounding.AwayFromZero), 9.2e18);
+                    continue;
+                }
                 if (species.InitialCount < 0)
                 {
                     Report(species.Position, $"the initial count of '{species.Name}' is negative");
                     continue;
                 }
-                if (ratio == 1 || species.InitialCount == 0) { counts[i] = species.InitialCount; continue; }
+                if (ratio == 1 || species.InitialCount == 0) { counts[i] = species.InitialCount; amounts[i] = counts[i]; continue; }
                 var scaled = Math.Round(species.InitialCount * ratio, MidpointRounding.AwayFromZero);
                 // 2^63 is the first double a long cannot hold
                 if (scaled >= 9223372036854775808.0)
                     Report(species.Position,
                         $"the initial count of '{species.Name}' becomes {Describe(scaled)} at size {Describe(size)}, more than a count can hold");
                 else counts[i] = (long)scaled;
+                amounts[i] = counts[i];
             }
-            return counts;
+            return (counts, amounts);
         }
 
         private double[] ParameterValues()
@@ -200,7 +219,7 @@ public static class NetworkCompiler
                     continue;
                 }
                 columns.Add(new Column(line.Name + "_fwd", line.Position, reactants, products, line.Law, line.Forward));
-                columns.Add(new Column(line.Name + "_rev", line.Position, products, reactants, line.Law, line.Reverse));
+                columns.Add(new Column(line.Name + "_rev", line.Position, products, reactants, line.BackLaw, line.Reverse));
             }
             foreach (var clash in columns.GroupBy(c => c.Name).Where(g => g.Count() > 1))
                 Report(clash.Last().Position, $"reaction name '{clash.Key}' is used twice (a reversible reaction 'r' also makes 'r_fwd' and 'r_rev')");
@@ -225,11 +244,12 @@ public static class NetworkCompiler
 
         /// <summary>
         /// N = products − reactants, column by column: never the dense species × reactions matrix, which for a
-        /// chain of 30 000 reactions would take 7 GB.
+        /// chain of 30 000 reactions would take 7 GB. A held species' entries are dropped (its row of N is 0),
+        /// as for an SBML boundary species: a reaction reads its count but does not change it.
         /// </summary>
-        private static IReadOnlyList<(int Species, long Change)>[] Sparse(Column[] columns) =>
+        private static IReadOnlyList<(int Species, long Change)>[] Sparse(Column[] columns, bool[] held) =>
             columns.Select(c => (IReadOnlyList<(int, long)>)c.Reactants.Select(r => (r.Species, -r.Coefficient))
-                .Concat(c.Products).ToArray()).ToArray();
+                .Concat(c.Products).Where(e => !held[e.Species]).ToArray()).ToArray();
 
         private ColumnKinetics? CompileKinetics(Column column)
         {
@@ -295,26 +315,73 @@ public static class NetworkCompiler
             ScheduledChange? compiled = null;
             Guard(() =>
             {
-                var species = _scope.SpeciesIndex(change.Target);
-                var parameter = _scope.ParameterIndex(change.Target);
-                if (species < 0 && parameter < 0)
-                    throw new ModelException(change.TargetPosition, $"'{change.Target}' is neither a species nor a parameter");
-                if (species < 0 && change.Operation != ScheduleOperation.Set)
-                    throw new ModelException(change.TargetPosition, $"parameter '{change.Target}' can only be set, not added to or subtracted from");
-                var time = Evaluate(change.Time, ParameterOrSize, "a schedule time");
+                var time = Evaluate(change.Time, ParameterOrSize, "a change time");
                 if ((!double.IsFinite(time) || time < 0) && !ReadsBrokenParameter(change.Time))
-                    throw new ModelException(change.Time.Position, $"the schedule time is {Describe(time)}; it must be a finite number, zero or more");
-                compiled = new ScheduledChange(
-                    time,
-                    species >= 0 ? ScheduleTarget.Species : ScheduleTarget.Parameter,
-                    species >= 0 ? species : parameter,
-                    change.Target,
-                    change.Operation,
-                    ExpressionCompiler.CompileCountLaw(change.Value, _scope),
-                    ExpressionCompiler.CompileStateLaw(change.Value, _scope));
+                    throw new ModelException(change.Time.Position, $"the change time is {Describe(time)}; it must be a finite number, zero or more");
+                double? every = null;
+                if (change.Every is { } period)
+                {
+                    every = Evaluate(period, ParameterOrSize, "the period of a repeating change");
+                    if (!(every > 0) || !double.IsFinite(every.Value))
+                        throw new ModelException(period.Position, $"the period of the repeating change is {Describe(every.Value)}; it must be a positive finite number");
+                }
+                var until = change.Until is { } last ? Evaluate(last, ParameterOrSize, "the last time of a repeating change") : double.PositiveInfinity;
+                if (double.IsNaN(until) || until < time)
+                    throw new ModelException(change.Until!.Position, $"the last time of the repeating change is {Describe(until)}; it must not be before the first time {Describe(time)}");
+                compiled = Assignment(change.Target, change.TargetPosition, change.Operation, change.Value, time) with
+                {
+                    Every = every,
+                    Until = until,
+                    Order = _changesCompiled,
+                };
+            });
+            _changesCompiled++;
+            return compiled;
+        }
+
+        private int _changesCompiled;
+
+        /// <summary>One assignment of a change line, resolved; <paramref name="time"/> is NaN for a triggered one.</summary>
+        private ScheduledChange Assignment(string target, SourcePosition at, ScheduleOperation operation, Expr value, double time)
+        {
+            var species = _scope.SpeciesIndex(target);
+            var parameter = _scope.ParameterIndex(target);
+            if (species < 0 && parameter < 0)
+                throw new ModelException(at, $"'{target}' is neither a species nor a parameter");
+            if (species < 0 && operation != ScheduleOperation.Set)
+                throw new ModelException(at, $"parameter '{target}' can only be set, not added to or subtracted from");
+            return new ScheduledChange(
+                time,
+                species >= 0 ? ScheduleTarget.Species : ScheduleTarget.Parameter,
+                species >= 0 ? species : parameter,
+                target,
+                operation,
+                ExpressionCompiler.CompileCountLaw(value, _scope),
+                ExpressionCompiler.CompileStateLaw(value, _scope));
+        }
+
+        private StateTrigger? CompileTrigger(TriggerDecl trigger)
+        {
+            StateTrigger? compiled = null;
+            Guard(() =>
+            {
+                var assignments = trigger.Assignments.Select(a => Assignment(a.Target, a.TargetPosition, a.Operation, a.Value, double.NaN)).ToArray();
+                var text = string.Join(", ", trigger.Assignments.Select(a => $"{a.Target} {Operator(a.Operation)} {ExpressionText.Format(a.Value)}"))
+                           + "  whenever " + ExpressionText.Format(trigger.Condition);
+                var condition = _scope.Expand(trigger.Condition);
+                compiled = new StateTrigger(trigger.Position, text, assignments,
+                    ExpressionCompiler.CompileCountLaw(condition, _scope),
+                    ExpressionCompiler.CompileStateLaw(condition, _scope));
             });
             return compiled;
         }
+
+        private static string Operator(ScheduleOperation operation) => operation switch
+        {
+            ScheduleOperation.Set => "=",
+            ScheduleOperation.Add => "+=",
+            _ => "-=",
+        };
 
         private double? ParameterOrSize(string name)
         {

@@ -21,6 +21,14 @@ public sealed record NetworkDescription(
     [property: JsonPropertyName("readouts")] IReadOnlyList<ReadoutDescription> Readouts,
     [property: JsonPropertyName("schedule")] IReadOnlyList<ScheduleDescription> Schedule)
 {
+    /// <summary>The declared time unit, or null.</summary>
+    [JsonPropertyName("time_unit")]
+    public string? TimeUnit { get; init; }
+
+    /// <summary>The state-triggered change lines, as text (no method runs a model that has one yet).</summary>
+    [JsonPropertyName("triggers")]
+    public IReadOnlyList<string> Triggers { get; init; } = [];
+
     /// <summary>Gathers the description of a network, including the exact structure of N.</summary>
     public static NetworkDescription Of(ReactionNetwork network)
     {
@@ -35,7 +43,7 @@ public sealed record NetworkDescription(
         return new NetworkDescription(
             network.Name,
             network.Size,
-            network.Species.Select((s, i) => new SpeciesDescription(s, network.InitialCounts[i])).ToArray(),
+            network.Species.Select((s, i) => new SpeciesDescription(s, network.InitialCounts[i], network.Held[i])).ToArray(),
             network.Parameters.Select((p, i) => new ParameterDescription(p, network.InitialParameterValues[i])).ToArray(),
             network.Reactions.Select(r => new ReactionDescription(
                 r.Name, $"{Side(r.Reactants)} -> {Side(r.Products)}", r.Law == Language.LawKind.Mass ? "mass" : "rate", r.LawText)).ToArray(),
@@ -53,15 +61,22 @@ public sealed record NetworkDescription(
                 Language.ScheduleOperation.Set => "set",
                 Language.ScheduleOperation.Add => "add",
                 _ => "subtract",
-            })).ToArray());
+            }, s.Every, double.IsPositiveInfinity(s.Until) ? null : s.Until)).ToArray())
+        {
+            TimeUnit = network.Units.Time,
+            Triggers = network.Triggers.Select(t => t.Text).ToArray(),
+        };
     }
 
     /// <summary>The description as indented JSON.</summary>
     public string ToJson() => JsonSerializer.Serialize(this, new JsonSerializerOptions { WriteIndented = true });
 }
 
-/// <summary>A species and its initial copy number.</summary>
-public sealed record SpeciesDescription([property: JsonPropertyName("name")] string Name, [property: JsonPropertyName("initial")] long Initial);
+/// <summary>A species, its initial copy number and whether it is held (no reaction changes it).</summary>
+public sealed record SpeciesDescription(
+    [property: JsonPropertyName("name")] string Name,
+    [property: JsonPropertyName("initial")] long Initial,
+    [property: JsonPropertyName("held")] bool Held = false);
 
 /// <summary>A parameter and its value at time 0.</summary>
 public sealed record ParameterDescription([property: JsonPropertyName("name")] string Name, [property: JsonPropertyName("value")] double Value);
@@ -85,8 +100,13 @@ public sealed record ReadoutDescription(
     [property: JsonPropertyName("expression")] string Expression,
     [property: JsonPropertyName("is_count")] bool IsCount);
 
-/// <summary>A scheduled change: when, what, and how (<c>set</c>, <c>add</c>, <c>subtract</c>).</summary>
+/// <summary>
+/// A timed change: when (the first time, for a repeating one), what, how (<c>set</c>, <c>add</c>,
+/// <c>subtract</c>), and for a repeating change its period and last time (null: once / the end of the run).
+/// </summary>
 public sealed record ScheduleDescription(
     [property: JsonPropertyName("time")] double Time,
     [property: JsonPropertyName("target")] string Target,
-    [property: JsonPropertyName("operation")] string Operation);
+    [property: JsonPropertyName("operation")] string Operation,
+    [property: JsonPropertyName("every")] double? Every = null,
+    [property: JsonPropertyName("until")] double? Until = null);

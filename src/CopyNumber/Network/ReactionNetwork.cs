@@ -9,6 +9,7 @@ namespace CopyNumber.Network;
 public sealed class ReactionNetwork
 {
     /// <summary>Creates a network; normally done by the network compiler.</summary>
+    /// <remarks>The optional arguments default to: initial amounts equal to the counts, no triggers, no declared units, no held species.</remarks>
     public ReactionNetwork(
         string name,
         string sourceFile,
@@ -23,7 +24,12 @@ public sealed class ReactionNetwork
         Propensities propensities,
         RateEquations rateEquations,
         IReadOnlyList<Readout> readouts,
-        IReadOnlyList<ScheduledChange> schedule)
+        IReadOnlyList<ScheduledChange> schedule,
+        IReadOnlyList<double>? initialAmounts = null,
+        IReadOnlyList<StateTrigger>? triggers = null,
+        ModelUnits? units = null,
+        IReadOnlyList<bool>? held = null,
+        IReadOnlyList<Language.SourcePosition>? speciesPositions = null)
     {
         Name = name;
         SourceFile = sourceFile;
@@ -38,8 +44,35 @@ public sealed class ReactionNetwork
         Propensities = propensities;
         RateEquations = rateEquations;
         Readouts = readouts.ToArray();
-        Schedule = schedule.OrderBy(s => s.Time).ToArray(); // OrderBy is stable: file order within a time
+        Schedule = schedule.OrderBy(s => s.Time).ThenBy(s => s.Order).ToArray(); // stable: list order where Order ties
+        InitialAmounts = initialAmounts?.ToArray() ?? InitialCounts.Select(c => (double)c).ToArray();
+        Triggers = triggers?.ToArray() ?? [];
+        Units = units ?? ModelUnits.None;
+        Held = held?.ToArray() ?? new bool[Species.Count];
+        SpeciesPositions = speciesPositions?.ToArray() ?? [];
     }
+
+    /// <summary>
+    /// Initial amounts as declared: equal to <see cref="InitialCounts"/> except where a species starts at a
+    /// non-integer amount, which only the rate equations and the expansions accept
+    /// (<see cref="ModelSupport.StochasticProblems"/>). The deterministic methods start from these.
+    /// </summary>
+    public IReadOnlyList<double> InitialAmounts { get; }
+
+    /// <summary>State-triggered changes, in file order. No method carries them out yet; each refuses a network that has one.</summary>
+    public IReadOnlyList<StateTrigger> Triggers { get; }
+
+    /// <summary>The declared units of time and of <c>size</c> (each may be undeclared).</summary>
+    public ModelUnits Units { get; }
+
+    /// <summary>
+    /// Per species, whether it is held: no reaction changes its count (its entries in N are dropped, as for
+    /// an SBML boundary species) while laws may read it and changes may set it.
+    /// </summary>
+    public IReadOnlyList<bool> Held { get; }
+
+    /// <summary>Where each species is declared in the model file (empty for a network built without a file).</summary>
+    public IReadOnlyList<Language.SourcePosition> SpeciesPositions { get; }
 
     /// <summary>The model's name (its file name without extension).</summary>
     public string Name { get; }

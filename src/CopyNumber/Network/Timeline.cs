@@ -15,7 +15,12 @@ namespace CopyNumber.Network;
 /// user means. Changes at or within the tolerance of 0 (or before it) act on the initial state; changes
 /// later than T by more than the tolerance are never reached.</para>
 /// <para>Grid and change at one instant: the grid records the state after the change (the recorded
-/// path is right-continuous). Changes at one instant apply in file order.</para>
+/// path is right-continuous). Changes at one instant apply in file order
+/// (<see cref="ScheduledChange.Order"/>).</para>
+/// <para>Repeating changes (<see cref="ScheduledChange.Every"/>) are expanded here, and only here, into
+/// one change per instance at Time + k·Every (k·Every computed by multiplication, not by summing, so
+/// round-off does not accumulate), up to <see cref="ScheduledChange.Until"/> (inclusive within
+/// 10⁻⁹·Every) and T; each instance then follows the coincidence rule like any other change.</para>
 /// <para>Segments: segment s starts at <see cref="Segment.Start"/>, where its changes
 /// [<see cref="Segment.FirstChange"/>, <see cref="Segment.EndChange"/>) apply first (segment 0: the
 /// changes acting at 0), and runs to <see cref="Segment.End"/>, the next change instant or T; it records
@@ -26,6 +31,9 @@ public sealed class Timeline
 {
     /// <summary>A change time within this fraction of the grid spacing Δ of a grid time is at that grid time.</summary>
     public const double CoincidenceTolerance = 1e-9;
+
+    /// <summary>The most instances one repeating change may have on one grid; more is refused as a mistake of the period.</summary>
+    public const long MaxRepetitions = 1_000_000;
 
     private static readonly ConditionalWeakTable<ReactionNetwork, ConditionalWeakTable<TimeGrid, Timeline>> Cache = new();
 
@@ -67,13 +75,28 @@ public sealed class Timeline
         var changes = new List<ScheduledChange>(schedule.Count);
         foreach (var change in schedule)
         {
-            var time = EffectiveTime(change.Time, grid);
-            if (time is not { } at) continue;
-            changes.Add(at == change.Time ? change : change with { Time = at });
+            if (change.Every is not { } every)
+            {
+                Add(change, change.Time);
+                continue;
+            }
+            var last = Math.Min(change.Until + CoincidenceTolerance * every, grid.Until + CoincidenceTolerance * grid.Every);
+            var count = last < change.Time ? 0 : Math.Floor((last - change.Time) / every) + 1;
+            if (count > MaxRepetitions)
+                throw new ArgumentException(
+                    $"the repeating change of '{change.TargetName}' every {every:G6} would happen {count:G3} times before the final time {grid.Until:G6}; at most {MaxRepetitions:N0} are allowed",
+                    nameof(schedule));
+            var instance = change with { Every = null };
+            for (var k = 0L; k < (long)count; k++)
+            {
+                var time = change.Time + k * every;
+                if (time > last) break;
+                Add(instance, time);
+            }
         }
         // Snapping is monotone, so the order by time (file order within a time) survives; a stable sort
-        // guards against a schedule not handed over sorted.
-        var ordered = changes.OrderBy(c => c.Time).ToArray();
+        // by time, then file order, also merges the instances of repeating changes.
+        var ordered = changes.OrderBy(c => c.Time).ThenBy(c => c.Order).ToArray();
 
         var segments = new List<Segment>();
         var next = 0;
@@ -93,6 +116,12 @@ public sealed class Timeline
             start = end;
         }
         return new Timeline(grid, ordered, segments.ToArray());
+
+        void Add(ScheduledChange change, double written)
+        {
+            if (EffectiveTime(written, grid) is not { } at) return;
+            changes.Add(at == change.Time ? change : change with { Time = at });
+        }
     }
 
     /// <summary>

@@ -27,6 +27,7 @@ internal sealed class SimulatorState
             throw new ArgumentException("the network's reactions, propensities and N disagree on the number of reactions", nameof(network));
         if (network.Parameters.Count != network.InitialParameterValues.Count)
             throw new ArgumentException("the network's parameter names and values disagree in number", nameof(network));
+        ModelSupport.RequireStochastic(network);
         Counts = new long[species];
         Parameters = new double[network.Parameters.Count];
         Constants = new double[reactions];

@@ -125,7 +125,7 @@ public sealed class EffectiveMesoscopicRateEquationsTests
                   A = {total}
                   B = 0
                 reactions
-                  dimer: 2 A <-> B mass 0.05, 1
+                  dimer: 2 A -> B mass 0.05  back mass 1
                 readouts
                   monomers = A + 2*B
                 """);
@@ -209,8 +209,8 @@ public sealed class EffectiveMesoscopicRateEquationsTests
               mrna_decay: M -> 0 mass 0.25
               translation: M -> M + P mass 2
               protein_decay: P -> 0 mass 0.05
-            schedule
-              at 4: P += 7
+            changes
+              P += 7  at time 4
             """);
         var solution = EffectiveMesoscopicRateEquations.Solve(network, new TimeGrid(10, 0.5), Tight);
         Assert.True(solution.HasMeanCorrection);

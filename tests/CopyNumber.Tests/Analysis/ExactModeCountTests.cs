@@ -18,7 +18,7 @@ public sealed class ExactModeCountTests(ITestOutputHelper output)
 {
     // 3 A <-> T with A + 3T = 60: a chain in T = 0..20 with λ(T) = kf·ff(A, 3), μ(T) = kr·T, A = 60 − 3T.
     private const string Trimer =
-        "# illustrative trimerisation\nspecies\n  A = 60\n  T = 0\nreactions\n  pair: 3 A <-> T mass 0.001, 1\n";
+        "# illustrative trimerisation\nspecies\n  A = 60\n  T = 0\nreactions\n  pair: 3 A -> T mass 0.001  back mass 1\n";
 
     private static double TrimerForward(int t)
     {

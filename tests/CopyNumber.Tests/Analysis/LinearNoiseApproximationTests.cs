@@ -73,7 +73,7 @@ public sealed class LinearNoiseApproximationTests
         // and new immigrants are Poisson(40(1 − q)), q = e^(−μ(t − 5)). At t = 12 the count is set to 0 in
         // every replicate, so the process restarts from a deterministic 0 (Bailey 1964, ch. 8; Poisson
         // thinning, common practice).
-        var network = Compile(ImmigrationDeath.Replace("readouts", "schedule\n  at 5: A += 10\n  at 12: A = 0\nreadouts"));
+        var network = Compile(ImmigrationDeath.Replace("readouts", "changes\n  A += 10  at time 5\n  A = 0  at time 12\nreadouts"));
         var grid = new TimeGrid(20, 0.5);
         var lna = LinearNoiseApproximation.Solve(network, grid, Tight);
         var m5 = 40 * (1 - Math.Exp(-0.3 * 5));
@@ -105,7 +105,7 @@ public sealed class LinearNoiseApproximationTests
               A = 50
               B = 0
             reactions
-              flip: A <-> B mass 0.4, 0.1
+              flip: A -> B mass 0.4  back mass 0.1
             readouts
               total = A + B
             """);

@@ -34,10 +34,12 @@ public sealed class ScenarioExpansionTests
     [Fact]
     public void HalvingTheProteinQuartersItsVariance()
     {
-        // "at 100: protein = protein / 2" maps every replicate's count x to x/2, so the variance becomes
+        // "protein = protein / 2  at time 100" maps every replicate's count x to x/2, so the variance becomes
         // Var/4, the covariance with mRNA halves, and the mean halves (Var(aX) = a²Var(X); common practice).
         var withDivision = Compile(Scenario("inducer_pulse.cnet"));
-        var withoutDivision = Compile(Scenario("inducer_pulse.cnet").Replace("at 100: protein = protein / 2", ""));
+        var text = Scenario("inducer_pulse.cnet");
+        var withoutDivision = Compile(text.Replace("protein = protein / 2     at time 100", ""));
+        Assert.NotEqual(text, text.Replace("protein = protein / 2     at time 100", "")); // the division line is there to remove
         var grid = new TimeGrid(100, 10);
         var after = LinearNoiseApproximation.Solve(withDivision, grid, Tight);
         var before = LinearNoiseApproximation.Solve(withoutDivision, grid, Tight);

@@ -15,7 +15,7 @@ public class ModeStabilityTests
     // chain in T whose ratio π(T+1)/π(T) = a_fwd(T)/a_rev(T+1) decreases in T, so it is log-concave and
     // unimodal on its lattice (Keilson & Gerber 1971, J. Am. Stat. Assoc. 66:386; quoted from memory).
     private const string Trimer =
-        "# illustrative trimerisation\nspecies\n  A = 60\n  T = 0\nreactions\n  pair: 3 A <-> T mass 0.001, 1\n";
+        "# illustrative trimerisation\nspecies\n  A = 60\n  T = 0\nreactions\n  pair: 3 A -> T mass 0.001  back mass 1\n";
 
     [Fact]
     public void A_species_that_moves_in_steps_of_three_has_one_mode_on_its_lattice()

@@ -30,11 +30,11 @@ public sealed class TimelineContrastTests
     [InlineData("tau-leap")]
     public void A_change_on_a_grid_time_computed_differently_raises_no_alarm(string method) =>
         // 3 × 0.3 = 0.8999999999999999 on the grid against the change at 0.9.
-        OnlyAdequate("species\n  X = 0\nparameters\n  k = 0\nreactions\n  decay: X -> 0 mass k\nschedule\n  at 0.9: X = 100\n",
+        OnlyAdequate("species\n  X = 0\nparameters\n  k = 0\nreactions\n  decay: X -> 0 mass k\nchanges\n  X = 100  at time 0.9\n",
             ["X"], "--until", "1.5", "--every", "0.3", "--method", method);
 
     [Fact]
     public void A_readout_of_a_scheduled_parameter_raises_no_alarm() =>
-        OnlyAdequate("species\n  A = 100\nparameters\n  K = 1\n  k = 0\nreactions\n  decay: A -> 0 mass k\nschedule\n  at 2: K = 10\nreadouts\n  scaled = A / K\n",
+        OnlyAdequate("species\n  A = 100\nparameters\n  K = 1\n  k = 0\nreactions\n  decay: A -> 0 mass k\nchanges\n  K = 10  at time 2\nreadouts\n  scaled = A / K\n",
             ["A", "scaled"], "--until", "4", "--every", "0.5");
 }

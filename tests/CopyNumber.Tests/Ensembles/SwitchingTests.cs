@@ -16,7 +16,7 @@ public sealed class SwitchingTests
     private static string Telegraph(double kOn, double kOff, string schedule = "") =>
         $"species\n  gene_off = 1\n  gene_on = 0\nparameters\n  k_on = {kOn}\n  k_off = {kOff}\n" +
         "reactions\n  activate: gene_off -> gene_on mass k_on\n  deactivate: gene_on -> gene_off mass k_off\n" +
-        (schedule.Length > 0 ? "schedule\n" + schedule : "");
+        (schedule.Length > 0 ? "changes\n" + schedule : "");
 
     private static EnsembleResult Run(ReactionNetwork network, SimulationMethod method, double until, long replicates, Shard? shard = null) =>
         EnsembleRunner.Run(network, new EnsembleOptions
@@ -67,7 +67,7 @@ public sealed class SwitchingTests
     {
         // Nothing fires (rates 0): the gene is switched on at 0 (the initial state), off at 2.5 and on at 3.
         var network = AnalysisModels.Compile(Telegraph(0, 0,
-            "  at 0: gene_on = 1\n  at 0: gene_off = 0\n  at 2.5: gene_on = 0\n  at 2.5: gene_off = 1\n  at 3: gene_on = 1\n  at 3: gene_off = 0\n"));
+            "  gene_on = 1  at time 0\n  gene_off = 0  at time 0\n  gene_on = 0  at time 2.5\n  gene_off = 1  at time 2.5\n  gene_on = 1  at time 3\n  gene_off = 0  at time 3\n"));
         var result = Run(network, method, until: 4, replicates: 10);
         foreach (var switching in result.Switching)
         {
@@ -81,7 +81,7 @@ public sealed class SwitchingTests
     {
         // Setting gene_on = 1 while gene_off is 1 (nothing fires) makes gene_off + gene_on = 2, under which
         // gene_on could reach 2: no replicate's count of either species is a count of 0/1 switches.
-        var network = AnalysisModels.Compile(Telegraph(0, 0, "  at 2: gene_on = 1\n"));
+        var network = AnalysisModels.Compile(Telegraph(0, 0, "  gene_on = 1  at time 2\n"));
         var result = Run(network, SimulationMethod.Direct, until: 4, replicates: 20);
         Assert.All(result.Switching, s => Assert.Equal((0L, 20L), (s.Replicates, s.Excluded)));
         Assert.True(double.IsNaN(result.Switching[0].Mean));

@@ -13,7 +13,7 @@ public sealed class BuiltinFunctionsTests
         var expected = new Dictionary<string, int>
         {
             ["exp"] = 1, ["log"] = 1, ["sqrt"] = 1, ["pow"] = 2, ["min"] = 2, ["max"] = 2, ["abs"] = 1,
-            ["hill_act"] = 3, ["hill_rep"] = 3, ["mm"] = 2,
+            ["hill_act"] = 3, ["hill_rep"] = 3, ["mm"] = 2, ["choose"] = 3,
         };
         Assert.Equal(expected.OrderBy(p => p.Key), BuiltinFunctions.Arity.OrderBy(p => p.Key));
         Assert.Equal(expected.Keys.Order(), BuiltinFunctions.Signature.Keys.Order());

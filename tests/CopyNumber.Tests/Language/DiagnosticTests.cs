@@ -60,9 +60,9 @@ public sealed class DiagnosticTests
     {
         AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k\n  bind: dimer -> 0 mass k"), 8, 3,
             "duplicate reaction name 'bind'", "line 7");
-        AssertSingleError(Model(reactions: "bind: 2 protein <-> dimer mass k, k\n  bind_rev: dimer -> 0 mass k"), 8, 3,
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k  back mass k\n  bind_rev: dimer -> 0 mass k"), 8, 3,
             "duplicate reaction name 'bind_rev'", "line 7", "reverse half of reversible reaction 'bind'");
-        AssertSingleError(Model(reactions: "bind_fwd: dimer -> 0 mass k\n  bind: 2 protein <-> dimer mass k, k"), 8, 3,
+        AssertSingleError(Model(reactions: "bind_fwd: dimer -> 0 mass k\n  bind: 2 protein -> dimer rate k * protein  back mass k"), 8, 3,
             "duplicate reaction name 'bind_fwd'", "line 7", "split into 'bind_fwd' and 'bind_rev'");
     }
 
@@ -81,22 +81,23 @@ public sealed class DiagnosticTests
         AssertSingleError(Model(parameters: parameterLine), 5, 7, words);
 
     [Theory]
-    [InlineData("protein = -3", 13, "non-negative integer", "'-3'")]
-    [InlineData("protein = 2.5", 13, "non-negative integer", "'2.5'")]
-    [InlineData("protein = n0", 13, "non-negative integer", "'n0'")]
-    [InlineData("protein = 10 * 2", 16, "single non-negative integer", "'*'")]
+    [InlineData("protein = -3", 13, "must not be negative", "'-3'")]
+    [InlineData("protein = n0", 13, "non-negative number written as a number", "'n0'")]
+    [InlineData("protein = 10 * 2", 16, "single non-negative number", "'held'", "'*'")]
     [InlineData("protein = 99999999999999999999", 13, "too large")]
-    [InlineData("protein 10", 11, "'=' and an initial count after species 'protein'")]
-    public void InitialCountsMustBeNonNegativeIntegers(string speciesLine, int column, params string[] words) =>
+    [InlineData("protein 10", 11, "'=' and an initial amount after species 'protein'")]
+    [InlineData("protein = 10 hled", 16, "unknown word 'hled'", "did you mean 'held'?")]
+    [InlineData("protein = 10 held held", 21, "single non-negative number")]
+    public void InitialAmountsAreNonNegativeNumbers(string speciesLine, int column, params string[] words) =>
         AssertSingleError(Model(species: speciesLine + "\n  dimer = 0"), 2, column, words);
 
     [Theory]
-    [InlineData("bind: 2 protein => dimer mass k", 19, "'=>' is not an arrow", "'->'", "'<->'")]
+    [InlineData("bind: 2 protein => dimer mass k", 19, "'=>' is not an arrow", "'->'", "'back'")]
     [InlineData("bind: 2 protein --> dimer mass k", 19, "'-->' is not an arrow")]
     [InlineData("bind: 2 protein <- dimer mass k", 19, "'<-' is not an arrow", "left to right")]
     [InlineData("bind: 2 protein <=> dimer mass k", 19, "'<=>' is not an arrow")]
     [InlineData("bind: 2 protein = dimer mass k", 19, "'=' is not an arrow")]
-    [InlineData("bind: 2 protein dimer mass k", 19, "expected '+' or an arrow", "'dimer'")]
+    [InlineData("bind: 2 protein dimer mass k", 19, "expected '+' or the arrow '->'", "'dimer'")]
     [InlineData("bind: 2 protein mass k", 19, "missing arrow", "'mass'")]
     public void MissingOrWrongArrowsAreNamed(string reaction, int column, params string[] words) =>
         AssertSingleError(Model(reactions: reaction), 7, column, words);
@@ -123,11 +124,46 @@ public sealed class DiagnosticTests
         AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k * protein"), 7, 37,
             "mass-action constant may not depend on species 'protein'", "write a rate law instead");
 
+    // The first edition's reversible forms are reported at the double arrow or the comma, with the whole
+    // reaction rewritten in the second edition's form (the message quotes it exactly).
     [Theory]
-    [InlineData("bind: 2 protein <-> dimer mass k", 29, "reversible reaction 'bind' needs two constants")]
-    [InlineData("bind: 2 protein -> dimer mass k, k", 34, "one-way reaction 'bind' takes one constant", "'<->'")]
-    [InlineData("bind: 2 protein <-> dimer rate k, k", 29, "reversible reaction 'bind' needs mass-action constants")]
-    public void ConstantCountMustMatchTheArrow(string reaction, int column, params string[] words) =>
+    [InlineData("bind: 2 protein <-> dimer mass k, k", 19,
+        "the double arrow '<->' is the first edition's form; write one arrow and the reverse law after 'back': 'bind: 2 protein -> dimer  mass k  back mass k'")]
+    [InlineData("bind: 2 protein <-> dimer mass k", 19,
+        "the double arrow '<->' is the first edition's form; write one arrow and the reverse law after 'back': 'bind: 2 protein -> dimer  mass k  back mass <reverse constant>'")]
+    [InlineData("bind: 2 protein -> dimer mass 2 * k, k / 2", 38,
+        "a second constant after ',' is the first edition's form of a reversible reaction; write the reverse law after 'back': 'bind: 2 protein -> dimer  mass 2 * k  back mass k / 2'")]
+    [InlineData("bind: 2 protein <-> dimer rate k * protein, k", 19,
+        "the double arrow '<->' is the first edition's form; write one arrow and the reverse law after 'back': 'bind: 2 protein -> dimer  rate k * protein  back rate k'")]
+    public void FirstEditionReversibleFormsAreReportedWithTheNewForm(string reaction, int column, string message)
+    {
+        var diagnostic = AssertSingleError(Model(reactions: reaction), 7, column);
+        Assert.Equal(message, diagnostic.Message);
+    }
+
+    [Fact]
+    public void TheSuggestedReversibleLineParsesIntoTheSameReaction()
+    {
+        // The suggestion is a working line: pasted back in, it parses with the forward and reverse laws of the old one.
+        var diagnostic = AssertSingleError(Model(reactions: "bind: 2 protein <-> dimer mass k, 2 * k"), 7, 19);
+        var suggested = diagnostic.Message[(diagnostic.Message.IndexOf("'bind:", StringComparison.Ordinal) + 1)..^1];
+        var model = ParseValid(Model(reactions: suggested));
+        var reaction = Assert.Single(model.Reactions);
+        Assert.True(reaction.Reversible);
+        Assert.Equal("k", Assert.IsType<NameExpr>(reaction.Forward).Name);
+        Assert.Equal('*', Assert.IsType<BinaryExpr>(reaction.Reverse).Operator);
+    }
+
+    [Theory]
+    [InlineData("bind: 2 protein -> dimer mass k  back", 40, "'back' needs the reverse law")]
+    [InlineData("bind: 2 protein -> dimer mass k  back k", 41, "expected 'mass' or 'rate' after 'back'", "'k'")]
+    [InlineData("bind: 2 protein -> dimer mass k  back mas k", 41, "unknown law 'mas' after 'back'", "did you mean 'mass'?")]
+    [InlineData("bind: 2 protein -> dimer mass k  back mass", 45, "the reverse mass-action constant is incomplete")]
+    [InlineData("bind: 2 protein -> dimer mass k  back mass k k", 48, "unexpected 'k' after the reverse mass-action constant")]
+    [InlineData("bind: 2 protein -> dimer mass k  back mass k * dimer", 50, "mass-action constant may not depend on species 'dimer'")]
+    [InlineData("bind: 2 protein -> dimer back mass k", 28, "the forward law", "before 'back'")]
+    [InlineData("bind: 2 protein -> dimer mass k  back mass -k", 46, "reverse mass-action constant of reaction 'bind' is negative")]
+    public void BackClausesAreChecked(string reaction, int column, params string[] words) =>
         AssertSingleError(Model(reactions: reaction), 7, column, words);
 
     [Theory]
@@ -141,8 +177,8 @@ public sealed class DiagnosticTests
     public void TimeAndReplicateMayNotAppearInExpressions()
     {
         AssertSingleError(Model(reactions: "bind: 2 protein -> dimer rate k * time"), 7, 37,
-            "must not depend on time explicitly", "use a schedule");
-        AssertSingleError(Model(parameters: "k = replicate"), 5, 7, "'replicate'", "schedule");
+            "must not depend on time explicitly", "at time T");
+        AssertSingleError(Model(parameters: "k = replicate"), 5, 7, "'replicate'", "change line");
     }
 
     [Fact]
@@ -222,29 +258,74 @@ public sealed class DiagnosticTests
         AssertSingleError(Model(parameters: "k = -0.5"), 7, 33, "mass-action constant of reaction 'bind' is negative", "-0.5");
 
     [Theory]
-    [InlineData("at -5: protein = 1", 6, "schedule time must not be negative", "-5")]
-    [InlineData("at 1 - 4 * k: protein = 1", 6, "schedule time must not be negative", "-1")]
-    [InlineData("at protein: protein = 1", 6, "schedule time may not depend on species 'protein'")]
-    [InlineData("at 5: k += 1", 9, "parameter 'k' can only be set with '='", "'+='")]
-    [InlineData("at 5: protien = 1", 9, "unknown schedule target 'protien'", "did you mean 'protein'?")]
-    [InlineData("at 5: size = 1", 9, "system size cannot be changed")]
-    [InlineData("at 5: total = 1", 9, "readout 'total' cannot be scheduled")]
-    [InlineData("at 5: protein = 2 * protien", 23, "unknown name 'protien'", "did you mean 'protein'?")]
-    [InlineData("at 5 protein = 1", 8, "expected ':' after the schedule time", "'protein'")]
-    [InlineData("at 5: protein * 2", 17, "expected '=', '+=' or '-=' after 'protein'")]
-    public void ScheduleLinesAreChecked(string scheduleLine, int column, params string[] words)
+    [InlineData("protein = 1  at time -5", 24, "change time must not be negative", "-5")]
+    [InlineData("protein = 1  at time 1 - 4 * k", 24, "change time must not be negative", "-1")]
+    [InlineData("protein = 1  at time protein", 24, "change time may not depend on species 'protein'", "'whenever'")]
+    [InlineData("k += 1  at time 5", 3, "parameter 'k' can only be set with '='", "'+='")]
+    [InlineData("protien = 1  at time 5", 3, "unknown change target 'protien'", "did you mean 'protein'?")]
+    [InlineData("size = 1  at time 5", 3, "system size cannot be changed")]
+    [InlineData("total = 1  at time 5", 3, "readout 'total' cannot be changed")]
+    [InlineData("protein = 2 * protien  at time 5", 17, "unknown name 'protien'", "did you mean 'protein'?")]
+    [InlineData("protein = 1  at 5", 19, "expected 'time' after 'at'", "'5'")]
+    [InlineData("protein = 1", 14, "a change needs its timing", "'at time <time>'", "'every <period>'", "'whenever <condition>'")]
+    [InlineData("protein = 1  evry 5", 16, "unknown timing 'evry'", "did you mean 'every'?")]
+    [InlineData("protein * 2  at time 5", 11, "expected '=', '+=' or '-=' after 'protein'")]
+    [InlineData("protein = 1,  at time 5", 14, "a ',' before the timing", "remove it or add another assignment")]
+    [InlineData("protein = 1  every 0", 22, "period of a repeating change must be positive", "0")]
+    [InlineData("protein = 1, dimer = 2  every -3", 33, "period of a repeating change must be positive", "-3")]
+    [InlineData("protein = 1, dimer = 2  at time -3", 35, "change time must not be negative", "-3")]
+    [InlineData("protein = 1  every 5 from -1", 29, "first time of the repeating change must not be negative")]
+    [InlineData("protein = 1  every 5 from 10 until 3", 38, "last time of the repeating change (3) is before its first time (10)")]
+    [InlineData("protein = 1  every 5 until 20 from 10", 33, "unexpected 'from' after the last time")]
+    [InlineData("protein = 1  whenever protein >", 34, "the condition is incomplete")]
+    [InlineData("protein = 1  whenever protien > 3", 25, "unknown name 'protien'", "did you mean 'protein'?")]
+    [InlineData("protein = 1  whenever total > 3", 25, "readout 'total' cannot be used in a condition")]
+    [InlineData("protein = 1  whenever time > 3", 25, "must not depend on time explicitly")]
+    [InlineData("protein = 1  whenever 1 < protein < 3", 37, "comparisons do not chain")]
+    [InlineData("protein = 1  whenever protein ! 3", 33, "write 'not' to negate a condition", "'!='")]
+    [InlineData("protein = 1  whenever protein > 3 && dimer < 2", 37, "write 'and' and 'or'")]
+    [InlineData("protein = 1  whenever protein + not dimer > 2", 35, "'not' applies to a whole condition", "'(not A > 3)'")]
+    public void ChangeLinesAreChecked(string changeLine, int column, params string[] words)
     {
-        // the schedule line is line 9; readouts come after it
-        var text = Model(extra: $"schedule\n  {scheduleLine}\nreadouts\n  total = protein + 2*dimer");
+        // the change line is line 9; readouts come after it
+        var text = Model(extra: $"changes\n  {changeLine}\nreadouts\n  total = protein + 2*dimer");
         AssertSingleError(text, 9, column, words);
     }
 
     [Fact]
-    public void AReadoutIsNotSuggestedAsAScheduleTarget()
+    public void AReadoutIsNotSuggestedAsAChangeTarget()
     {
-        var text = Model(extra: "schedule\n  at 5: tota = 1\nreadouts\n  total = protein + 2*dimer");
-        var diagnostic = AssertSingleError(text, 9, 9, "unknown schedule target 'tota'");
+        var text = Model(extra: "changes\n  tota = 1  at time 5\nreadouts\n  total = protein + 2*dimer");
+        var diagnostic = AssertSingleError(text, 9, 3, "unknown change target 'tota'");
         Assert.DoesNotContain("did you mean", diagnostic.Message);
+    }
+
+    // The first edition's schedule is reported at its header and at each line, with the line rewritten as
+    // what, then when (the message quotes it exactly).
+    [Fact]
+    public void FirstEditionScheduleLinesAreReportedWithTheNewForm()
+    {
+        var outcome = ModelSource.Parse(Model(extra: "schedule\n  at 5: protein += 4\n  at 2*k: k = k / 2"), "old.cnet");
+        Assert.Null(outcome.Model);
+        Assert.Equal(3, outcome.Diagnostics.Count);
+        AssertDiagnostic(outcome.Diagnostics[0], 8, 1, "the 'schedule' section is the first edition's form", "header 'changes'");
+        Assert.Equal((9, 3), (outcome.Diagnostics[1].Position.Line, outcome.Diagnostics[1].Position.Column));
+        Assert.Equal("a change line opening with 'at' is the first edition's form; write what, then when: 'protein += 4  at time 5'",
+            outcome.Diagnostics[1].Message);
+        Assert.Equal((10, 3), (outcome.Diagnostics[2].Position.Line, outcome.Diagnostics[2].Position.Column));
+        Assert.Equal("a change line opening with 'at' is the first edition's form; write what, then when: 'k = k / 2  at time 2*k'",
+            outcome.Diagnostics[2].Message);
+    }
+
+    [Theory]
+    [InlineData("time unit", 10, "expected a unit name after 'time unit'")]
+    [InlineData("time unit minute second", 18, "unexpected 'second' after the time unit")]
+    [InlineData("time unit minute\ntime unit hour", 11, "the time unit is declared twice", "'minute'")]
+    [InlineData("size unit 3", 11, "expected a unit name after 'size unit'")]
+    public void UnitLinesAreChecked(string lines, int column, params string[] words)
+    {
+        var diagnostic = AssertSingleError(lines + "\n" + Model().Trim(), lines.Count(c => c == '\n') + 1, column, words);
+        Assert.NotNull(diagnostic);
     }
 
     [Fact]
@@ -260,7 +341,9 @@ public sealed class DiagnosticTests
     public void ReactionAndScheduleLinesOutsideTheirSections()
     {
         AssertSingleError(Model(parameters: "k = 0.5\n  decay: dimer -> 0 mass k"), 6, 3, "reaction line in the 'parameters' section");
-        AssertSingleError(Model(parameters: "k = 0.5\n  at 5: k = 1"), 6, 3, "schedule line in the 'parameters' section");
+        AssertSingleError(Model(parameters: "k = 0.5\n  at 5: k = 1"), 6, 3, "change line in the 'parameters' section");
+        AssertSingleError(Model(parameters: "k = 0.5\n  k = 1  at time 5"), 6, 3, "change line in the 'parameters' section", "'changes'");
+        AssertSingleError(Model(species: "protein = 10\n  dimer = 0  every 5"), 3, 3, "change line in the 'species' section");
     }
 
     [Theory]
@@ -326,7 +409,7 @@ public sealed class DiagnosticTests
         var outcome = ModelSource.Parse(text, "many.cnet");
         Assert.Null(outcome.Model);
         Assert.Equal(5, outcome.Diagnostics.Count);
-        AssertDiagnostic(outcome.Diagnostics[0], 3, 7, "non-negative integer");
+        AssertDiagnostic(outcome.Diagnostics[0], 3, 7, "must not be negative");
         AssertDiagnostic(outcome.Diagnostics[1], 5, 10, "incomplete");
         AssertDiagnostic(outcome.Diagnostics[2], 7, 9, "'=>' is not an arrow");
         AssertDiagnostic(outcome.Diagnostics[3], 8, 12, "unknown species 'C'");
@@ -337,7 +420,7 @@ public sealed class DiagnosticTests
     public void NamesOnBrokenLinesDoNotCauseFollowOnReports()
     {
         // 'B' and 'k' are declared on lines with mistakes; their uses further down are not reported again.
-        var outcome = ModelSource.Parse("species\n  A = 1\n  B = 2.5\nparameters\n  k = (1\nreactions\n  r: A -> B mass k\n", "x.cnet");
+        var outcome = ModelSource.Parse("species\n  A = 1\n  B = -2\nparameters\n  k = (1\nreactions\n  r: A -> B mass k\n", "x.cnet");
         Assert.Equal([3, 5], outcome.Diagnostics.Select(d => d.Position.Line));
     }
 

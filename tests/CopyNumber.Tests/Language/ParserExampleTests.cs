@@ -24,16 +24,16 @@ public sealed class ParserExampleTests
           k3 = -k1^2 + pow(2, 3) / (min(1, 2) + max(3, 4)) - abs(-1)
           kr = exp(0) + log(1) + sqrt(4)
         reactions
-          dimerise: 2 A <-> D        mass k1, k2
+          dimerise: 2 A -> D mass k1  back mass k2
           make:     0 -> A           rate k3 * hill_act(D, 5, 2) + hill_rep(A, 5, 2) + mm(A, 3)
           merged:   A + A -> D       mass k1
           lose:     mass -> 0        mass kr
           mixed:    A + 2 D -> 3 mass  rate k1 * A * D
-        schedule
-          at 10: A = A / 2
-          at 10: A += 5
-          at 2*k1: D -= 1
-          at 0: k1 = 2 * k1
+        changes
+          A = A / 2  at time 10
+          A += 5  at time 10
+          D -= 1  at time 2*k1
+          k1 = 2 * k1  at time 0
         """;
 
     [Fact]
@@ -149,8 +149,8 @@ public sealed class ParserExampleTests
             reactions
               species: A -> 0 rate rate * exp(1) * exp
               at: A -> 0 mass at
-            schedule
-              at at: rate = 1
+            changes
+              rate = 1  at time at
             """);
         Assert.Equal(["species", "at"], model.Reactions.Select(r => r.Name));
         Assert.Equal("((rate * exp(1)) * exp)", Show(model.Reactions[0].Forward));

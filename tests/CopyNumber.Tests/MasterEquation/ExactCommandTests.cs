@@ -72,7 +72,7 @@ public sealed class ExactCommandTests : IDisposable
     public void ACountDependentParameterChangeIsRefused()
     {
         var model = Path.Combine(_folder, "random-parameter.cnet");
-        File.WriteAllText(model, "species\n  X = 0\nparameters\n  k = 5\nreactions\n  birth: 0 -> X mass k\n  death: X -> 0 mass 1\nschedule\n  at 2: k = X\n");
+        File.WriteAllText(model, "species\n  X = 0\nparameters\n  k = 5\nreactions\n  birth: 0 -> X mass k\n  death: X -> 0 mass 1\nchanges\n  k = X  at time 2\n");
         var result = CliRun.Of("exact", model, "--until", "4", "--every", "1", "--out", Path.Combine(_folder, "refused"));
         Assert.Equal(2, result.ExitCode);
         Assert.Contains("depends on the counts", result.Error);

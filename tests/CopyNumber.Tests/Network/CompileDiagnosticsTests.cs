@@ -53,7 +53,7 @@ public class CompileDiagnosticsTests
     }
 
     [Fact]
-    public void A_negative_schedule_time_is_reported()
+    public void A_negative_change_time_is_reported()
     {
         var diagnostics = new SyntaxBuilder()
             .Species("A", 1).Parameter("t0", "5")
@@ -63,7 +63,7 @@ public class CompileDiagnosticsTests
             .At("t0", "A", ScheduleOperation.Add, "10")
             .Failures();
         Assert.Equal([4, 5], diagnostics.Select(d => d.Position.Line));
-        Assert.All(diagnostics, d => Assert.Contains("schedule time", d.Message));
+        Assert.All(diagnostics, d => Assert.Contains("change time", d.Message));
     }
 
     [Fact]

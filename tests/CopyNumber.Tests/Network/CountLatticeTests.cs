@@ -11,8 +11,8 @@ public sealed class CountLatticeTests
 {
     private static ReactionNetwork Trimer(string schedule = "") =>
         ModelLoader.LoadText(
-            "# illustrative trimerisation\nspecies\n  A = 60\n  T = 0\nparameters\n  k = 0.001\nreactions\n  pair: 3 A <-> T mass k, 1\n"
-            + (schedule.Length > 0 ? $"schedule\n  {schedule}\n" : "")
+            "# illustrative trimerisation\nspecies\n  A = 60\n  T = 0\nparameters\n  k = 0.001\nreactions\n  pair: 3 A -> T mass k  back mass 1\n"
+            + (schedule.Length > 0 ? $"changes\n  {schedule}\n" : "")
             + "readouts\n  total = A + 3*T\n  pairs = 2*T\n  spread = A - T + 1\n",
             "trimer.cnet").Model!.Network;
 
@@ -34,13 +34,13 @@ public sealed class CountLatticeTests
     }
 
     [Theory]
-    [InlineData("at 5: A += 6", 3)]   // a multiple of 3 keeps the lattice
-    [InlineData("at 5: A -= 4", 1)]   // gcd(3, 4) = 1
-    [InlineData("at 5: A = 30", 3)]   // 30 − 60 is a multiple of 3
-    [InlineData("at 5: A = 31", 1)]   // 31 − 60 = −29 is not
-    [InlineData("at 5: A = A / 2", 1)] // depends on the state: the lattice is broken
-    [InlineData("at 5: A = k * 1000", 1)] // depends on a parameter: broken too
-    [InlineData("at 5: k = 1", 3)]    // a parameter change moves no count
+    [InlineData("A += 6  at time 5", 3)]   // a multiple of 3 keeps the lattice
+    [InlineData("A -= 4  at time 5", 1)]   // gcd(3, 4) = 1
+    [InlineData("A = 30  at time 5", 3)]   // 30 − 60 is a multiple of 3
+    [InlineData("A = 31  at time 5", 1)]   // 31 − 60 = −29 is not
+    [InlineData("A = A / 2  at time 5", 1)] // depends on the state: the lattice is broken
+    [InlineData("A = k * 1000  at time 5", 1)] // depends on a parameter: broken too
+    [InlineData("k = 1  at time 5", 3)]    // a parameter change moves no count
     public void The_schedule_refines_the_lattice_from_its_time_on(string change, long after)
     {
         var lattice = QuantityLattice.For(Trimer(change), Grid, "A")!;
@@ -57,7 +57,7 @@ public sealed class CountLatticeTests
         // 3 × 0.3 = 0.8999999999999999, not 0.9: the timeline's one coincidence rule puts the change on
         // that grid point, so the lattice at grid point 3 is the refined one (common practice).
         var grid = new TimeGrid(3, 0.3);
-        var lattice = QuantityLattice.For(Trimer("at 0.9: A += 4"), grid, "A")!;
+        var lattice = QuantityLattice.For(Trimer("A += 4  at time 0.9"), grid, "A")!;
         Assert.Equal(new CountLattice(3, 60), lattice.At(grid[2]));
         Assert.Equal(new CountLattice(1, 60), lattice.At(grid[3]));
     }
@@ -67,7 +67,7 @@ public sealed class CountLatticeTests
     {
         // spread = A − T + 1; setting T to 2 changes spread by −(2 − T) for a T anywhere on T's lattice
         // (every count), so spread loses its lattice of 4.
-        var lattice = QuantityLattice.For(Trimer("at 5: T = 2"), Grid, "spread")!;
+        var lattice = QuantityLattice.For(Trimer("T = 2  at time 5"), Grid, "spread")!;
         Assert.Equal(new CountLattice(4, 61), lattice.At(1));
         Assert.Equal(new CountLattice(1, 61), lattice.At(6));
     }

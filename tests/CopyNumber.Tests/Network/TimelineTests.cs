@@ -28,7 +28,7 @@ public sealed class TimelineTests
     };
 
     private static ReactionNetwork StepModel(string at) => AnalysisModels.Compile(
-        $"species\n  X = 0\nparameters\n  k = 0\nreactions\n  decay: X -> 0 mass k\nschedule\n  at {at}: X = 100\n");
+        $"species\n  X = 0\nparameters\n  k = 0\nreactions\n  decay: X -> 0 mass k\nchanges\n  X = 100  at time {at}\n");
 
     [Theory]
     [MemberData(nameof(Coincidences))]
@@ -89,7 +89,7 @@ public sealed class TimelineTests
     }
 
     private const string ReadoutModel =
-        "species\n  A = 100\nparameters\n  K = 1\n  k = 0\nreactions\n  decay: A -> 0 mass k\nschedule\n  at 2: K = 10\nreadouts\n  scaled = A / K\n";
+        "species\n  A = 100\nparameters\n  K = 1\n  k = 0\nreactions\n  decay: A -> 0 mass k\nchanges\n  K = 10  at time 2\nreadouts\n  scaled = A / K\n";
 
     [Fact]
     public void The_ensemble_evaluates_readouts_with_the_parameters_in_force()
@@ -116,7 +116,7 @@ public sealed class TimelineTests
         // Var(A)/K², with K = 1 before t = 2 and 10 from t = 2; the first-order correction of a linear network
         // is 0, so the corrected mean is φ/K too.
         var network = AnalysisModels.Compile(
-            "species\n  A = 100\nparameters\n  K = 1\nreactions\n  make: 0 -> A mass 100\n  decay: A -> 0 mass 1\nschedule\n  at 2: K = 10\nreadouts\n  scaled = A / K\n");
+            "species\n  A = 100\nparameters\n  K = 1\nreactions\n  make: 0 -> A mass 100\n  decay: A -> 0 mass 1\nchanges\n  K = 10  at time 2\nreadouts\n  scaled = A / K\n");
         var grid = new TimeGrid(3, 0.3);
         var rateEquations = RateEquationSolver.Solve(network, grid, AnalysisModels.Tight);
         var lna = LinearNoiseApproximation.Solve(network, grid, AnalysisModels.Tight);

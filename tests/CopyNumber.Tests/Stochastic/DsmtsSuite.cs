@@ -61,11 +61,11 @@ internal static class DsmtsSuite
         models[25] = ImmigrationDeath(10, 0.1, extraSpecies: "  Sink = 0\n", deathProduct: "Sink");
         models[26] = ImmigrationDeath(10, 0.1);
         models[27] = ImmigrationDeath(1, 0.1);
-        models[28] = ImmigrationDeath(1, 0.1, schedule: "schedule\n  at 25: X = 50\n");
-        models[29] = ImmigrationDeath(1, 0.1, schedule: "schedule\n  at 22.5: X = 20\n");
+        models[28] = ImmigrationDeath(1, 0.1, schedule: "changes\n  X = 50  at time 25\n");
+        models[29] = ImmigrationDeath(1, 0.1, schedule: "changes\n  X = 20  at time 22.5\n");
         models[30] = Dimerisation(100, 0.001, 0.01);
         models[31] = Dimerisation(1000, 0.0002, 0.004);
-        models[32] = Dimerisation(100, 0.001, 0.01, schedule: "schedule\n  at 25: P = 100\n  at 25: P2 = 0\n");
+        models[32] = Dimerisation(100, 0.001, 0.01, schedule: "changes\n  P = 100, P2 = 0  at time 25\n");
         models[34] = Reduced("0.5 * 0.001 * (100 - 2 * P2) * (99 - 2 * P2)");
         models[35] = Reduced("(0.001 * (100 - 2 * P2) * (100 - 2 * P2 - 1)) / 2");
         models[36] = Reduced("(0.001 * (100 - 2 * P2) * ((100 - 2 * P2) - 1)) / 2");

@@ -135,6 +135,7 @@ public sealed class RunManifestTests
 
         var malformed = folder.File("bad.json");
         File.WriteAllText(malformed, "{ \"seed\": \"not a number\" }");
-        Assert.StartsWith($"The run manifest '{malformed}' is not valid: ", Assert.Throws<OutputException>(() => RunManifest.Read(malformed)).Message);
+        // A file that reads but is not a manifest is a damaged run folder (bad input), not a failed write.
+        Assert.StartsWith($"The run manifest '{malformed}' is not valid: ", Assert.Throws<RunFolderException>(() => RunManifest.Read(malformed)).Message);
     }
 }

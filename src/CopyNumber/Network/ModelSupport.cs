@@ -1,0 +1,72 @@
+using CopyNumber.Language;
+
+namespace CopyNumber.Network;
+
+/// <summary>
+/// What each kind of consumer of a compiled network cannot carry out yet, said before anything runs: the
+/// one place that decides which models a method refuses, so every simulator and solver refuses the same
+/// way (<see cref="UnsupportedModelException"/>, exit code 2 on the command line).
+/// </summary>
+public static class ModelSupport
+{
+    /// <summary>Why the stochastic simulators cannot run <paramref name="network"/>; empty when they can.</summary>
+    /// <remarks>
+    /// Stochastic runs need whole initial counts (a count is an integer; rounding a declared amount would
+    /// silently run another model) and no state-triggered change.
+    /// </remarks>
+    public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        var problems = new List<Diagnostic>(TriggerProblems(network));
+        for (var i = 0; i < network.Species.Count; i++)
+        {
+            var amount = network.InitialAmounts[i];
+            if (amount == Math.Floor(amount)) continue;
+            problems.Add(At(network, network.SpeciesPositions.Count > i ? network.SpeciesPositions[i] : new SourcePosition(1, 1),
+                $"species '{network.Species[i]}' starts at {amount.ToString("R", System.Globalization.CultureInfo.InvariantCulture)}, not a whole number of molecules; " +
+                "stochastic runs need whole initial counts (a non-integer amount is for 'solve' and the expansions only)"));
+        }
+        return problems;
+    }
+
+    /// <summary>Why the rate equations and the expansions cannot integrate <paramref name="network"/>; empty when they can.</summary>
+    public static IReadOnlyList<Diagnostic> DeterministicProblems(ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        return TriggerProblems(network);
+    }
+
+    /// <summary>Throws <see cref="UnsupportedModelException"/> when the stochastic simulators cannot run <paramref name="network"/>.</summary>
+    public static void RequireStochastic(ReactionNetwork network) => Require(StochasticProblems(network));
+
+    /// <summary>Throws <see cref="UnsupportedModelException"/> when the rate equations cannot integrate <paramref name="network"/>.</summary>
+    public static void RequireDeterministic(ReactionNetwork network) => Require(DeterministicProblems(network));
+
+    private static void Require(IReadOnlyList<Diagnostic> problems)
+    {
+        if (problems.Count > 0) throw new UnsupportedModelException(problems);
+    }
+
+    // Never ignored silently: a model with a trigger is refused until the methods carry triggers out.
+    private static List<Diagnostic> TriggerProblems(ReactionNetwork network) =>
+        network.Triggers.Select(t => At(network, t.Position,
+            $"state-triggered changes are not supported yet ('{t.Text}' on line {t.Position.Line}); " +
+            "no simulator or solver runs a model with a 'whenever' line")).ToList();
+
+    private static Diagnostic At(ReactionNetwork network, SourcePosition position, string message) =>
+        new(network.SourceFile, position, message, "");
+}
+
+/// <summary>A model that is valid but uses something the chosen method cannot carry out; exit code 2 on the command line.</summary>
+public sealed class UnsupportedModelException(IReadOnlyList<Diagnostic> problems)
+    : CopyNumberException(string.Join("\n", problems.Select(p => p.Format())), ErrorKind.BadInput)
+{
+    /// <summary>Each reason, as a diagnostic at the line that causes it.</summary>
+    public IReadOnlyList<Diagnostic> Problems { get; } = problems;
+
+    /// <inheritdoc/>
+    public override IReadOnlyList<string> Lines => [.. Problems.Select(p => p.Format())];
+
+    /// <inheritdoc/>
+    public override bool LinesArePrefixed => true;
+}
