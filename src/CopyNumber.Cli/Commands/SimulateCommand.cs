@@ -50,7 +50,8 @@ internal static class SimulateCommand
         {
             using var honouring = session.Honour();
             var resumeFolder = parsed.GetValue(resume);
-            var stored = resumeFolder is null ? null : StoredRun.Open(resumeFolder);
+            var stored = resumeFolder is null ? null : StoredRun.OpenForResume(resumeFolder);
+            foreach (var warning in stored?.Warnings ?? []) parsed.InvocationConfiguration.Error.WriteLine($"warning: {warning}");
             if (stored is not null && parsed.GetResult(output) is { Implicit: false })
                 throw new UserInputException("--resume continues the run in its own folder; leave out --out");
             // With --resume, an option left out takes the value the stored run recorded.
@@ -127,7 +128,7 @@ internal static class SimulateCommand
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
             stored?.EnsureSameRun(new RunSettings(Provenance.Sha256Hex(loaded.Text), arguments, options.BlockSize));
-            if (stored is not null && !stored.IsPartial)
+            if (stored is not null && !stored.NeedsResuming)
             {
                 error.WriteLine($"nothing to resume: the run in {stored.Folder} has all its {stored.Manifest.ReplicatesFinished} replicates");
                 return ExitCodes.Done;
