@@ -183,7 +183,11 @@ public static class SimulationRun
             }
         }
         var pathsFile = Path.Combine(request.Folder, RunFiles.Paths);
-        if (options.PathReplicates > 0 && pathsStore.WritePaths(pathsFile)) files.Add(pathsFile);
+        if (options.PathReplicates > 0)
+        {
+            pathsStore.WritePaths(pathsFile);
+            files.Add(pathsFile);
+        }
         files.AddRange(SummaryFiles.WriteTables(request.Folder, combined, deterministic, identity, validation is { Action: not ValidationAction.FellBack } ? validation : null));
 
         var reason = failure is not null ? StopReason.Failed

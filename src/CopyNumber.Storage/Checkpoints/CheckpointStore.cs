@@ -138,17 +138,15 @@ internal sealed class CheckpointStore : ICheckpointSink, IPathSink, IDisposable
         }
     }
 
-    /// <summary>Merges the path parts into <paramref name="destination"/> (replicate order, as one run writes it); false when the run kept no paths.</summary>
+    /// <summary>Merges the path parts into <paramref name="destination"/>, rows in replicate order as one run writes them (an empty table when no part holds a path, e.g. a shard after the path replicates).</summary>
     /// <exception cref="OutputException">A part was lost to a failed write, or the destination cannot be written.</exception>
-    public bool WritePaths(string destination)
+    public void WritePaths(string destination)
     {
         lock (_gate)
         {
             CompleteSealedParts();
             if (_pathsLost) throw new OutputException($"Cannot write '{destination}': part of the paths could not be written during the run ({LastFailure?.Message})", destination);
-            if (_parts.Count == 0) return false;
             PathsMerge.Write(_parts.Keys.Select(n => Path.Combine(_folder, n)).ToArray(), destination, PathsTable.ColumnsFor(_network), _identity.Provenance(null));
-            return true;
         }
     }
 

@@ -183,7 +183,7 @@ public class ResumeTests
     }
 
     /// <summary>The run every test here uses: 1000 replicates of the bursty gene, seed 21, paths of the first 100.</summary>
-    private static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null, string methodArgument = "direct")
+    internal static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null, string methodArgument = "direct")
     {
         var grid = new TimeGrid(5, 0.5);
         var options = new EnsembleOptions { Grid = grid, Replicates = Replicates, Seed = Seed, Threads = threads, PathReplicates = 100 };
