@@ -131,10 +131,11 @@ internal sealed class CheckpointStore : ICheckpointSink, IPathSink, IDisposable
             {
                 LastFailure = e;
             }
-            var took = _clock.Elapsed - started;
-            var wait = TimeSpan.FromTicks(Math.Max(MinimumInterval.Ticks, (long)Math.Min(OverheadFactor * took.Ticks, TimeSpan.MaxValue.Ticks / 2)));
-            var due = _clock.Elapsed + wait;
-            Interlocked.Exchange(ref _dueTicks, _enabled ? (long)(due.TotalSeconds * Stopwatch.Frequency) : long.MaxValue);
+            if (!_enabled) return;
+            // The rule of the type's remarks: max(minimum interval, 20 × this checkpoint's time) from now.
+            var took = (_clock.Elapsed - started).TotalSeconds;
+            var wait = Math.Max(MinimumInterval.TotalSeconds, OverheadFactor * took);
+            Interlocked.Exchange(ref _dueTicks, (long)Math.Min((_clock.Elapsed.TotalSeconds + wait) * Stopwatch.Frequency, long.MaxValue / 2));
         }
     }
 
