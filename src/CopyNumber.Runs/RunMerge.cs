@@ -11,7 +11,11 @@ namespace CopyNumber.Runs;
 /// <param name="Ensemble">The combined summaries.</param>
 /// <param name="Manifest">The manifest as written.</param>
 /// <param name="Files">The files written, in the order written.</param>
-public sealed record MergeOutcome(EnsembleResult Ensemble, RunManifest Manifest, IReadOnlyList<string> Files);
+public sealed record MergeOutcome(EnsembleResult Ensemble, RunManifest Manifest, IReadOnlyList<string> Files)
+{
+    /// <summary>What the user should know about the inputs (e.g. a folder written without checksums).</summary>
+    public IReadOnlyList<string> Warnings { get; init; } = [];
+}
 
 /// <summary>
 /// Combines run folders over disjoint blocks of one run — the shards of a job array, or an incomplete
@@ -113,10 +117,11 @@ public static class RunMerge
         var manifest = SummaryFiles.Manifest(identity, combined, first.Manifest.Method, runs.Max(r => r.Manifest.Threads), stop,
             failures.FirstOrDefault(), first.Manifest.ExtraText(ManifestFields.MethodReason) ?? "", withSolution is null ? first.Manifest.ExtraText(ManifestFields.DeterministicFailure) : null, validation);
         manifest.Extra[ManifestFields.MergedFrom] = new JsonArray(runs.Select(r => (JsonNode?)JsonValue.Create(r.Folder)).ToArray());
+        SummaryFiles.RecordChecksums(manifest, folder, files);
         var manifestPath = Path.Combine(folder, RunFiles.Manifest);
         manifest.WriteAtomic(manifestPath);
         files.Add(manifestPath);
-        return new MergeOutcome(combined, manifest, files);
+        return new MergeOutcome(combined, manifest, files) { Warnings = runs.SelectMany(r => r.Warnings).ToArray() };
     }
 
     private static byte[] ReadAll(string path, string folder)

@@ -43,8 +43,14 @@ public sealed record SimulationRequest(RunPlan Plan, string Folder)
     /// <summary>A fixed size for the validation sample (no time rule); null for the sizing rule of <see cref="ValidationSample"/>.</summary>
     public long? ValidationReplicates => Plan.Specification.ValidationReplicates;
 
-    /// <summary>Opens the temporary file paths.parquet is built in; tests put a disk that fills up here. Null for the real file.</summary>
+    /// <summary>Opens the temporary files the paths are built in; tests put a disk that fills up here. Null for the real files.</summary>
     internal Func<string, Stream>? OpenPathsFile { get; init; }
+
+    /// <summary>
+    /// The shortest time between two checkpoints of the running ensemble (docs/conventions.md,
+    /// "Checkpoints"); a checkpoint also waits 20 times as long as the last one took to write.
+    /// </summary>
+    public TimeSpan CheckpointInterval { get; init; } = CheckpointStore.DefaultMinimumInterval;
 }
 
 /// <summary>What a run produced.</summary>
@@ -109,13 +115,13 @@ public static class SimulationRun
         var files = new List<string>();
 
         EnsembleResult? prior = null;
-        var priorHasPaths = false;
+        StoredRun? stored = null;
         if (request.Resume)
         {
-            var stored = StoredRun.Open(request.Folder);
+            // Checkpoints (issue 10): the newest complete checkpoint if the run was killed, else the folder's tables.
+            stored = StoredRun.OpenForResume(request.Folder);
             stored.EnsureSameRun(new RunSettings(Provenance.Sha256Hex(model.Text), arguments, options.BlockSize));
             prior = stored.Load(model.Network);
-            priorHasPaths = options.PathReplicates > 0 && File.Exists(Path.Combine(request.Folder, RunFiles.Paths));
             options = options with { SkipBlocks = options.SkipBlocks.Union(prior.FinishedBlocks).ToHashSet() };
             // The stored run has started the clock; this run's time adds to it.
             identity = identity with { Started = stored.Manifest.StartedUtc };
@@ -134,7 +140,14 @@ public static class SimulationRun
         using var wallLimit = new CancellationTokenSource();
         if (request.WallLimit is { } limit) wallLimit.CancelAfter(ClampedDelay(limit - clock.Elapsed));
         using var stop = CancellationTokenSource.CreateLinkedTokenSource(cancel, wallLimit.Token);
-        var (combined, failure, pathsFailure) = RunEnsemble(request, options, prior, priorHasPaths, identity, monitor, stop.Token, files);
+        // Checkpoints (issue 10): the finished blocks and the paths reach the disk as the run goes.
+        var priorPaths = stored is { FromCheckpoint: false } && options.PathReplicates > 0 && File.Exists(Path.Combine(request.Folder, RunFiles.Paths))
+            ? Path.Combine(request.Folder, RunFiles.Paths) : null;
+        using var store = new CheckpointStore(request.Folder, identity, prior, stored?.PathParts ?? new Dictionary<string, string>(), priorPaths,
+            state => SummaryFiles.Manifest(identity, state, options.Method.ToString(), options.Threads, StopReason.Interrupted, null, request.MethodReason, deterministicFailure),
+            model.Network, options.Grid, request.CheckpointInterval, request.OpenPathsFile);
+        var pathsStore = store;
+        var (combined, failure) = RunEnsemble(request, options, prior, store, monitor, stop.Token);
 
         // The validation sample (docs/methods.md): a finished tau-leaping run, and of a sharded run the first
         // shard only, compares itself with exact replicates; a stored sample is reused on resuming.
@@ -162,13 +175,20 @@ public static class SimulationRun
                     // auto falls back to the exact method: the whole run again, every replicate with its own stream.
                     var exact = options with { Method = SimulationMethod.Direct, SkipBlocks = new HashSet<long>() };
                     monitor?.Restart();
-                    (combined, failure, pathsFailure) = RunEnsemble(request, exact, prior: null, priorHasPaths: false, identity, monitor, stop.Token, files: null);
+                    // No checkpoints while redoing: a kill resumes from the tau-leaping run's final checkpoint and decides again.
+                    using var exactStore = new CheckpointStore(request.Folder, identity, null, new Dictionary<string, string>(), null, _ => new RunManifest(), model.Network, options.Grid, null, request.OpenPathsFile);
+                    pathsStore = exactStore;
+                    (combined, failure) = RunEnsemble(request, exact, prior: null, exactStore, monitor, stop.Token);
                     method = SimulationMethod.Direct;
                     options = exact;
                     methodReason += "; the validation sample found a tau-leaping error beyond the tolerance, so the run was redone with the exact direct method";
                 }
             }
         }
+        var pathsFile = Path.Combine(request.Folder, RunFiles.Paths);
+        // Paths that could not be written (a full disk) are dropped and their space given back: the summaries still get written.
+        var pathsFailure = options.PathReplicates > 0 ? pathsStore.WritePaths(pathsFile) : null;
+        if (options.PathReplicates > 0 && pathsFailure is null) files.Add(pathsFile);
         files.AddRange(SummaryFiles.WriteTables(request.Folder, combined, deterministic, identity, validation is { Action: not ValidationAction.FellBack } ? validation : null));
 
         var reason = failure is not null ? StopReason.Failed
@@ -177,9 +197,12 @@ public static class SimulationRun
             : StopReason.Interrupted;
         var manifest = SummaryFiles.Manifest(identity, combined, method.ToString(), options.Threads, reason, failure, methodReason, deterministicFailure, validation);
         if (pathsFailure is not null) manifest.Extra[ManifestFields.PathsFailure] = pathsFailure;
+        SummaryFiles.RecordChecksums(manifest, request.Folder, files);
         var manifestPath = Path.Combine(request.Folder, RunFiles.Manifest);
         manifest.WriteAtomic(manifestPath);
         files.Add(manifestPath);
+        // The manifest now names complete tables, so the checkpoints have served their purpose.
+        Checkpoints.Clear(request.Folder);
         return new SimulationOutcome(combined, deterministic, deterministicFailure, manifest, files)
         {
             StopReason = reason,
@@ -192,48 +215,25 @@ public static class SimulationRun
         };
     }
 
-    /// <summary>Runs the ensemble (writing paths as it goes) and combines it with the resumed part; the failure message, if a replicate failed, and why the paths were dropped, if they were.</summary>
-    private static (EnsembleResult Combined, string? Failure, string? PathsFailure) RunEnsemble(
-        SimulationRequest request, EnsembleOptions options, EnsembleResult? prior, bool priorHasPaths, RunIdentity identity,
-        EnsembleMonitor? monitor, CancellationToken cancel, List<string>? files)
+    /// <summary>Runs the ensemble (checkpoints and paths going to <paramref name="store"/>) and combines it with the resumed part; the failure message, if a replicate failed.</summary>
+    private static (EnsembleResult Combined, string? Failure) RunEnsemble(
+        SimulationRequest request, EnsembleOptions options, EnsembleResult? prior, CheckpointStore store, EnsembleMonitor? monitor, CancellationToken cancel)
     {
-        var model = request.Model;
-        var pathsFile = Path.Combine(request.Folder, priorHasPaths ? RunFiles.ResumedPaths : RunFiles.Paths);
-        PathsTable? paths = options.PathReplicates > 0 ? new PathsTable(pathsFile, model.Network, options.Grid, identity.Provenance(null), request.OpenPathsFile) : null;
         EnsembleResult result;
         string? failure = null;
         try
         {
-            try
-            {
-                result = EnsembleRunner.Run(model.Network, options, paths, monitor, cancel);
-            }
-            catch (EnsembleFailureException e)
-            {
-                result = e.Partial;
-                failure = e.Message;
-            }
-            paths?.Complete();
+            result = EnsembleRunner.Run(request.Model.Network, options, options.PathReplicates > 0 ? store : null, monitor, cancel, store);
         }
-        finally
+        catch (EnsembleFailureException e)
         {
-            paths?.Dispose();
+            result = e.Partial;
+            failure = e.Message;
         }
-
-        var combined = prior is null ? result : EnsembleResult.Combine(prior, result);
-        // A paths table that failed (a full disk) was dropped and its space given back: the summaries still get written.
-        if (paths?.FailureText is { } pathsFailure) return (combined, failure, pathsFailure);
-        if (paths is not null)
-        {
-            var final = Path.Combine(request.Folder, RunFiles.Paths);
-            if (priorHasPaths)
-            {
-                PathsMerge.Write([final, pathsFile], final, PathsTable.ColumnsFor(model.Network), identity.Provenance(null));
-                File.Delete(pathsFile);
-            }
-            if (files is not null && !files.Contains(final)) files.Add(final);
-        }
-        return (combined, failure, null);
+        // The final checkpoint: from here on a kill, even one during the final write, loses no finished block.
+        store.Seal();
+        store.Save(result);
+        return (prior is null ? result : EnsembleResult.Combine(prior, result), failure);
     }
 
     private static TimeSpan ClampedDelay(TimeSpan delay) =>

@@ -25,6 +25,7 @@ internal static class ContrastCommand
             if (!File.Exists(Path.Combine(dir, Storage.RunFiles.Manifest)))
                 throw new UserInputException($"'{Paths.Shown(dir)}' has no {Storage.RunFiles.Manifest}: it is not a folder written by simulate");
             var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap), parsed.GetValue(takeOver));
+            foreach (var warning in contrast.Run.Warnings) parsed.InvocationConfiguration.Error.WriteLine($"warning: {warning}");
             var writer = parsed.InvocationConfiguration.Output;
             writer.Write(ContrastOptions.RenderVerdicts(contrast));
             writer.WriteLine($"wrote {Paths.Shown(files)}");

@@ -30,6 +30,7 @@ internal static class MergeCommand
             var histogramTimes = contrastOptions.Times(parsed);
             var outcome = RunMerge.Execute(inputs, parsed.GetValue(output)!, parsed.GetValue(force), parsed.GetValue(takeOver));
             var result = outcome.Ensemble;
+            foreach (var warning in outcome.Warnings) parsed.InvocationConfiguration.Error.WriteLine($"warning: {warning}");
             var folder = Path.GetDirectoryName(outcome.Files[^1])!;
             parsed.InvocationConfiguration.Output.WriteLine(
                 $"merged {inputs.Length} folder{(inputs.Length == 1 ? "" : "s")}: {result.ReplicatesFinished} of {result.ReplicatesRequested} replicates, {result.EventsFired} events; wrote {Paths.Shown(folder)}");

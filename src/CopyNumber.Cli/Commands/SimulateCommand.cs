@@ -39,7 +39,8 @@ internal static class SimulateCommand
             // The run's claim on its folder lasts until the contrast is written (issue 10: exclusive output folders).
             using var resumeClaim = resumeFolder is not null && Directory.Exists(resumeFolder)
                 ? FolderClaim.Take(resumeFolder, "simulate --resume", takeOverStale: true, parsed.GetValue(takeOver)) : null;
-            var stored = resumeFolder is null ? null : StoredRun.Open(resumeFolder);
+            var stored = resumeFolder is null ? null : StoredRun.OpenForResume(resumeFolder);
+            foreach (var warning in stored?.Warnings ?? []) parsed.InvocationConfiguration.Error.WriteLine($"warning: {warning}");
             if (stored is not null && parsed.GetResult(output) is { Implicit: false })
                 throw new UserInputException("--resume continues the run in its own folder; leave out --out");
             var storedSettings = stored is null ? null : StoredSettings.Read(stored);
@@ -53,7 +54,7 @@ internal static class SimulateCommand
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
             stored?.EnsureSameRun(specification.Settings(EnsembleOptions.DefaultBlockSize));
-            if (stored is not null && !stored.IsPartial)
+            if (stored is not null && !stored.NeedsResuming)
             {
                 error.WriteLine($"nothing to resume: the run in {Paths.Shown(stored.Folder)} has all its {stored.Manifest.ReplicatesFinished} replicates");
                 return ExitCodes.Done;

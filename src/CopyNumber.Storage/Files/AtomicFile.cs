@@ -48,6 +48,29 @@ public static class AtomicFile
         }
     }
 
+    /// <summary>Copies <paramref name="source"/> to <paramref name="destination"/> atomically (through a forced-to-disk temporary sibling), replacing any file there.</summary>
+    /// <exception cref="OutputException">The copy could not be written; nothing new is left under <paramref name="destination"/>.</exception>
+    public static void Copy(string source, string destination)
+    {
+        var finalPath = FullPath(destination);
+        var temporary = TemporaryPathFor(finalPath);
+        try
+        {
+            using (var input = new FileStream(source, FileMode.Open, FileAccess.Read, FileShare.Read, bufferSize: 1 << 16))
+            using (var stream = OpenTemporary(temporary))
+            {
+                input.CopyTo(stream);
+                stream.Flush(flushToDisk: true);
+            }
+            Commit(temporary, finalPath);
+        }
+        catch (Exception e) when (IsStorageFailure(e) && e is not OutputException)
+        {
+            DiscardQuietly(temporary);
+            throw Failure(finalPath, e);
+        }
+    }
+
     /// <summary>
     /// Renames the finished <paramref name="temporaryPath"/> to <paramref name="finalPath"/>, replacing any
     /// file there. The caller must have flushed and closed the temporary file.
@@ -64,6 +87,7 @@ public static class AtomicFile
             DiscardQuietly(temporaryPath);
             throw Failure(finalPath, e);
         }
+        TestFaults.Committed(finalPath);
     }
 
     /// <summary>Creates <paramref name="temporaryPath"/>, which must not exist yet, for reading and writing.</summary>

@@ -56,6 +56,19 @@ public static class ManifestFields
     /// </summary>
     public const string Validation = "validation";
 
+    /// <summary>
+    /// The SHA-256 of every table the folder's run wrote (object: file name inside the folder → lowercase
+    /// hexadecimal SHA-256 of its bytes, FIPS 180-4); readers verify them (see <see cref="FileChecksums"/>).
+    /// Absent in folders written before checksums existed.
+    /// </summary>
+    public const string Files = "files";
+
+    /// <summary>
+    /// In a checkpoint's manifest: the parts of paths.parquet that belong to the checkpoint (object: file
+    /// name inside the run folder → SHA-256), merged into paths.parquet by the final write.
+    /// </summary>
+    public const string PathParts = "path_parts";
+
     /// <summary>Argument key of the shard, "i/n" ("1/1" for a whole run).</summary>
     public const string ShardArgument = "shard";
 

@@ -20,6 +20,9 @@ public static class RunFiles
     /// </summary>
     public const string Claim = ".copynumber-claim", Lock = ".copynumber-lock";
 
+    /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>
+    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths];
+
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="Paths"/>.</summary>
     internal const string ResumedPaths = "paths-resumed.parquet";
 

@@ -60,6 +60,9 @@ public sealed class RunFolder
     /// <summary>Species then readouts, in the order of the tables.</summary>
     public IReadOnlyList<QuantitySeries> Quantities { get; }
 
+    /// <summary>What the reader should know (e.g. that the folder was written without checksums).</summary>
+    public IReadOnlyList<string> Warnings { get; private init; } = [];
+
     /// <summary>True when paths.parquet exists.</summary>
     public bool HasPaths => _paths is not null;
 
@@ -93,10 +96,13 @@ public sealed class RunFolder
 
     /// <summary>Reads a run folder.</summary>
     /// <exception cref="OutputException">A file is missing or unreadable.</exception>
+    /// <exception cref="RunFolderException">A table is damaged, or was changed after it was written (its SHA-256 differs from the manifest's).</exception>
     public static RunFolder Read(string folder)
     {
         if (!Directory.Exists(folder)) throw new RunFolderException($"'{folder}' is not a folder", folder);
         var manifest = RunManifest.Read(System.IO.Path.Combine(folder, RunFiles.Manifest));
+        var warnings = new List<string>();
+        FileChecksums.VerifyRunFolder(manifest, AtomicFile.FullPath(folder), warnings);
         using var moments = ParquetTableReader.Open(System.IO.Path.Combine(folder, RunFiles.Moments));
         if (!moments.Metadata.TryGetValue(Provenance.ModelTextKey, out var modelText))
             throw new RunFolderException($"'{folder}/{RunFiles.Moments}' carries no model text in its metadata, so it was not written by copynumber's simulate or exact", folder);
@@ -164,6 +170,6 @@ public sealed class RunFolder
             var speciesColumns = table.ColumnNames.Where(c => c is not ("replicate" or "time")).ToDictionary(c => c, c => table.Longs(c));
             paths = new PathColumns(table.Longs("replicate"), table.Doubles("time"), speciesColumns);
         }
-        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths);
+        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths) { Warnings = warnings };
     }
 }

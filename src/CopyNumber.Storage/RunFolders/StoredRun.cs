@@ -9,13 +9,18 @@ namespace CopyNumber.Storage;
 /// (histograms from the frequencies of <c>distributions.parquet</c>, real moments from
 /// <c>readout-state.parquet</c>), so that it can be resumed or merged exactly. Every file records the
 /// finished blocks it covers; they must agree with the manifest, which is written last, so a folder
-/// whose writing was cut short is refused rather than counted twice.
+/// whose writing was cut short is refused rather than counted twice. Every table is checked against the
+/// SHA-256 its manifest records (<see cref="FileChecksums"/>). A run killed before or during its final
+/// write is read from its newest complete checkpoint (<see cref="OpenForResume"/>).
 /// </summary>
 public sealed class StoredRun
 {
-    private StoredRun(string folder, RunManifest manifest, int blockSize, long totalBlocks, Shard shard, long[] finishedBlocks, TimeGrid grid)
+    private readonly string _tables;
+
+    private StoredRun(string folder, string tables, RunManifest manifest, int blockSize, long totalBlocks, Shard shard, long[] finishedBlocks, TimeGrid grid)
     {
         Folder = folder;
+        _tables = tables;
         Manifest = manifest;
         BlockSize = blockSize;
         TotalBlocks = totalBlocks;
@@ -48,14 +53,95 @@ public sealed class StoredRun
     /// <summary>True when a block of <see cref="Shard"/> is not finished.</summary>
     public bool IsPartial => !EnsembleResult.Covers(FinishedBlocks, Shard.Blocks(TotalBlocks));
 
-    /// <summary>Reads <paramref name="folder"/>/manifest.json and checks it describes a resumable run.</summary>
-    /// <exception cref="RunFolderException">The folder or its manifest is missing, or the manifest lacks a field.</exception>
+    /// <summary>True when the state was read from a checkpoint: the run was stopped before its final write was complete.</summary>
+    public bool FromCheckpoint { get; private init; }
+
+    /// <summary>True when resuming has something to do: blocks to run, or the final tables to write from a checkpoint.</summary>
+    public bool NeedsResuming => IsPartial || FromCheckpoint;
+
+    /// <summary>The parts of paths.parquet the checkpoint holds (file name in <see cref="Folder"/> → SHA-256, verified); empty when not read from a checkpoint.</summary>
+    public IReadOnlyDictionary<string, string> PathParts { get; private init; } = new Dictionary<string, string>();
+
+    /// <summary>Things the reader should know but that do not stop the reading (e.g. a folder written without checksums).</summary>
+    public IReadOnlyList<string> Warnings { get; private init; } = [];
+
+    /// <summary>
+    /// Reads <paramref name="folder"/>/manifest.json, checks it describes a resumable run and verifies the
+    /// checksums of its tables (a folder written before checksums existed is read with a warning).
+    /// </summary>
+    /// <exception cref="RunFolderException">The folder or its manifest is missing, the manifest lacks a field, or a table was changed or damaged after it was written.</exception>
     public static StoredRun Open(string folder)
     {
         ArgumentNullException.ThrowIfNull(folder);
         var full = AtomicFile.FullPath(folder);
         if (!Directory.Exists(full)) throw new RunFolderException($"The run folder '{full}' does not exist.", full);
-        var manifestPath = Path.Combine(full, RunFiles.Manifest);
+        return OpenTables(full, resuming: false);
+    }
+
+    private static StoredRun OpenTables(string full, bool resuming)
+    {
+        var warnings = new List<string>();
+        if (!resuming && Checkpoints.Complete(full).Count > 0)
+            warnings.Add($"'{full}' holds a checkpoint newer than its tables: its run was stopped during a resumption. Only the tables are read here; 'copynumber simulate --resume {full}' finishes the run.");
+        if (!resuming && !File.Exists(Path.Combine(full, RunFiles.Manifest)) && Checkpoints.Complete(full).Count > 0)
+            throw new RunFolderException($"'{full}' holds no {RunFiles.Manifest} yet: its run was stopped before it wrote its tables, but a checkpoint keeps its finished blocks. Finish it with 'copynumber simulate --resume {full}' first.", full);
+        var run = Read(full, full);
+        FileChecksums.VerifyRunFolder(run.Manifest, full, warnings);
+        return new StoredRun(full, full, run.Manifest, run.BlockSize, run.TotalBlocks, run.Shard, [.. run.FinishedBlocks], run.Grid) { Warnings = warnings };
+    }
+
+    /// <summary>
+    /// Opens <paramref name="folder"/> to resume it: from its newest complete checkpoint that verifies
+    /// (a run killed while running or during its final write), else from its tables as <see cref="Open"/>
+    /// does. Temporary files a killed writer left behind (<c>*.partial-*</c>, unfinished checkpoints,
+    /// path parts no checkpoint refers to) are removed.
+    /// </summary>
+    /// <exception cref="RunFolderException">As <see cref="Open"/>.</exception>
+    public static StoredRun OpenForResume(string folder)
+    {
+        ArgumentNullException.ThrowIfNull(folder);
+        var full = AtomicFile.FullPath(folder);
+        if (!Directory.Exists(full)) throw new RunFolderException($"The run folder '{full}' does not exist.", full);
+        var warnings = new List<string>();
+        foreach (var (_, checkpoint) in Checkpoints.Complete(full))
+        {
+            StoredRun run;
+            IReadOnlyDictionary<string, string> parts;
+            try
+            {
+                run = Read(full, checkpoint);
+                var manifestPath = Path.Combine(checkpoint, RunFiles.Manifest);
+                var files = FileChecksums.Recorded(run.Manifest, ManifestFields.Files, full)
+                    ?? throw new RunFolderException($"'{manifestPath}' lists no checksums.", full);
+                FileChecksums.Verify(files, checkpoint, manifestPath, RunFiles.Distributions, RunFiles.ReadoutState);
+                parts = FileChecksums.Recorded(run.Manifest, ManifestFields.PathParts, full) ?? new Dictionary<string, string>();
+                FileChecksums.Verify(parts, full, manifestPath);
+            }
+            catch (RunFolderException e)
+            {
+                warnings.Add($"the checkpoint '{checkpoint}' cannot be used ({e.Message}); an earlier state is used and its blocks are run again.");
+                continue;
+            }
+            Checkpoints.DiscardStale(full, parts.Keys.ToHashSet(StringComparer.Ordinal));
+            return new StoredRun(full, checkpoint, run.Manifest, run.BlockSize, run.TotalBlocks, run.Shard, [.. run.FinishedBlocks], run.Grid)
+            {
+                FromCheckpoint = true,
+                PathParts = parts,
+                Warnings = warnings,
+            };
+        }
+        Checkpoints.DiscardStale(full, new HashSet<string>());
+        var stored = OpenTables(full, resuming: true);
+        return new StoredRun(full, full, stored.Manifest, stored.BlockSize, stored.TotalBlocks, stored.Shard, [.. stored.FinishedBlocks], stored.Grid)
+        {
+            Warnings = [.. warnings, .. stored.Warnings],
+        };
+    }
+
+    /// <summary>Reads the manifest in <paramref name="tables"/> (the run folder or one of its checkpoints) of the run folder <paramref name="full"/>.</summary>
+    private static StoredRun Read(string full, string tables)
+    {
+        var manifestPath = Path.Combine(tables, RunFiles.Manifest);
         if (!File.Exists(manifestPath)) throw new RunFolderException($"'{full}' holds no {RunFiles.Manifest}, so it is not a CopyNumber run folder (or its run never got as far as writing one).", full);
         RunManifest manifest;
         try
@@ -101,7 +187,7 @@ public sealed class StoredRun
         {
             throw Bad($"its until and every arguments do not make a time grid ({e.Message})");
         }
-        return new StoredRun(full, manifest, blockSize, totalBlocks, shard, finished, grid);
+        return new StoredRun(full, tables, manifest, blockSize, totalBlocks, shard, finished, grid);
     }
 
     /// <summary>Checks that <paramref name="settings"/> (the command about to resume this run) are this run's own.</summary>
@@ -118,7 +204,7 @@ public sealed class StoredRun
     /// <exception cref="RunFolderException">No table holds it, or it does not match.</exception>
     public string ModelText()
     {
-        using var reader = ParquetTableReader.Open(Path.Combine(Folder, RunFiles.Moments));
+        using var reader = ParquetTableReader.Open(Path.Combine(_tables, RunFiles.Distributions));
         var text = reader.Require(Provenance.ModelTextKey);
         if (Provenance.Sha256Hex(text) != Manifest.ModelSha256)
             throw reader.Damaged("the model text it records does not have the SHA-256 the manifest records");
@@ -139,7 +225,7 @@ public sealed class StoredRun
         var blocks = BlockRanges.Format(FinishedBlocks);
 
         CountHistogram[] histograms;
-        using (var reader = ParquetTableReader.Open(Path.Combine(Folder, RunFiles.Distributions)))
+        using (var reader = ParquetTableReader.Open(Path.Combine(_tables, RunFiles.Distributions)))
         {
             CheckCovers(reader, blocks);
             histograms = DistributionsTable.ReadHistograms(reader, Grid, counts);
@@ -148,7 +234,7 @@ public sealed class StoredRun
         if (reals.Length == 0) tree = new MomentTree(TotalBlocks, 0);
         else
         {
-            using var reader = ParquetTableReader.Open(Path.Combine(Folder, RunFiles.ReadoutState));
+            using var reader = ParquetTableReader.Open(Path.Combine(_tables, RunFiles.ReadoutState));
             CheckCovers(reader, blocks);
             tree = ReadoutStateTable.Read(reader, Grid, reals, TotalBlocks);
             var covered = tree.Nodes.SelectMany(n => Range(n.FirstBlock, n.EndBlock)).Order().ToArray();

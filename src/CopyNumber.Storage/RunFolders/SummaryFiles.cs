@@ -41,15 +41,7 @@ internal static class SummaryFiles
         var moments = Path.Combine(folder, RunFiles.Moments);
         MomentsTable.Write(moments, result, deterministic, provenance);
         files.Add(moments);
-        var distributions = Path.Combine(folder, RunFiles.Distributions);
-        DistributionsTable.Write(distributions, result, provenance);
-        files.Add(distributions);
-        if (result.RealQuantities.Count > 0)
-        {
-            var state = Path.Combine(folder, RunFiles.ReadoutState);
-            ReadoutStateTable.Write(state, result, provenance);
-            files.Add(state);
-        }
+        files.AddRange(WriteState(folder, result, provenance));
         if (validation is not null)
         {
             var path = Path.Combine(folder, RunFiles.Validation);
@@ -58,6 +50,28 @@ internal static class SummaryFiles
         }
         return files;
     }
+
+    /// <summary>
+    /// Writes the tables a run is resumed or merged from: distributions (exact histograms as frequencies)
+    /// and, when the model has real readouts, the moment tree's state; a checkpoint holds just these.
+    /// </summary>
+    public static List<string> WriteState(string folder, EnsembleResult result, IReadOnlyDictionary<string, string> provenance)
+    {
+        var distributions = Path.Combine(folder, RunFiles.Distributions);
+        DistributionsTable.Write(distributions, result, provenance);
+        List<string> files = [distributions];
+        if (result.RealQuantities.Count > 0)
+        {
+            var state = Path.Combine(folder, RunFiles.ReadoutState);
+            ReadoutStateTable.Write(state, result, provenance);
+            files.Add(state);
+        }
+        return files;
+    }
+
+    /// <summary>Records the SHA-256 of <paramref name="files"/> (inside <paramref name="folder"/>) in <paramref name="manifest"/>'s <see cref="ManifestFields.Files"/>.</summary>
+    public static void RecordChecksums(RunManifest manifest, string folder, IEnumerable<string> files) =>
+        manifest.Extra[ManifestFields.Files] = FileChecksums.For(folder, files);
 
     /// <summary>The manifest of a folder holding <paramref name="result"/>.</summary>
     public static RunManifest Manifest(RunIdentity identity, EnsembleResult result, string method, int threads, StopReason stop, string? failure, string methodReason, string? deterministicFailure, ValidationResult? validation = null)

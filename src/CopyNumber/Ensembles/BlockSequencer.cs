@@ -20,6 +20,7 @@ internal sealed class BlockSequencer
     private readonly SortedDictionary<long, ReplicateBlock> _pending = new();
     private readonly Stack<ReplicateBlock> _pool = new();
     private readonly object _gate = new();
+    private readonly HashSet<long> _writtenEarly = [];
     private long _next;
     private bool _closed;
 
@@ -85,6 +86,27 @@ internal sealed class BlockSequencer
     }
 
     /// <summary>
+    /// Writes the paths of every block pending (in order, leaving the gaps before them), so that the
+    /// path sink then holds the paths of every finished block: a checkpoint needs that. The gaps are
+    /// written when their blocks arrive, in order again, so the paths written after this call are
+    /// themselves in replicate order (a new part for a sink that keeps parts).
+    /// </summary>
+    public void WritePending()
+    {
+        lock (_gate)
+        {
+            foreach (var (index, block) in _pending)
+            {
+                Process(block);
+                _pool.Push(block);
+                _writtenEarly.Add(index);
+            }
+            _pending.Clear();
+            Monitor.PulseAll(_gate);
+        }
+    }
+
+    /// <summary>
     /// Writes whatever is still pending, in order, skipping the gaps an interruption left; afterwards
     /// blocks submitted by workers that were abandoned still running are ignored.
     /// </summary>
@@ -116,7 +138,7 @@ internal sealed class BlockSequencer
 
     private void SkipAhead()
     {
-        while (_next < _pathBlocksEnd && !_runs(_next)) _next++;
+        while (_next < _pathBlocksEnd && (!_runs(_next) || _writtenEarly.Remove(_next))) _next++;
     }
 
     private void Process(ReplicateBlock block)

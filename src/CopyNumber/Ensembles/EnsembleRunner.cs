@@ -28,6 +28,12 @@ public static class EnsembleRunner
     public static readonly TimeSpan AbandonAfter = TimeSpan.FromMilliseconds(500);
 
     /// <summary>Runs the ensemble; returns what finished, also when <paramref name="cancel"/> fires.</summary>
+    /// <param name="network">The compiled network, shared by the workers.</param>
+    /// <param name="options">Grid, replicates, seed, method, threads, blocks to run.</param>
+    /// <param name="paths">Where the paths of the first <see cref="EnsembleOptions.PathReplicates"/> replicates go, or null.</param>
+    /// <param name="monitor">Live counters, or null.</param>
+    /// <param name="cancel">Stops the run at the next replicate (or grid point); the finished blocks are returned.</param>
+    /// <param name="checkpoints">Receives consistent snapshots while the run goes on (see <see cref="ICheckpointSink"/>), or null.</param>
     /// <exception cref="ArgumentOutOfRangeException">An option is out of range.</exception>
     /// <exception cref="EnsembleFailureException">A replicate failed (e.g. a rate law went negative); the other workers stopped, and the exception holds the blocks finished.</exception>
     public static EnsembleResult Run(
@@ -35,7 +41,8 @@ public static class EnsembleRunner
         EnsembleOptions options,
         IPathSink? paths = null,
         EnsembleMonitor? monitor = null,
-        CancellationToken cancel = default)
+        CancellationToken cancel = default,
+        ICheckpointSink? checkpoints = null)
     {
         ArgumentNullException.ThrowIfNull(network);
         ArgumentNullException.ThrowIfNull(options);
@@ -63,6 +70,62 @@ public static class EnsembleRunner
         var failures = new List<(long Replicate, Exception Cause)>();
         var stop = CancellationTokenSource.CreateLinkedTokenSource(cancel);
         var exited = new CountdownEvent(workers.Length);
+        var checkpointing = 0;
+
+        // The result over the blocks the workers have finished so far; the caller holds every worker's
+        // lock (or the workers are gone), so histograms, tree, counters and block lists agree.
+        EnsembleResult Summarise(MomentTree moments)
+        {
+            // Exact merge: histograms add, so the order of workers does not matter.
+            var histograms = new CountHistogram[grid.Count * countQuantities];
+            for (var h = 0; h < histograms.Length; h++)
+            {
+                histograms[h] = new CountHistogram();
+                foreach (var worker in workers) histograms[h].Merge(worker.Histograms[h]);
+            }
+            // The result holds the blocks run here; skipped blocks are someone else's (an earlier run's).
+            var finished = workers.SelectMany(w => w.FinishedBlocks).Order().ToArray();
+            return new EnsembleResult(
+                grid, quantities, histograms, moments,
+                workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
+                finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed,
+                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()));
+        }
+
+        // A checkpoint is taken between blocks with every worker held, so it is one consistent state;
+        // one worker takes it (the others carry on once it is taken) and writes it on its own time.
+        void CheckpointIfDue()
+        {
+            if (checkpoints is null || stop.IsCancellationRequested || !checkpoints.IsDue) return;
+            if (Interlocked.CompareExchange(ref checkpointing, 1, 0) != 0) return;
+            try
+            {
+                EnsembleResult snapshot;
+                var held = 0;
+                try
+                {
+                    foreach (var worker in workers)
+                    {
+                        Monitor.Enter(worker);
+                        held++;
+                    }
+                    sequencer.WritePending();
+                    var copy = new MomentTree(totalBlocks, tree.Cells);
+                    lock (tree) copy.AddCopiesOf(tree);
+                    snapshot = Summarise(copy);
+                    checkpoints.Seal();
+                }
+                finally
+                {
+                    for (var w = 0; w < held; w++) Monitor.Exit(workers[w]);
+                }
+                checkpoints.Save(snapshot);
+            }
+            finally
+            {
+                Volatile.Write(ref checkpointing, 0);
+            }
+        }
 
         void Work(Worker worker)
         {
@@ -92,6 +155,7 @@ public static class EnsembleRunner
                         sequencer.Submit(block);
                     }
                     monitor.AddBlock(index);
+                    CheckpointIfDue();
                     sequencer.WaitForRoom(stop.Token);
                 }
                 if (worker.Failure is { } failure)
@@ -143,20 +207,8 @@ public static class EnsembleRunner
             exited.Dispose();
         }
 
-        // Exact merge: histograms add, so the order of workers does not matter.
-        var histograms = new CountHistogram[grid.Count * countQuantities];
-        for (var h = 0; h < histograms.Length; h++)
-        {
-            histograms[h] = new CountHistogram();
-            foreach (var worker in workers) histograms[h].Merge(worker.Histograms[h]);
-        }
-        // The result holds the blocks run here; skipped blocks are someone else's (an earlier run's).
-        var finished = workers.SelectMany(w => w.FinishedBlocks).Order().ToArray();
-        var result = new EnsembleResult(
-            grid, quantities, histograms, tree,
-            workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
-            finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed,
-            SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()));
+        // Workers left behind touch nothing shared once abandoned, and the others have exited.
+        var result = Summarise(tree);
         List<(long Replicate, Exception Cause)> failed;
         lock (failures) failed = failures.ToList();
         if (failed.Count == 0) return result;

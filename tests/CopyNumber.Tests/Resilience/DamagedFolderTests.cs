@@ -20,6 +20,15 @@ public class DamagedFolderTests
         return folder;
     }
 
+    /// <summary>Removes the manifest's checksums, as a folder of an earlier version has none.</summary>
+    private static void WithoutChecksums(string folder)
+    {
+        var path = Path.Combine(folder, RunFiles.Manifest);
+        var manifest = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(path))!.AsObject();
+        Assert.True(manifest.Remove(ManifestFields.Files), "the manifest records no checksums to remove");
+        File.WriteAllText(path, manifest.ToJsonString());
+    }
+
     [Fact]
     public void A_distributions_table_copied_from_a_run_on_another_grid_is_refused_by_contrast()
     {
@@ -30,6 +39,15 @@ public class DamagedFolderTests
         // verdicts drawn from the coarse run's distributions at the fine run's times).
         File.Copy(Path.Combine(coarse, RunFiles.Distributions), Path.Combine(fine, RunFiles.Distributions), overwrite: true);
         var contrast = CliRun.Of("contrast", fine);
+        // The table's checksum no longer matches the manifest's record of it.
+        Assert.Equal(2, contrast.ExitCode);
+        Assert.Contains(RunFiles.Distributions, contrast.Error);
+        Assert.Contains("changed or damaged after it was written", contrast.Error);
+        AssertNoStackTrace(contrast);
+
+        // A folder without checksums (as earlier versions wrote them) is refused by the tables' own provenance.
+        WithoutChecksums(fine);
+        contrast = CliRun.Of("contrast", fine);
         Assert.Equal(2, contrast.ExitCode);
         Assert.Contains("do not belong together", contrast.Error);
         Assert.Contains("every 1", contrast.Error);
@@ -44,6 +62,7 @@ public class DamagedFolderTests
         var fine = Run(scratch, "fine", "0.5");
         // Before: "The given key '0.5' was not present in the dictionary.", exit 1.
         File.Copy(Path.Combine(fine, RunFiles.Distributions), Path.Combine(coarse, RunFiles.Distributions), overwrite: true);
+        WithoutChecksums(coarse);
         var contrast = CliRun.Of("contrast", coarse);
         Assert.Equal(2, contrast.ExitCode);
         Assert.Contains("do not belong together", contrast.Error);

@@ -162,8 +162,17 @@ public class ResumeTests
         File.Copy(Path.Combine(b, RunFiles.Distributions), Path.Combine(a, RunFiles.Distributions), overwrite: true);
         var run = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", a]);
         Assert.Equal(2, run.ExitCode);
-        Assert.Contains("holds blocks 0-3 but the manifest", run.Error);
+        Assert.Contains("distributions.parquet' was changed or damaged after it was written", run.Error);
         AssertNoStackTrace(run);
+
+        // A folder written before checksums existed (no "files" in its manifest) is still checked for blocks.
+        var manifest = System.Text.Json.Nodes.JsonNode.Parse(File.ReadAllText(Path.Combine(a, RunFiles.Manifest)))!.AsObject();
+        Assert.True(manifest.Remove(ManifestFields.Files));
+        File.WriteAllText(Path.Combine(a, RunFiles.Manifest), manifest.ToJsonString());
+        var old = CliRun.Of(["simulate", modelPath, "--until", "5", "--every", "0.5", "--replicates", "1000", "--resume", a]);
+        Assert.Equal(2, old.ExitCode);
+        Assert.Contains("holds blocks 0-3 but the manifest", old.Error);
+        AssertNoStackTrace(old);
     }
 
     private static string Folder(ScratchFolder scratch, string name)
@@ -174,7 +183,7 @@ public class ResumeTests
     }
 
     /// <summary>The run every test here uses: 1000 replicates of the bursty gene, seed 21, paths of the first 100.</summary>
-    private static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null, string methodArgument = "direct")
+    internal static SimulationOutcome Run(LoadedModel model, string folder, int threads, bool resume, CancellationToken cancel, Action<long>? blockFinished = null, string methodArgument = "direct")
     {
         var specification = new RunSpecification
         {
