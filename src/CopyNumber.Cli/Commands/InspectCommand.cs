@@ -45,16 +45,22 @@ internal static class InspectCommand
         foreach (var r in d.Reactions) reactions.Add(r.Name, r.Equation, $"{r.Law} {r.Expression}");
         text.Append(reactions).Append('\n');
 
-        text.Append("stoichiometric matrix N (rows: species, columns: reactions)\n");
-        var matrix = new TextTable(d.Reactions.Select(r => r.Name).Prepend("").ToArray());
-        for (var i = 0; i < d.Species.Count; i++)
-            matrix.Add(d.Stoichiometry[i].Select(v => v.ToString()).Prepend(d.Species[i].Name).ToArray());
-        text.Append(matrix).Append('\n');
-
-        text.Append($"rank of N: {d.Rank} of {d.Species.Count} species\n");
-        if (d.ConservationLaws.Count == 0)
-            text.Append("conservation laws: none (every species can change independently)\n");
+        if (d.Stoichiometry is null || d.Rank is null)
+        {
+            text.Append($"note: {d.StructureNote}\n");
+        }
         else
+        {
+            text.Append("stoichiometric matrix N (rows: species, columns: reactions)\n");
+            var matrix = new TextTable(d.Reactions.Select(r => r.Name).Prepend("").ToArray());
+            for (var i = 0; i < d.Species.Count; i++)
+                matrix.Add(d.Stoichiometry[i].Select(v => v.ToString()).Prepend(d.Species[i].Name).ToArray());
+            text.Append(matrix).Append('\n');
+            text.Append($"rank of N: {d.Rank} of {d.Species.Count} species\n");
+        }
+        if (d.Rank is not null && d.ConservationLaws.Count == 0)
+            text.Append("conservation laws: none (every species can change independently)\n");
+        else if (d.Rank is not null)
         {
             text.Append($"conservation laws ({d.ConservationLaws.Count}):\n");
             foreach (var law in d.ConservationLaws) text.Append($"  {law.Text}\n");

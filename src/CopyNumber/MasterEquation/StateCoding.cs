@@ -46,7 +46,9 @@ public sealed class StateCoding
     {
         ArgumentNullException.ThrowIfNull(network);
         var s = network.Species.Count;
-        if (network.Schedule.Any(c => c.Target == ScheduleTarget.Species))
+        // A schedule that sets species moves states off the conservation laws; a network too large for the exact
+        // structure keeps every species (its projection is bounded by --max-states in any case).
+        if (network.Schedule.Any(c => c.Target == ScheduleTarget.Species) || !StoichiometricStructure.IsAnalysable(network.Stoichiometry))
             return new StateCoding(s, Enumerable.Range(0, s).ToArray(), [], new double[0, 0], new long[0, 0], [], []);
         var structure = StoichiometricStructure.Analyze(network.Stoichiometry, network.InitialCounts);
         var stored = structure.IndependentSpecies.ToArray();

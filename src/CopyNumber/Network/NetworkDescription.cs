@@ -13,8 +13,8 @@ public sealed record NetworkDescription(
     [property: JsonPropertyName("species")] IReadOnlyList<SpeciesDescription> Species,
     [property: JsonPropertyName("parameters")] IReadOnlyList<ParameterDescription> Parameters,
     [property: JsonPropertyName("reactions")] IReadOnlyList<ReactionDescription> Reactions,
-    [property: JsonPropertyName("stoichiometry")] IReadOnlyList<IReadOnlyList<long>> Stoichiometry,
-    [property: JsonPropertyName("rank")] int Rank,
+    [property: JsonPropertyName("stoichiometry")] IReadOnlyList<IReadOnlyList<long>>? Stoichiometry,
+    [property: JsonPropertyName("rank")] int? Rank,
     [property: JsonPropertyName("conservation_laws")] IReadOnlyList<ConservationLawDescription> ConservationLaws,
     [property: JsonPropertyName("dependent_species")] IReadOnlyList<string> DependentSpecies,
     [property: JsonPropertyName("unchanged_species")] IReadOnlyList<string> UnchangedSpecies,
@@ -29,14 +29,25 @@ public sealed record NetworkDescription(
     [JsonPropertyName("triggers")]
     public IReadOnlyList<string> Triggers { get; init; } = [];
 
-    /// <summary>Gathers the description of a network, including the exact structure of N.</summary>
+    /// <summary>
+    /// Why the dense N and its exact structure (rank, conservation laws) are left out, when they are: a
+    /// network whose N has more entries than the exact analysis handles in bounded memory. Null otherwise.
+    /// </summary>
+    [JsonPropertyName("structure_note")]
+    public string? StructureNote { get; init; }
+
+    /// <summary>Gathers the description of a network, including the exact structure of N when it is small enough to analyse.</summary>
     public static NetworkDescription Of(ReactionNetwork network)
     {
-        var structure = StoichiometricStructure.Analyze(network.Stoichiometry, network.InitialCounts);
         var n = network.Stoichiometry;
-        var rows = Enumerable.Range(0, n.SpeciesCount)
-            .Select(i => (IReadOnlyList<long>)Enumerable.Range(0, n.ReactionCount).Select(j => n[i, j]).ToArray())
-            .ToArray();
+        var analysable = StoichiometricStructure.IsAnalysable(n);
+        var structure = analysable ? StoichiometricStructure.Analyze(n, network.InitialCounts) : null;
+        var rows = analysable
+            ? Enumerable.Range(0, n.SpeciesCount).Select(i => (IReadOnlyList<long>)Enumerable.Range(0, n.ReactionCount).Select(j => n[i, j]).ToArray()).ToArray()
+            : null;
+        var changed = new bool[n.SpeciesCount];
+        for (var j = 0; j < n.ReactionCount; j++)
+            foreach (var i in n.ChangedSpecies(j)) changed[i] = true;
         string Side(IReadOnlyList<(int Species, long Coefficient)> side) => side.Count == 0
             ? "0"
             : string.Join(" + ", side.Select(t => t.Coefficient == 1 ? network.Species[t.Species] : $"{t.Coefficient} {network.Species[t.Species]}"));
@@ -48,13 +59,13 @@ public sealed record NetworkDescription(
             network.Reactions.Select(r => new ReactionDescription(
                 r.Name, $"{Side(r.Reactants)} -> {Side(r.Products)}", r.Law == Language.LawKind.Mass ? "mass" : "rate", r.LawText)).ToArray(),
             rows,
-            structure.Rank,
-            structure.ConservationLaws.Select(l => new ConservationLawDescription(
+            structure?.Rank,
+            structure is null ? [] : structure.ConservationLaws.Select(l => new ConservationLawDescription(
                 l.Describe(network.Species),
                 network.Species.Select((s, i) => (s, l.Coefficients[i])).Where(p => p.Item2 != 0).ToDictionary(p => p.s, p => p.Item2),
                 l.Total)).ToArray(),
-            structure.DependentSpecies.Select(i => network.Species[i]).ToArray(),
-            structure.UnchangedSpecies.Select(i => network.Species[i]).ToArray(),
+            structure is null ? [] : structure.DependentSpecies.Select(i => network.Species[i]).ToArray(),
+            Enumerable.Range(0, n.SpeciesCount).Where(i => !changed[i]).Select(i => network.Species[i]).ToArray(),
             network.Readouts.Select(r => new ReadoutDescription(r.Name, r.Text, r.IsCount)).ToArray(),
             network.Schedule.Select(s => new ScheduleDescription(s.Time, s.TargetName, s.Operation switch
             {
@@ -65,6 +76,7 @@ public sealed record NetworkDescription(
         {
             TimeUnit = network.Units.Time,
             Triggers = network.Triggers.Select(t => t.Text).ToArray(),
+            StructureNote = analysable ? null : StoichiometricStructure.TooLargeNote(n),
         };
     }
 

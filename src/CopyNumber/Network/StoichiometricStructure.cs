@@ -75,6 +75,20 @@ public sealed class StoichiometricStructure
     /// <summary>Indices (increasing) of the species no reaction changes (zero rows of N).</summary>
     public IReadOnlyList<int> UnchangedSpecies { get; }
 
+    /// <summary>
+    /// Most entries of N (species × reactions) the exact analysis takes on: it eliminates a dense matrix of
+    /// arbitrary-precision integers, tens of bytes per entry, so 4·10⁶ entries stay near 100 MB. Beyond it
+    /// the structure is not analysed (the callers say so); a 30 000-reaction chain otherwise needed over 14 GB.
+    /// </summary>
+    public const long MaxAnalysedEntries = 4_000_000;
+
+    /// <summary>Whether N is small enough for <see cref="Analyze"/> (see <see cref="MaxAnalysedEntries"/>).</summary>
+    public static bool IsAnalysable(Stoichiometry n) => (long)n.SpeciesCount * n.ReactionCount <= MaxAnalysedEntries;
+
+    /// <summary>Why a network's structure was not analysed, in one sentence.</summary>
+    public static string TooLargeNote(Stoichiometry n) =>
+        $"the exact structure of N (rank, conservation laws) is not analysed: N has {(long)n.SpeciesCount * n.ReactionCount:N0} entries ({n.SpeciesCount:N0} species × {n.ReactionCount:N0} reactions), more than the {MaxAnalysedEntries:N0} the exact analysis handles in bounded memory";
+
     /// <summary>Analyses N and evaluates the laws' totals at the initial counts.</summary>
     /// <param name="n">The stoichiometric matrix.</param>
     /// <param name="initialCounts">xᵢ(0), one copy number per species in declaration order.</param>
@@ -84,6 +98,7 @@ public sealed class StoichiometricStructure
     {
         ArgumentNullException.ThrowIfNull(n);
         ArgumentNullException.ThrowIfNull(initialCounts);
+        if (!IsAnalysable(n)) throw new ArgumentException(TooLargeNote(n), nameof(n));
         var speciesCount = n.SpeciesCount;
         if (initialCounts.Count != speciesCount)
             throw new ArgumentException(

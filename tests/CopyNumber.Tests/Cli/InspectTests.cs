@@ -76,4 +76,39 @@ public class InspectTests
         Assert.Equal(2, run.ExitCode);
         Assert.Contains("model file '/nonexistent/model.cnet' not found", run.Error); // docs/network-language.md, file errors
     }
+
+    /// <summary>
+    /// A 30 000-reaction chain (issue 10, fault 8): its dense N has 9·10⁸ entries, and the exact analysis of
+    /// it once ran for over ten minutes, passed 14 GB and ended in an out-of-memory error. Now the structure
+    /// is left out with a note, and the chain's one conservation law is not claimed. That a chain of
+    /// conversions changes every species is common practice (each species is a reactant or a product).
+    /// </summary>
+    [Fact]
+    public void A_network_too_large_for_the_exact_structure_is_described_without_it()
+    {
+        var text = new System.Text.StringBuilder("# illustrative: a very long chain of conversions\nspecies\n");
+        for (var i = 0; i <= 30_000; i++) text.Append($"  S{i} = {(i == 0 ? 10 : 0)}\n");
+        text.Append("reactions\n");
+        for (var i = 0; i < 30_000; i++) text.Append($"  r{i}: S{i} -> S{i + 1} mass 1\n");
+        var path = Path.Combine(Path.GetTempPath(), $"copynumber-chain-{Guid.NewGuid():N}.cnet");
+        File.WriteAllText(path, text.ToString());
+        try
+        {
+            var run = CliRun.Of("inspect", path);
+            Assert.Equal(0, run.ExitCode);
+            Assert.Contains("note: the exact structure of N (rank, conservation laws) is not analysed: N has 900,030,000 entries", run.Output);
+            Assert.DoesNotContain("rank of N", run.Output);
+            Assert.DoesNotContain("species no reaction changes", run.Output);
+            var json = CliRun.Of("inspect", path, "--json");
+            Assert.Equal(0, json.ExitCode);
+            using var document = System.Text.Json.JsonDocument.Parse(json.Output);
+            Assert.Equal(System.Text.Json.JsonValueKind.Null, document.RootElement.GetProperty("rank").ValueKind);
+            Assert.Equal(System.Text.Json.JsonValueKind.Null, document.RootElement.GetProperty("stoichiometry").ValueKind);
+            Assert.StartsWith("the exact structure of N", document.RootElement.GetProperty("structure_note").GetString());
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
 }
