@@ -34,11 +34,11 @@ internal sealed record ResultsTable(IReadOnlyList<string> Columns, IReadOnlyList
         return new ResultsTable(columns, rows);
     }
 
-    private static double ParseValue(string v) => v switch
+    private static double ParseValue(string v) => v.ToLowerInvariant() switch
     {
-        "INF" or "inf" => double.PositiveInfinity,
-        "-INF" or "-inf" => double.NegativeInfinity,
-        "NaN" or "nan" => double.NaN,
+        "inf" or "+inf" or "infinity" => double.PositiveInfinity,
+        "-inf" or "-infinity" => double.NegativeInfinity,
+        "nan" => double.NaN,
         _ => double.Parse(v, NumberStyles.Float, CultureInfo.InvariantCulture),
     };
 

@@ -40,7 +40,7 @@ internal static class ImportCommand
             if (destination is null) parsed.InvocationConfiguration.Output.Write(imported.CnetText);
             else
             {
-                Storage.Files.AtomicFile.WriteAllText(destination, imported.CnetText!);
+                Storage.AtomicFile.WriteAllText(destination, imported.CnetText!);
                 parsed.InvocationConfiguration.Output.Write($"wrote {destination}\n");
             }
             return ExitCodes.Done;

@@ -87,8 +87,15 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
     private IEnumerable<XElement> List(XElement model, string list, string item) =>
         model.Elements().Where(e => e.Name.LocalName == list).Elements().Where(e => e.Name.LocalName == item);
 
-    private static double? Number(XElement e, string attribute) =>
-        e.Attribute(attribute) is { } a ? double.Parse(a.Value, System.Globalization.CultureInfo.InvariantCulture) : null;
+    private static double? Number(XElement e, string attribute)
+    {
+        if (e.Attribute(attribute) is not { } a) return null;
+        if (!double.TryParse(a.Value, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out var value))
+            throw new SbmlRefusal(e, $"{SbmlRefusal.Describe(e)}: '{a.Value}' is not a number ({attribute})");
+        if (!double.IsFinite(value))
+            throw new SbmlRefusal(e, $"{SbmlRefusal.Describe(e)} has {attribute} {a.Value}; the network language has no infinite or undefined numbers");
+        return value;
+    }
 
     private bool Flag(XElement e, string attribute, bool absent) => e.Attribute(attribute) is { } a ? a.Value.Trim() is "true" or "1" : absent;
 
