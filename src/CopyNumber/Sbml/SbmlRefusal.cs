@@ -8,7 +8,7 @@ namespace CopyNumber.Sbml;
 /// Something in an SBML file the importer will not translate, with the element it stands in: the importer
 /// refuses rather than produce a different model (docs/sbml.md lists every refusal).
 /// </summary>
-internal sealed class SbmlRefusal(XObject? where, string message) : Exception(message)
+internal sealed class SbmlRefusal(XObject? where, string message) : CopyNumberException(message, ErrorKind.BadInput)
 {
     /// <summary>The element (or attribute) at fault; its line and column come from <see cref="IXmlLineInfo"/>.</summary>
     public XObject? Where { get; } = where;
