@@ -8,11 +8,11 @@ namespace CopyNumber.Cli.Commands;
 /// <summary>The MODEL argument every command takes, and loading it with diagnostics sent to the printer.</summary>
 internal static class ModelArgument
 {
-    public static Argument<string> Create() => new("model") { Description = "The network file (.cnet)." };
+    public static Argument<string> Create() => new("model") { Description = "The network file (.cnet), or an SBML model (.xml, .sbml) translated as by 'import'." };
 
     /// <summary>MODEL for simulate: optional, because --resume DIR reads the model text stored in the run.</summary>
     public static Argument<string?> CreateOptional() =>
-        new("model") { Description = "The network file (.cnet); with --resume it may be left out (the stored model is used).", Arity = ArgumentArity.ZeroOrOne };
+        new("model") { Description = "The network file (.cnet, or SBML .xml/.sbml); with --resume it may be left out (the stored model is used).", Arity = ArgumentArity.ZeroOrOne };
 
     public static LoadedModel Load(string path, CompileOptions? options = null)
     {

@@ -20,7 +20,13 @@ public static class ModelLoader
     {
         var (text, problem) = ModelSource.ReadText(path);
         if (text is null) return new LoadOutcome(null, [problem!]);
-        return LoadText(text, path, options);
+        if (!Sbml.SbmlImporter.IsSbmlPath(path)) return LoadText(text, path, options);
+        // SBML is translated into the network language first; the run keeps the translation as its model text.
+        var imported = Sbml.SbmlImporter.Import(text, path);
+        if (!imported.Succeeded) return new LoadOutcome(null, imported.Diagnostics);
+        var loaded = LoadText(imported.CnetText!, path, options);
+        return loaded.Model is not null ? loaded
+            : new LoadOutcome(null, loaded.Diagnostics.Select(d => d with { File = $"{path} (as imported)" }).ToList());
     }
 
     /// <summary>
