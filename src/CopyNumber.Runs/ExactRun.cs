@@ -37,10 +37,10 @@ public sealed record ExactOutcome(ExactSolution Solution, StationaryLaw? Station
 public static class ExactRun
 {
     /// <summary>Manifest field saying where the error bars of the folder's means come from.</summary>
-    public const string ErrorKindField = "error_kind";
+    public const string ErrorKindField = ManifestFields.ErrorKind;
 
     /// <summary>The value of <see cref="ErrorKindField"/> for an exact folder.</summary>
-    public const string ExactErrorKind = "exact: projection bound and time-stepping error";
+    public const string ExactErrorKind = ManifestFields.ExactErrorKind;
 
     /// <summary>The stationary law's file (the distributions layout, time = +∞).</summary>
     public const string StationaryFile = RunFiles.Stationary;

@@ -37,6 +37,11 @@ public sealed class FiniteStateProjection
     private StateSpace _space;
     private Generator? _generator;
     private Uniformisation? _propagator;
+    private readonly KrylovExponential _krylov;
+    private readonly StepperRule _rule;
+    private double _krylovStep = double.NaN;
+    private double _krylovError;
+    private int _krylovSteps;
     private double[] _p = [];
     private double _steppingError;
     private long _products;
@@ -54,6 +59,8 @@ public sealed class FiniteStateProjection
         _targetCounts = new long[network.Species.Count];
         _space = new StateSpace(StateCoding.For(network));
         _key = new int[_space.Dimension];
+        _krylov = new KrylovExponential(_parallel);
+        _rule = new StepperRule(options.Stepping);
     }
 
     /// <summary>Solves the master equation of <paramref name="network"/> on <paramref name="grid"/>.</summary>
@@ -102,20 +109,24 @@ public sealed class FiniteStateProjection
             {
                 t = Advance(t, grid[k], grid.Until, cancel);
                 Record(k, quantities, laws);
-                bound[k] = Missing();
+                bound[k] = Bound();
                 stepping[k] = _steppingError;
                 states[k] = _space.Count;
             }
             if (segment.End > t) t = Advance(t, segment.End, grid.Until, cancel);
         }
-        return new ExactSolution(grid, quantities, laws, bound, stepping, states, _products, _largestRate, _space.Dimension, clock.Elapsed);
+        return new ExactSolution(grid, quantities, laws, bound, stepping, states, _products, _largestRate, _space.Dimension, clock.Elapsed)
+        {
+            KrylovSteps = _krylovSteps,
+            KrylovError = _krylovError,
+        };
     }
 
-    /// <summary>1 − Σp, clamped at 0 (the sum is computed with compensation, so round-off does not fake a bound).</summary>
-    private double Missing()
+    /// <summary>1 − Σp over <paramref name="p"/>, clamped at 0 (the sum is computed with compensation, so round-off does not fake a bound).</summary>
+    private static double MissingOf(double[] p)
     {
         double sum = 0, compensation = 0;
-        foreach (var x in _p)
+        foreach (var x in p)
         {
             var y = x - compensation;
             var s = sum + y;
@@ -125,37 +136,88 @@ public sealed class FiniteStateProjection
         return Math.Max(0, 1 - sum);
     }
 
+    /// <summary>
+    /// The reported bound on ‖p_true − p‖₁: 1 − Σp, plus twice the Krylov steps' error estimates (one for the
+    /// mass they may have added to Σp, one for their own error); with uniformisation only it is exactly 1 − Σp.
+    /// </summary>
+    private double Bound() => MissingOf(_p) + 2 * _krylovError;
+
     private double Advance(double t, double target, double until, CancellationToken cancel)
     {
         var epsilon = _options.Tolerance;
+        var errorPerTime = epsilon * ExactOptions.SteppingShare / until;
         var retries = 0;
         while (t < target)
         {
             cancel.ThrowIfCancellationRequested();
+            if (_products > _options.MaxProducts)
+                throw new MasterEquationException($"the solve needs more than {_options.MaxProducts:N0} sparse products (its limit) to reach t = {target:G6}");
             EnsureGenerator();
-            var propagator = _propagator!;
-            var h = Math.Min(target - t, propagator.LongestStep);
+            var krylov = _rule.UseKrylov(_propagator!.Rate, target - t);
+            double Longest()
+            {
+                var longest = krylov ? (double.IsNaN(_krylovStep) ? double.PositiveInfinity : _krylovStep) : _propagator!.LongestStep;
+                // A Krylov step that would leave a sliver (under a tenth of a step) before the target takes the sliver too.
+                return krylov && target - t <= 1.1 * longest ? target - t : Math.Min(target - t, longest);
+            }
+            var h = Longest();
+            // Grow before stepping where the current support already sends out more than half the step's allowance.
+            if (retries == 0 && PreGrow(h, epsilon * (t + h) / until - Bound()))
+            {
+                EnsureGenerator();
+                h = Longest();
+            }
             var end = target - (t + h) <= 1e-12 * Math.Max(1, target) ? target : t + h;
             h = end - t;
             var result = new double[_space.Count];
             var occupancy = new double[_space.Count];
-            var productsBefore = propagator.Products;
-            var tail = propagator.Advance(_p, h, epsilon * ExactOptions.SteppingShare * h / until, result, occupancy);
-            _products += propagator.Products - productsBefore;
-            var allowance = epsilon * end / until;
-            var previous = _p;
-            _p = result;
-            var missing = Missing();
-            if (missing <= allowance)
+            double error;
+            double krylovWork = 0;
+            var next = _krylovStep;
+            if (krylov)
             {
-                _steppingError += tail;
+                var (productsBefore, passesBefore) = (_krylov.Products, _krylov.VectorPasses);
+                (var taken, error, next) = _krylov.Step(_generator!, _p, h, _krylovStep, errorPerTime, result);
+                if (taken < h) { end = t + taken; h = taken; }
+                _products += _krylov.Products - productsBefore;
+                krylovWork = _krylov.Products - productsBefore + (_krylov.VectorPasses - passesBefore) / StepperRule.PassesPerProduct;
+                for (var i = 0; i < result.Length; i++)
+                {
+                    // Clearing a negative entry moves it toward the nonnegative projected solution, so no error is added.
+                    if (result[i] < 0) result[i] = 0;
+                    occupancy[i] = 0.5 * h * (_p[i] + result[i]);
+                }
+            }
+            else
+            {
+                var productsBefore = _propagator.Products;
+                error = _propagator.Advance(_p, h, errorPerTime * h, result, occupancy);
+                _products += _propagator.Products - productsBefore;
+            }
+            var allowance = epsilon * end / until;
+            if (MissingOf(result) + 2 * (_krylovError + (krylov ? error : 0)) <= allowance)
+            {
+                _p = result;
+                _steppingError += error;
+                if (krylov)
+                {
+                    _rule.RecordKrylov(krylovWork, h);
+                    _krylovError += error;
+                    _krylovSteps++;
+                    _krylovStep = next;
+                }
                 t = end;
                 retries = 0;
                 continue;
             }
-            _p = previous;
+            if (krylov)
+            {
+                _rule.RecordKrylov(krylovWork, 0);
+                _krylovStep = h;
+            }
             retries++;
-            Grow(occupancy, allowance - Missing(), rings: 1 << Math.Min(retries - 1, 20));
+            if (!Grow(occupancy, allowance - Bound(), rings: 1 << Math.Min(retries - 1, 20)))
+                throw new MasterEquationException("the projection cannot grow although probability leaves it; the network's reachable states are all included, so this is a round-off failure of the tolerance — ask for a larger --tolerance");
         }
         return t;
     }
@@ -168,8 +230,23 @@ public sealed class FiniteStateProjection
         _largestRate = Math.Max(_largestRate, _propagator.Rate);
     }
 
-    /// <summary>Grows the projection from the states that leaked most over the refused step (see the type's remarks).</summary>
-    private void Grow(double[] occupancy, double stepAllowance, int rings)
+    /// <summary>
+    /// Grows one ring before a step of length <paramref name="h"/> when the first-order outflow of the current
+    /// support, h·Σ leak·p, exceeds half of <paramref name="stepAllowance"/>; true when states were added.
+    /// </summary>
+    private bool PreGrow(double h, double stepAllowance)
+    {
+        var generator = _generator!;
+        var outflow = 0.0;
+        for (var i = 0; i < generator.States; i++) outflow += generator.Leak[i] * _p[i];
+        if (!(outflow * h > 0.5 * Math.Max(0, stepAllowance)) || double.IsInfinity(h)) return false;
+        var occupancy = new double[generator.States];
+        for (var i = 0; i < occupancy.Length; i++) occupancy[i] = _p[i] * h;
+        return Grow(occupancy, stepAllowance, rings: 1);
+    }
+
+    /// <summary>Grows the projection from the states that leaked most over a step (see the type's remarks); true when states were added.</summary>
+    private bool Grow(double[] occupancy, double stepAllowance, int rings)
     {
         var generator = _generator!;
         var leaked = new List<(int State, double Mass)>();
@@ -199,11 +276,11 @@ public sealed class FiniteStateProjection
             foreach (var state in frontier) AddSuccessors(state, next, onlyLeaking: ring == 0 ? generator.LeakReactions[state] : -1);
             (frontier, next) = (next, frontier);
         }
-        if (_space.Count == before)
-            throw new MasterEquationException("the projection cannot grow although probability leaves it; the network's reachable states are all included, so this is a round-off failure of the tolerance — ask for a larger --tolerance");
+        if (_space.Count == before) return false;
         var grown = new double[_space.Count];
         Array.Copy(_p, grown, _p.Length);
         _p = grown;
+        return true;
     }
 
     /// <summary>Adds the states one firing away from <paramref name="state"/> (for reactions in the bit mask <paramref name="onlyLeaking"/>) to the space and to <paramref name="added"/> when new.</summary>
@@ -305,7 +382,7 @@ public sealed class FiniteStateProjection
             }
             total += _p[i];
         }
-        var missing = Missing();
+        var missing = Bound();
         for (var q = 0; q < quantities.Count; q++)
         {
             var errorBar = missing * largest[q];

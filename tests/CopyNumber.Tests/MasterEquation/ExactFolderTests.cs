@@ -1,0 +1,58 @@
+using CopyNumber.Analysis;
+using CopyNumber.Runs;
+using CopyNumber.Storage;
+using CopyNumber.Tests.Cli;
+
+namespace CopyNumber.Tests.MasterEquation;
+
+/// <summary>
+/// What the other commands make of an exact folder: its verdicts speak of probabilities (there are no
+/// replicates), and resuming or merging it is refused with the reason. The law used is immigration–death
+/// from 0 (Poisson with mean (k/μ)(1 − e^{−μt}); Bailey 1964, quoted from memory): with k = 2, μ = 1 at
+/// t = 10, P(0) = e^{−2(1 − e^{−10})} ≈ 0.135, above the default extinction threshold 0.05, while the rate
+/// equation holds ≈ 2 copies (≥ the floor of 1).
+/// </summary>
+public sealed class ExactFolderTests : IDisposable
+{
+    private readonly string _folder = Path.Combine(Path.GetTempPath(), "copynumber-exactfolder-" + Guid.NewGuid().ToString("N"));
+    private readonly string _run;
+
+    public ExactFolderTests()
+    {
+        Directory.CreateDirectory(_folder);
+        var model = Path.Combine(_folder, "rare.cnet");
+        File.WriteAllText(model, "species\n  X = 0\nreactions\n  birth: 0 -> X mass 2\n  death: X -> 0 mass 1\n");
+        _run = Path.Combine(_folder, "run");
+        var exact = CliRun.Of("exact", model, "--until", "10", "--every", "1", "--out", _run);
+        Assert.True(exact.ExitCode == 0, exact.Error);
+    }
+
+    public void Dispose() => Directory.Delete(_folder, recursive: true);
+
+    [Fact]
+    public void TheExtinctionVerdictOfAnExactFolderStatesAProbabilityNotReplicates()
+    {
+        var contrast = RunContrast.Compute(RunFolder.Read(_run));
+        var verdict = contrast.Quantities.Single(q => q.Name == "X").Verdicts.Single(v => v.Kind == VerdictKind.ExtinctionProne);
+        Assert.Contains("exact law", verdict.Sentence);
+        Assert.DoesNotContain("replicates", verdict.Sentence);
+        Assert.Contains("0.135", verdict.Sentence);
+    }
+
+    [Fact]
+    public void ResumingAnExactFolderSaysItIsAnExactSolution()
+    {
+        var result = CliRun.Of("simulate", "--resume", _run);
+        Assert.Equal(2, result.ExitCode);
+        Assert.Contains("exact solution of the master equation", result.Error);
+        Assert.DoesNotContain("block_size", result.Error);
+    }
+
+    [Fact]
+    public void MergingAnExactFolderSaysItIsAnExactSolution()
+    {
+        var result = CliRun.Of("merge", _run, "--out", Path.Combine(_folder, "merged"));
+        Assert.Equal(2, result.ExitCode);
+        Assert.Contains("exact solution of the master equation", result.Error);
+    }
+}
