@@ -55,4 +55,22 @@ public sealed class ExactFolderTests : IDisposable
         Assert.Equal(2, result.ExitCode);
         Assert.Contains("exact solution of the master equation", result.Error);
     }
+
+    /// <summary>
+    /// simulate --check-exact on the same immigration–death model: the direct method's ensemble is a sample of
+    /// the Poisson law, so at the family-wise level 0.01 it agrees (fixed seed), and the manifest holds the check.
+    /// </summary>
+    [Fact]
+    public void CheckExactReportsTheKolmogorovDistanceInTheConsoleAndTheManifest()
+    {
+        var model = Path.Combine(_folder, "rare.cnet");
+        var sampled = Path.Combine(_folder, "sampled");
+        var result = CliRun.Of("simulate", model, "--until", "10", "--every", "2", "--replicates", "1000", "--seed", "7", "--method", "direct", "--check-exact", "--no-contrast", "--out", sampled);
+        Assert.True(result.ExitCode == 0, result.Error);
+        Assert.Contains("the ensemble agrees with the exact law", result.Output);
+        Assert.Contains("X: largest Kolmogorov distance", result.Output);
+        var manifest = File.ReadAllText(Path.Combine(sampled, RunFiles.Manifest));
+        Assert.Contains("\"exact_check\"", manifest);
+        Assert.Contains("\"largest_kolmogorov_distance\"", manifest);
+    }
 }

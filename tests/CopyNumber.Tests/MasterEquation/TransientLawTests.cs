@@ -37,6 +37,28 @@ public sealed class TransientLawTests
     }
 
     /// <summary>
+    /// The same Poisson law (Bailey 1964, quoted from memory) with every step taken by the Krylov exponential
+    /// (Sidje 1998): the reported bound (1 − Σp plus twice the Krylov estimates) still covers the true error, and
+    /// the Krylov estimates stay within the stepping share of the tolerance.
+    /// </summary>
+    [Fact]
+    public void KrylovSteppingGivesThePoissonLawWithinTheReportedBound()
+    {
+        const double k = 20, mu = 0.5, tolerance = 1e-8;
+        var grid = new TimeGrid(until: 10, every: 2.5);
+        var solution = FiniteStateProjection.Solve(ExactModels.ImmigrationDeath(k, mu), grid, new ExactOptions(tolerance, Stepping: Stepping.Krylov));
+        Assert.True(solution.KrylovSteps > 0);
+        Assert.True(solution.KrylovError <= ExactOptions.SteppingShare * tolerance, $"Krylov estimates {solution.KrylovError:G3}");
+        for (var g = 0; g < grid.Count; g++)
+        {
+            var mean = k / mu * (1 - Math.Exp(-mu * grid[g]));
+            var error = TrueError(solution, g, 0, x => ExactModels.Poisson(mean, x), upTo: 200);
+            Assert.True(error <= solution.Bound[g] + RoundOff, $"t = {grid[g]}: true error {error:G3} above the bound {solution.Bound[g]:G3}");
+            Assert.True(solution.Bound[g] <= tolerance, $"t = {grid[g]}: bound {solution.Bound[g]:G3}");
+        }
+    }
+
+    /// <summary>
     /// Isomerisation A ⇄ B from A = n: B(t) is binomial(n, q(t)) with q(t) = c1/(c1+c2)·(1 − e^{−(c1+c2)t})
     /// (common practice: each molecule is an independent two-state chain; Jahnke &amp; Huisinga 2007, J. Math. Biol. 54:1).
     /// A + B = n is a conservation law, so only one coordinate is stored.
