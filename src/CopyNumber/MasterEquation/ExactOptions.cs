@@ -8,6 +8,9 @@ namespace CopyNumber.MasterEquation;
 /// <param name="Stepping">The time stepper: by <see cref="StepperRule"/> (default), or one of the two forced.</param>
 public sealed record ExactOptions(double Tolerance = 1e-6, long MaxStates = 10_000_000, int Threads = 0, Stepping Stepping = Stepping.Automatic)
 {
+    /// <summary>Two species (indices into the network's species) whose joint law is recorded at every grid time, or null.</summary>
+    public (int First, int Second)? Joint { get; init; }
+
     /// <summary>The most sparse products the solve may do before it stops with a message (unlimited by default).</summary>
     public long MaxProducts { get; init; } = long.MaxValue;
 

@@ -75,6 +75,13 @@ public sealed class ExactSolution
     /// <summary>Stored coordinates per state (species less conservation laws).</summary>
     public int Dimension { get; }
 
+    /// <summary>
+    /// Per grid time, the joint law of the two species of <see cref="ExactOptions.Joint"/>: (first count, second count,
+    /// probability) with positive probability, ordered by first then second count, normalised on the projection
+    /// like the marginals; empty when no joint law was asked for.
+    /// </summary>
+    public IReadOnlyList<IReadOnlyList<(long First, long Second, double Probability)>> Joint { get; init; } = [];
+
     /// <summary>Krylov steps taken (0 when uniformisation did all the stepping).</summary>
     public int KrylovSteps { get; init; }
 

@@ -100,6 +100,7 @@ public sealed class FiniteStateProjection
         var bound = new double[grid.Count];
         var stepping = new double[grid.Count];
         var states = new int[grid.Count];
+        var joint = new IReadOnlyList<(long, long, double)>[_options.Joint is null ? 0 : grid.Count];
         var timeline = Timeline.Of(_network, grid);
         var t = 0.0;
         foreach (var segment in timeline.Segments)
@@ -109,6 +110,7 @@ public sealed class FiniteStateProjection
             {
                 t = Advance(t, grid[k], grid.Until, cancel);
                 Record(k, quantities, laws);
+                if (_options.Joint is { } pair) joint[k] = JointLaw(pair.First, pair.Second);
                 bound[k] = Bound();
                 stepping[k] = _steppingError;
                 states[k] = _space.Count;
@@ -119,6 +121,7 @@ public sealed class FiniteStateProjection
         {
             KrylovSteps = _krylovSteps,
             KrylovError = _krylovError,
+            Joint = joint,
         };
     }
 
@@ -350,6 +353,22 @@ public sealed class FiniteStateProjection
         _p = new double[_space.Count];
         foreach (var (target, mass) in moved) _p[target] += mass;
         _generator = null;
+    }
+
+    /// <summary>The joint law of species <paramref name="first"/> and <paramref name="second"/> on the projection, normalised.</summary>
+    private (long, long, double)[] JointLaw(int first, int second)
+    {
+        var law = new Dictionary<(long, long), double>();
+        var total = 0.0;
+        for (var i = 0; i < _space.Count; i++)
+        {
+            if (!(_p[i] > 0)) continue;
+            _space.Counts(i, _counts);
+            var key = (_counts[first], _counts[second]);
+            law[key] = law.GetValueOrDefault(key) + _p[i];
+            total += _p[i];
+        }
+        return law.OrderBy(e => e.Key.Item1).ThenBy(e => e.Key.Item2).Select(e => (e.Key.Item1, e.Key.Item2, e.Value / total)).ToArray();
     }
 
     /// <summary>Marginals of the count quantities and moments of the real readouts at grid point <paramref name="k"/>.</summary>

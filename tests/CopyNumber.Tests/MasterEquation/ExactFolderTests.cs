@@ -73,4 +73,18 @@ public sealed class ExactFolderTests : IDisposable
         Assert.Contains("\"exact_check\"", manifest);
         Assert.Contains("\"largest_kolmogorov_distance\"", manifest);
     }
+
+    [Fact]
+    public void JointWritesItsTableAndRefusesAnUnknownSpecies()
+    {
+        var model = Path.Combine(_folder, "pair.cnet");
+        File.WriteAllText(model, "species\n  X = 0\n  Y = 0\nreactions\n  bx: 0 -> X mass 2\n  dx: X -> 0 mass 1\n  convert: X -> Y mass 0.5\n  dy: Y -> 0 mass 1\n");
+        var run = Path.Combine(_folder, "joint");
+        var result = CliRun.Of("exact", model, "--until", "2", "--every", "1", "--joint", "X,Y", "--out", run);
+        Assert.True(result.ExitCode == 0, result.Error);
+        Assert.True(File.Exists(Path.Combine(run, RunFiles.Joint)));
+        var refused = CliRun.Of("exact", model, "--until", "2", "--every", "1", "--joint", "X,Z", "--out", Path.Combine(_folder, "refused"));
+        Assert.Equal(2, refused.ExitCode);
+        Assert.Contains("'Z' is not a species", refused.Error);
+    }
 }
