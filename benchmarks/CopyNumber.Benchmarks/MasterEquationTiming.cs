@@ -24,8 +24,8 @@ internal static class MasterEquationTiming
         if (args.Length < 2 || args[1] == "toggle")
         {
             var network = ModelLoader.LoadText(Toggle300, "toggle300.cnet").Model!.Network;
-            foreach (var threads in new[] { 2, 1 })
-                Report($"toggle300 to t = 100, {threads} thread(s), {stepping}", FiniteStateProjection.Solve(network, new TimeGrid(100, 1), new ExactOptions(1e-6, Threads: threads, Stepping: stepping)));
+            foreach (var threads in (Environment.GetEnvironmentVariable("EXACT_THREADS") ?? "2,1").Split(',').Select(int.Parse))
+                Report($"toggle300 to t = 100, {threads} thread(s), {stepping}", FiniteStateProjection.Solve(network, new TimeGrid(double.Parse(Environment.GetEnvironmentVariable("EXACT_UNTIL") ?? "100"), 1), new ExactOptions(1e-6, Threads: threads, Stepping: stepping)));
         }
         if (args.Length < 2 || args[1] == "repressor")
         {
@@ -39,7 +39,7 @@ internal static class MasterEquationTiming
     private static void Report(string what, ExactSolution solution) =>
         Console.WriteLine($"{what}: {solution.WallTime.TotalSeconds:F2} s, {solution.States[^1]:N0} states at the end, "
             + $"max bound {solution.Bound.Max():G3} (stepping {solution.SteppingError[^1]:G3}, Krylov estimate {solution.KrylovError:G3}), Λ = {solution.LargestRate:G4}, "
-            + $"{solution.Products:N0} products, {solution.KrylovSteps:N0} Krylov steps");
+            + $"{solution.Products:N0} products, {solution.KrylovSteps:N0} Krylov steps, {solution.RefusedSteps:N0} steps refused by the projection");
 
     private static string FindScenarios()
     {

@@ -82,6 +82,9 @@ public sealed class ExactSolution
     /// </summary>
     public IReadOnlyList<IReadOnlyList<(long First, long Second, double Probability)>> Joint { get; init; } = [];
 
+    /// <summary>Steps refused because too much probability left the projection (each redone after growing it).</summary>
+    public int RefusedSteps { get; init; }
+
     /// <summary>Krylov steps taken (0 when uniformisation did all the stepping).</summary>
     public int KrylovSteps { get; init; }
 

@@ -42,6 +42,10 @@ public sealed class FiniteStateProjection
     private double _krylovStep = double.NaN;
     private double _krylovError;
     private int _krylovSteps;
+    private int _refusals;
+    private double[] _lastOccupancy = [];
+    private double _lastStep;
+    private int _preRings = 1;
     private double[] _p = [];
     private double _steppingError;
     private long _products;
@@ -121,6 +125,7 @@ public sealed class FiniteStateProjection
         {
             KrylovSteps = _krylovSteps,
             KrylovError = _krylovError,
+            RefusedSteps = _refusals,
             Joint = joint,
         };
     }
@@ -150,13 +155,15 @@ public sealed class FiniteStateProjection
         var epsilon = _options.Tolerance;
         var errorPerTime = epsilon * ExactOptions.SteppingShare / until;
         var retries = 0;
+        if (!(t < target)) return t;
+        EnsureGenerator();
+        var krylov = _rule.UseKrylov(_propagator!.Rate, target - t);
         while (t < target)
         {
             cancel.ThrowIfCancellationRequested();
             if (_products > _options.MaxProducts)
                 throw new MasterEquationException($"the solve needs more than {_options.MaxProducts:N0} sparse products (its limit) to reach t = {target:G6}");
             EnsureGenerator();
-            var krylov = _rule.UseKrylov(_propagator!.Rate, target - t);
             double Longest()
             {
                 var longest = krylov ? (double.IsNaN(_krylovStep) ? double.PositiveInfinity : _krylovStep) : _propagator!.LongestStep;
@@ -201,6 +208,10 @@ public sealed class FiniteStateProjection
             if (MissingOf(result) + 2 * (_krylovError + (krylov ? error : 0)) <= allowance)
             {
                 _p = result;
+                _lastOccupancy = occupancy;
+                _lastStep = h;
+                // The rings the last refused try of this step needed are grown ahead of the next step; they shrink again when not needed.
+                _preRings = retries > 0 ? Math.Max(_preRings, 1 << Math.Min(retries - 1, 20)) : Math.Max(1, _preRings / 2);
                 _steppingError += error;
                 if (krylov)
                 {
@@ -213,12 +224,9 @@ public sealed class FiniteStateProjection
                 retries = 0;
                 continue;
             }
-            if (krylov)
-            {
-                _rule.RecordKrylov(krylovWork, 0);
-                _krylovStep = h;
-            }
+            if (krylov) _krylovStep = h;
             retries++;
+            _refusals++;
             if (!Grow(occupancy, allowance - Bound(), rings: 1 << Math.Min(retries - 1, 20)))
                 throw new MasterEquationException("the projection cannot grow although probability leaves it; the network's reachable states are all included, so this is a round-off failure of the tolerance — ask for a larger --tolerance");
         }
@@ -234,18 +242,25 @@ public sealed class FiniteStateProjection
     }
 
     /// <summary>
-    /// Grows one ring before a step of length <paramref name="h"/> when the first-order outflow of the current
-    /// support, h·Σ leak·p, exceeds half of <paramref name="stepAllowance"/>; true when states were added.
+    /// Grows before a step of length <paramref name="h"/> when the support is expected to send out more than half
+    /// of <paramref name="stepAllowance"/>: each state's expected time-integrated probability over the step is the
+    /// larger of p·h (the current support) and the previous accepted step's occupancy per unit time times h (where
+    /// probability has been flowing); the leak rates times these are the expected outflow. True when states were added.
     /// </summary>
     private bool PreGrow(double h, double stepAllowance)
     {
         var generator = _generator!;
-        var outflow = 0.0;
-        for (var i = 0; i < generator.States; i++) outflow += generator.Leak[i] * _p[i];
-        if (!(outflow * h > 0.5 * Math.Max(0, stepAllowance)) || double.IsInfinity(h)) return false;
+        if (double.IsInfinity(h)) return false;
         var occupancy = new double[generator.States];
-        for (var i = 0; i < occupancy.Length; i++) occupancy[i] = _p[i] * h;
-        return Grow(occupancy, stepAllowance, rings: 1);
+        var outflow = 0.0;
+        var rate = _lastStep > 0 ? h / _lastStep : 0;
+        for (var i = 0; i < occupancy.Length; i++)
+        {
+            occupancy[i] = Math.Max(_p[i] * h, i < _lastOccupancy.Length ? _lastOccupancy[i] * rate : 0);
+            outflow += generator.Leak[i] * occupancy[i];
+        }
+        if (!(outflow > 0.5 * Math.Max(0, stepAllowance))) return false;
+        return Grow(occupancy, stepAllowance, rings: _preRings);
     }
 
     /// <summary>Grows the projection from the states that leaked most over a step (see the type's remarks); true when states were added.</summary>
@@ -311,6 +326,7 @@ public sealed class FiniteStateProjection
     /// <summary>Applies one scheduled change to the whole distribution at its time.</summary>
     private void Apply(ScheduledChange change)
     {
+        _lastOccupancy = []; // where probability flowed before the change says nothing about after it
         if (change.Target == ScheduleTarget.Parameter)
         {
             double? value = null;

@@ -26,24 +26,43 @@ namespace CopyNumber.MasterEquation;
 /// </remarks>
 public sealed class KrylovExponential
 {
-    /// <summary>m, the Krylov basis size (Expokit's default).</summary>
-    public const int BasisSize = 30;
+    /// <summary>m, the default Krylov basis size.</summary>
+    public const int BasisSize = 60;
+
+    /// <summary>q, the default orthogonalisation depth: each new basis vector is orthogonalised against the last q only.</summary>
+    public const int OrthogonalisationDepth = 2;
+
+    /// <summary>The basis size of this stepper.</summary>
+    public int Size { get; }
+
+    /// <summary>How many previous basis vectors each new one is orthogonalised against (the basis size: full orthogonalisation).</summary>
+    public int Depth { get; }
 
     /// <summary>Sidje's safety factor γ on the step-size formula.</summary>
     private const double Safety = 0.9;
 
     private readonly ParallelOptions _parallel;
-    private readonly double[][] _basis = new double[BasisSize + 1][];
-    private readonly double[,] _hessenberg = new double[BasisSize + 2, BasisSize + 2];
-    private readonly double[,] _exponential = new double[BasisSize + 2, BasisSize + 2];
-    private readonly double[] _coefficients = new double[BasisSize + 1];
+    private readonly double[][] _basis;
+    private readonly double[,] _hessenberg;
+    private readonly double[,] _exponential;
+    private readonly double[] _coefficients;
     private double[] _partial = [];
     private double[] _product = [];
     private Generator? _generator;
     private int _columns;
+    private int _first;
 
     /// <summary>A stepper that uses up to the given parallelism.</summary>
-    public KrylovExponential(ParallelOptions parallel) => _parallel = parallel;
+    public KrylovExponential(ParallelOptions parallel, int size = BasisSize, int depth = OrthogonalisationDepth)
+    {
+        _parallel = parallel;
+        Size = Math.Max(2, size);
+        Depth = Math.Clamp(depth, 1, Size);
+        _basis = new double[Size + 1][];
+        _hessenberg = new double[Size + 2, Size + 2];
+        _exponential = new double[Size + 2, Size + 2];
+        _coefficients = new double[Size + 1];
+    }
 
     /// <summary>Sparse products A·v done so far.</summary>
     public long Products { get; private set; }
@@ -78,13 +97,14 @@ public sealed class KrylovExponential
         var norm = 2 * generator.LargestExitRate; // ‖A‖₁ ≤ 2·max a₀: each column holds −a₀ and outflows summing to at most a₀
         Array.Clear(_hessenberg);
         for (var k = 0; k < n; k++) _basis[0][k] = start[k] / beta;
-        var m = BasisSize;
+        var m = Size;
         var basisUsed = m;
         var augmented = true;
         for (var j = 0; j < m; j++)
         {
             Multiply(_basis[j], _basis[j + 1], n);
-            for (var pass = 0; pass < 2; pass++) Orthogonalise(j, n);
+            // Full orthogonalisation is done twice; an incomplete one (against the last few vectors) once, as in IOM.
+            for (var pass = 0; pass < (Depth >= Size ? 2 : 1); pass++) Orthogonalise(j, n);
             var s = Math.Sqrt(Dot(_basis[j + 1], _basis[j + 1], n));
             if (s <= 1e-12 * norm)
             {
@@ -105,7 +125,7 @@ public sealed class KrylovExponential
             avNorm = Norm1(_product, n);
         }
 
-        var tau = Math.Min(longest, double.IsNaN(suggested) ? InitialStep(norm, beta, errorPerTime) : suggested);
+        var tau = Math.Min(longest, double.IsNaN(suggested) ? InitialStep(m, norm, beta, errorPerTime) : suggested);
         double error;
         var exponent = 1.0 / m;
         while (true)
@@ -132,9 +152,8 @@ public sealed class KrylovExponential
     }
 
     /// <summary>Sidje's initial step: (1/‖A‖)·(c_m·tol / (4β‖A‖))^{1/m}, c_m = ((m+1)/e)^{m+1}·√(2π(m+1)).</summary>
-    private static double InitialStep(double norm, double beta, double errorPerTime)
+    private static double InitialStep(int m, double norm, double beta, double errorPerTime)
     {
-        const int m = BasisSize;
         var logFactor = (m + 1) * Math.Log((m + 1) / Math.E) + 0.5 * Math.Log(2 * Math.PI * (m + 1));
         return Round(Math.Exp((logFactor + Math.Log(errorPerTime) - Math.Log(4 * beta * norm)) / m) / norm);
     }
@@ -157,7 +176,7 @@ public sealed class KrylovExponential
             for (var i = 0; i < _basis.Length; i++) _basis[i] = new double[capacity];
             _product = new double[capacity];
         }
-        _partial = _partial.Length >= Generator.Chunks(n) * (BasisSize + 1) ? _partial : new double[Generator.Chunks(n) * (BasisSize + 1)];
+        _partial = _partial.Length >= Generator.Chunks(n) * (Size + 1) ? _partial : new double[Generator.Chunks(n) * (Size + 1)];
     }
 
     /// <summary>y = A·x: the diagonal −a₀ plus the incoming transitions of each row.</summary>
@@ -181,35 +200,36 @@ public sealed class KrylovExponential
         });
     }
 
-    /// <summary>One classical Gram–Schmidt pass of column j+1 against columns 0..j, adding the coefficients to H.</summary>
+    /// <summary>One classical Gram–Schmidt pass of column j+1 against columns j−Depth+1..j, adding the coefficients to H.</summary>
     private void Orthogonalise(int j, int n)
     {
+        _first = Math.Max(0, j + 1 - Depth);
         _columns = j + 1;
         var target = _basis[j + 1];
         var chunks = Generator.Chunks(n);
-        VectorPasses += 2L * _columns;
+        VectorPasses += 2L * (_columns - _first);
         For(n, chunk =>
         {
             var (from, to) = Generator.ChunkRange(chunk, n);
-            for (var i = 0; i < _columns; i++)
+            for (var i = _first; i < _columns; i++)
             {
                 var v = _basis[i];
                 var s = 0.0;
                 for (var k = from; k < to; k++) s += v[k] * target[k];
-                _partial[chunk * (BasisSize + 1) + i] = s;
+                _partial[chunk * (Size + 1) + i] = s;
             }
         });
-        for (var i = 0; i < _columns; i++)
+        for (var i = _first; i < _columns; i++)
         {
             var s = 0.0;
-            for (var c = 0; c < chunks; c++) s += _partial[c * (BasisSize + 1) + i];
+            for (var c = 0; c < chunks; c++) s += _partial[c * (Size + 1) + i];
             _coefficients[i] = s;
             _hessenberg[i, j] += s;
         }
         For(n, chunk =>
         {
             var (from, to) = Generator.ChunkRange(chunk, n);
-            for (var i = 0; i < _columns; i++)
+            for (var i = _first; i < _columns; i++)
             {
                 var v = _basis[i];
                 var c = _coefficients[i];
@@ -244,10 +264,10 @@ public sealed class KrylovExponential
             var (from, to) = Generator.ChunkRange(chunk, n);
             var s = 0.0;
             for (var k = from; k < to; k++) s += x[k] * y[k];
-            _partial[chunk * (BasisSize + 1)] = s;
+            _partial[chunk * (Size + 1)] = s;
         });
         var sum = 0.0;
-        for (var c = 0; c < chunks; c++) sum += _partial[c * (BasisSize + 1)];
+        for (var c = 0; c < chunks; c++) sum += _partial[c * (Size + 1)];
         return sum;
     }
 

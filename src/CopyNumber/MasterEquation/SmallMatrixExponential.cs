@@ -47,14 +47,25 @@ internal static class SmallMatrixExponential
             for (var j = 0; j < n; j++) result[i, j] = sum[i, j];
     }
 
+    // i–k–j order over rows held as spans: the inner loop streams a row of y and of the result, and skips the
+    // zeros a Hessenberg matrix's powers still have in their lower-left corner.
     private static void Multiply(double[,] x, double[,] y, double[,] into, int n)
     {
+        var width = into.GetLength(1);
+        var flatX = System.Runtime.InteropServices.MemoryMarshal.CreateSpan(ref x[0, 0], x.Length);
+        var flatY = System.Runtime.InteropServices.MemoryMarshal.CreateSpan(ref y[0, 0], y.Length);
+        var flatInto = System.Runtime.InteropServices.MemoryMarshal.CreateSpan(ref into[0, 0], into.Length);
         for (var i = 0; i < n; i++)
-            for (var j = 0; j < n; j++)
+        {
+            var row = flatInto.Slice(i * width, n);
+            row.Clear();
+            for (var k = 0; k < n; k++)
             {
-                var s = 0.0;
-                for (var k = 0; k < n; k++) s += x[i, k] * y[k, j];
-                into[i, j] = s;
+                var a = flatX[i * width + k];
+                if (a == 0) continue;
+                var yRow = flatY.Slice(k * width, n);
+                for (var j = 0; j < n; j++) row[j] += a * yRow[j];
             }
+        }
     }
 }

@@ -19,22 +19,32 @@ public enum Stepping
 /// (Λ the uniformisation rate, Δ = t' − t), known beforehand; a Krylov step costs its m + 1 products plus its
 /// orthogonalisation, counted as <see cref="PassesPerProduct"/> vector passes per product (a pass reads about
 /// 16–24 bytes per state, a product of the master equation's generator about 140). The Krylov cost per unit time
-/// is measured from the steps it has taken in this solve. Rule: uniformisation while Λ·Δ is below the cost of
-/// one Krylov step (it is then cheaper whatever Krylov does, and its bound is rigorous); Krylov otherwise, unless
-/// its measured cost per unit time already exceeds Λ·(1 + 6/√(Λ·Δ)), the cost rate of uniformisation on
-/// the same stretch. The choice depends only on counts, never on wall time, so a solve is reproducible.
+/// is measured over the accepted steps of the last stretch it stepped. Rule: uniformisation while Λ·Δ is below the
+/// cost of one Krylov step (it is then cheaper whatever Krylov does, and its bound is rigorous); Krylov otherwise,
+/// unless its measured cost per unit time exceeds Λ·(1 + 6/√(Λ·Δ)), the cost rate of uniformisation on the same
+/// stretch — and then Krylov is tried again after <see cref="RetryAfter"/> stretches. The choice depends only on
+/// counts, never on wall time, so a solve is reproducible.
 /// </summary>
 public sealed class StepperRule
 {
     /// <summary>Vector passes (a dot product or an axpy over the projection) counted as one sparse product.</summary>
     public const double PassesPerProduct = 7;
 
-    /// <summary>The cost of one Krylov step of basis size m: m + 1 products and about 4·m(m+1)/2 + 3m vector passes.</summary>
-    public static double KrylovStepCost { get; } = KrylovExponential.BasisSize + 1 + (2.0 * KrylovExponential.BasisSize * (KrylovExponential.BasisSize + 1) + 3 * KrylovExponential.BasisSize) / PassesPerProduct;
+    /// <summary>
+    /// The cost of one Krylov step of basis size m and orthogonalisation depth q: m + 1 products and about
+    /// m·(2q + 2) + m + 1 vector passes (a dot product and an axpy per earlier vector, a norm and a scaling per
+    /// column, and the final combination).
+    /// </summary>
+    public static double KrylovStepCost { get; } = KrylovExponential.BasisSize + 1
+        + (KrylovExponential.BasisSize * (2.0 * KrylovExponential.OrthogonalisationDepth + 2) + KrylovExponential.BasisSize + 1) / PassesPerProduct;
+
+    /// <summary>After this many stretches stepped by uniformisation, Krylov is tried again (the projection and Λ change).</summary>
+    public const int RetryAfter = 8;
 
     private readonly Stepping _stepping;
-    private double _krylovWork;
-    private double _krylovTime;
+    private double _work, _time;        // accepted Krylov steps of the current stretch
+    private double _rate = double.NaN;  // product equivalents per unit time of the last stretch Krylov stepped
+    private int _sinceKrylov;
 
     /// <summary>A rule for the given setting.</summary>
     public StepperRule(Stepping stepping) => _stepping = stepping;
@@ -42,17 +52,23 @@ public sealed class StepperRule
     /// <summary>True when the stretch of length <paramref name="span"/> at uniformisation rate <paramref name="rate"/> should be stepped by Krylov.</summary>
     public bool UseKrylov(double rate, double span)
     {
+        if (_time > 0) _rate = _work / _time;
+        (_work, _time) = (0, 0);
         if (_stepping != Stepping.Automatic) return _stepping == Stepping.Krylov;
         var products = rate * span;
-        if (products < KrylovStepCost) return false;
-        if (_krylovTime <= 0) return true;
-        return _krylovWork / _krylovTime < rate * (1 + 6 / Math.Sqrt(products));
+        var krylov = products >= KrylovStepCost
+            && (double.IsNaN(_rate) || _sinceKrylov >= RetryAfter || _rate < rate * (1 + 6 / Math.Sqrt(products)));
+        _sinceKrylov = krylov ? 0 : _sinceKrylov + 1;
+        return krylov;
     }
 
-    /// <summary>Records the work (product equivalents) Krylov spent on a stretch of time <paramref name="time"/>.</summary>
+    /// <summary>
+    /// Records an accepted Krylov step: its work (product equivalents) and length. Steps refused because the
+    /// projection had to grow are not counted, as uniformisation's cost estimate does not count its own.
+    /// </summary>
     public void RecordKrylov(double work, double time)
     {
-        _krylovWork += work;
-        _krylovTime += time;
+        _work += work;
+        _time += time;
     }
 }
