@@ -8,7 +8,8 @@ namespace CopyNumber.MasterEquation;
 /// <summary>
 /// Solves the chemical master equation dP/dt = A·P by finite state projection (Munsky &amp; Khammash 2006,
 /// J. Chem. Phys. 124:044104) with a projection that grows as the solution needs it, stepping in time by
-/// <see cref="Uniformisation"/>, and applying the schedule exactly at its times (see docs/methods.md).
+/// <see cref="Uniformisation"/> or <see cref="KrylovExponential"/> as <see cref="StepperRule"/> decides per
+/// stretch between grid times, and applying the schedule exactly at its times (see docs/methods.md).
 /// </summary>
 /// <remarks>
 /// <para>Growth rule. The projection starts as the initial state. A step [t, t+h] is accepted when the
@@ -19,7 +20,8 @@ namespace CopyNumber.MasterEquation;
 /// the reactions that left the projection: the r-th retry of a step adds 2^(r−1) rings of states
 /// reachable from there (N-step reachability, so a distribution that travels far in one step needs only
 /// a logarithmic number of retries). Growth follows reachability, so states the network cannot reach
-/// never enter, and conservation laws are respected without being imposed.</para>
+/// never enter, and conservation laws are respected without being imposed. Before each step the projection
+/// may grow ahead of it (see <see cref="PreGrow"/>), so that fewer steps are refused and redone.</para>
 /// <para>What is refused: a parameter change whose value differs between states with probability (it
 /// would make the parameter a random variable), a negative or non-finite propensity, a projection beyond
 /// <see cref="ExactOptions.MaxStates"/>.</para>
