@@ -38,7 +38,7 @@ public sealed record ExactCheckOutcome(EnsembleAgreement? Agreement, string? Ski
 public static class ExactCheck
 {
     /// <summary>The manifest field holding the check.</summary>
-    public const string ManifestField = "exact_check";
+    public const string ManifestField = ManifestFields.ExactCheck;
 
     /// <summary>The automatic rule's state limit.</summary>
     public const long AutomaticStates = 20_000;

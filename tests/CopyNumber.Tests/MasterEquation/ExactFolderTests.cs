@@ -72,6 +72,10 @@ public sealed class ExactFolderTests : IDisposable
         var manifest = File.ReadAllText(Path.Combine(sampled, RunFiles.Manifest));
         Assert.Contains("\"exact_check\"", manifest);
         Assert.Contains("\"largest_kolmogorov_distance\"", manifest);
+
+        var contrast = CliRun.Of("contrast", sampled);
+        Assert.True(contrast.ExitCode == 0, contrast.Error);
+        Assert.Contains("Ensemble against the exact law", File.ReadAllText(Path.Combine(sampled, RunFiles.ReportMarkdown)));
     }
 
     [Fact]
