@@ -6,7 +6,8 @@ namespace CopyNumber.Benchmarks;
 
 /// <summary>
 /// Timings of the master-equation solver for docs/performance.md (<c>dotnet run -c Release -- exact</c>):
-/// the toggle pair with its synthesis scaled up tenfold (up to ~300 copies of each) solved to t = 100, and
+/// the toggle pair with its synthesis scaled up tenfold (up to ~300 copies of each) solved to t = 100, the
+/// repressor_dimer scenario to t = 50 (optional third argument: automatic, uniformisation or krylov), and
 /// the sparse product on a projection of 10⁶ states at 1 and 2 threads (state-updates per second, memory).
 /// </summary>
 internal static class MasterEquationTiming
@@ -19,17 +20,32 @@ internal static class MasterEquationTiming
 
     public static void Run(string[] args)
     {
+        var stepping = args.Length >= 3 ? Enum.Parse<Stepping>(args[2], ignoreCase: true) : Stepping.Automatic;
         if (args.Length < 2 || args[1] == "toggle")
         {
             var network = ModelLoader.LoadText(Toggle300, "toggle300.cnet").Model!.Network;
-            foreach (var threads in new[] { 2, 1 })
-            {
-                var solution = FiniteStateProjection.Solve(network, new TimeGrid(100, 1), new ExactOptions(1e-6, Threads: threads));
-                Console.WriteLine($"toggle300 to t = 100, {threads} thread(s): {solution.WallTime.TotalSeconds:F2} s, {solution.States[^1]:N0} states at the end, "
-                    + $"max bound {solution.Bound.Max():G3}, Λ = {solution.LargestRate:G4}, {solution.Products:N0} products");
-            }
+            foreach (var threads in (Environment.GetEnvironmentVariable("EXACT_THREADS") ?? "2,1").Split(',').Select(int.Parse))
+                Report($"toggle300 to t = 100, {threads} thread(s), {stepping}", FiniteStateProjection.Solve(network, new TimeGrid(double.Parse(Environment.GetEnvironmentVariable("EXACT_UNTIL") ?? "100"), 1), new ExactOptions(1e-6, Threads: threads, Stepping: stepping)));
+        }
+        if (args.Length < 2 || args[1] == "repressor")
+        {
+            var path = Path.Combine(FindScenarios(), "repressor_dimer.cnet");
+            var network = ModelLoader.LoadText(File.ReadAllText(path), path).Model!.Network;
+            Report($"repressor_dimer to t = 50, 2 threads, {stepping}", FiniteStateProjection.Solve(network, new TimeGrid(50, 5), new ExactOptions(1e-6, Threads: 2, Stepping: stepping)));
         }
         if (args.Length < 2 || args[1] == "million") Million();
+    }
+
+    private static void Report(string what, ExactSolution solution) =>
+        Console.WriteLine($"{what}: {solution.WallTime.TotalSeconds:F2} s, {solution.States[^1]:N0} states at the end, "
+            + $"max bound {solution.Bound.Max():G3} (stepping {solution.SteppingError[^1]:G3}, Krylov estimate {solution.KrylovError:G3}), Λ = {solution.LargestRate:G4}, "
+            + $"{solution.Products:N0} products, {solution.KrylovSteps:N0} Krylov steps, {solution.RefusedSteps:N0} steps refused by the projection");
+
+    private static string FindScenarios()
+    {
+        for (var dir = new DirectoryInfo(AppContext.BaseDirectory); dir is not null; dir = dir.Parent)
+            if (Directory.Exists(Path.Combine(dir.FullName, "scenarios"))) return Path.Combine(dir.FullName, "scenarios");
+        throw new DirectoryNotFoundException("scenarios/ not found above the benchmark's folder");
     }
 
     /// <summary>Two independent immigration–death species on the box [0, 999]², 10⁶ states, 4 reactions: products at 1 and 2 threads.</summary>

@@ -46,6 +46,7 @@ public static class ContrastReport
 
         var sections = new List<ReportSection> { summary };
         if (ValidationSection.For(run.Manifest, cautions) is { } validation) sections.Add(validation);
+        if (ExactCheckSection.For(run.Manifest) is { } exactCheck) sections.Add(exactCheck);
         var chosenTimes = ChooseTimes(times, histogramTimes);
         var timeUnit = TimeUnit(run.Manifest);
         foreach (var q in contrast.Quantities)

@@ -37,10 +37,10 @@ internal static class ValidationSection
             []);
     }
 
-    private static string Text(JsonElement element, string name) =>
+    internal static string Text(JsonElement element, string name) =>
         element.TryGetProperty(name, out var v) && v.ValueKind == JsonValueKind.String ? v.GetString() ?? "" : "";
 
-    private static string Number(JsonElement element, string name) =>
+    internal static string Number(JsonElement element, string name) =>
         element.TryGetProperty(name, out var v) && v.ValueKind == JsonValueKind.Number ? v.GetDouble().ToString("G6", CultureInfo.InvariantCulture) : "-";
 
     private static string Percent(JsonElement element, string name)

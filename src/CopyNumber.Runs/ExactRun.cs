@@ -37,16 +37,16 @@ public sealed record ExactOutcome(ExactSolution Solution, StationaryLaw? Station
 public static class ExactRun
 {
     /// <summary>Manifest field saying where the error bars of the folder's means come from.</summary>
-    public const string ErrorKindField = "error_kind";
+    public const string ErrorKindField = ManifestFields.ErrorKind;
 
     /// <summary>The value of <see cref="ErrorKindField"/> for an exact folder.</summary>
-    public const string ExactErrorKind = "exact: projection bound and time-stepping error";
+    public const string ExactErrorKind = ManifestFields.ExactErrorKind;
 
     /// <summary>The stationary law's file (the distributions layout, time = +∞).</summary>
     public const string StationaryFile = RunFiles.Stationary;
 
     /// <summary>The manifest's method.</summary>
-    public const string Method = "exact (finite state projection, uniformisation)";
+    public const string Method = "exact (finite state projection; uniformisation or Krylov by the stepper rule)";
 
     /// <summary>Solves and writes; see the type's remarks.</summary>
     /// <exception cref="MasterEquationException">The master equation cannot be solved as asked.</exception>
@@ -85,6 +85,12 @@ public static class ExactRun
         var distributions = Path.Combine(request.Folder, RunFiles.Distributions);
         DistributionsTable.Write(distributions, DistributionRows(solution.Grid.Times.ToArray(), solution.Quantities.Count, (k, q) => solution.Law(k, q), solution.Quantities.Select(q => q.Name).ToArray()), provenance);
         files.Add(distributions);
+        if (request.Options.Joint is { } pair && solution.Joint.Count > 0)
+        {
+            var path = Path.Combine(request.Folder, RunFiles.Joint);
+            JointTable.Write(path, network.Species[pair.First], network.Species[pair.Second], solution.Grid.Times.ToArray(), solution.Joint, provenance);
+            files.Add(path);
+        }
         if (stationary is not null)
         {
             var path = Path.Combine(request.Folder, StationaryFile);
@@ -112,6 +118,8 @@ public static class ExactRun
         manifest.Extra["states_per_time"] = new JsonArray(solution.States.Select(s => (JsonNode)s).ToArray());
         manifest.Extra["uniformisation_rate"] = solution.LargestRate;
         manifest.Extra["matrix_vector_products"] = solution.Products;
+        manifest.Extra["krylov_steps"] = solution.KrylovSteps;
+        manifest.Extra["krylov_error_estimate"] = solution.KrylovError;
         if (stationary is not null)
         {
             manifest.Extra["stationary_residual"] = stationary.Residual;

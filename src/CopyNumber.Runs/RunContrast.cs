@@ -90,7 +90,8 @@ public static class RunContrast
                 points.Add(new ContrastPoint(run.Times[k], replicates, series.Mean[k], series.Variance[k], exact ? series.StandardError[k] / z : series.StandardError[k],
                     series.ZeroFraction[k], histogram, deterministic,
                     column >= 0 ? expansion!.Variance(k, column) : double.NaN,
-                    column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN));
+                    column >= 0 && expansion!.HasMeanCorrection ? expansion.CorrectedMean(k, column) : double.NaN,
+                    IsExactLaw: exact));
             }
             // The switches are counted over the whole run [0, T]: they belong to the final grid time, when the run reached it.
             if (points.Count > 0 && points[^1].Time == grid.Until && switching.TryGetValue(series.Name, out var switches))

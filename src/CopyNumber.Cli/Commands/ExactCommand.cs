@@ -22,12 +22,13 @@ internal static class ExactCommand
         var maxStates = new Option<long?>("--max-states") { Description = "Largest projection allowed (default: what fits in half the available memory)." };
         var stationary = new Option<bool>("--stationary") { Description = "Also solve for the stationary law on the final projection (stationary.parquet)." };
         var threads = new Option<int>("--threads") { Description = "Threads for the sparse products (default: all cores).", DefaultValueFactory = _ => 0 };
+        var joint = new Option<string?>("--joint") { Description = "Two species, as A,B: also write their joint law at every grid time (joint.parquet)." };
         var output = new Option<string?>("--out") { Description = "Output folder (default: <model>-<start time> in the current folder)." };
         var force = new Option<bool>("--force") { Description = "Write into an existing, non-empty output folder." };
         var command = new Command("exact", "Solve the chemical master equation by finite state projection: every quantity's law at every grid time, with a bound on its error; write a run folder that 'contrast' reads.");
         command.Arguments.Add(model);
         grid.AddTo(command);
-        foreach (var option in new Option[] { tolerance, maxStates, stationary, threads, output, force }) command.Options.Add(option);
+        foreach (var option in new Option[] { tolerance, maxStates, stationary, threads, joint, output, force }) command.Options.Add(option);
         command.SetAction(parsed =>
         {
             var timeGrid = grid.Read(parsed);
@@ -40,7 +41,7 @@ internal static class ExactCommand
             var coding = StateCoding.For(network);
             var limit = parsed.GetValue(maxStates) ?? ExactOptions.DefaultMaxStates(coding.Dimension, network.Reactions.Count);
             if (limit < 1) throw new UserInputException($"--max-states must be at least 1 (got {limit})");
-            var options = new ExactOptions(epsilon, limit, threadCount);
+            var options = new ExactOptions(epsilon, limit, threadCount) { Joint = JointPair(parsed.GetValue(joint), network) };
             var arguments = new Dictionary<string, string>
             {
                 ["command"] = "exact",
@@ -50,6 +51,7 @@ internal static class ExactCommand
                 ["max_states"] = limit.ToString(CultureInfo.InvariantCulture),
                 ["stationary"] = parsed.GetValue(stationary) ? "true" : "false",
             };
+            if (parsed.GetValue(joint) is { } jointText) arguments["joint"] = jointText;
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
             using var claim = OutputFolder.Claim(parsed.GetValue(output), network.Name, DateTimeOffset.Now, parsed.GetValue(force), takeOver: false, "exact");
@@ -89,7 +91,7 @@ internal static class ExactCommand
             table.Add(cells.ToArray());
         }
         var text = table + $"finite state projection: {solution.States[^1]:N0} states at the end, largest bound {solution.Bound.Max():G3} "
-            + $"(of which time stepping at most {solution.SteppingError[^1]:G3}); uniformisation rate {solution.LargestRate:G4}, {solution.Products:N0} sparse products, {solution.WallTime.TotalSeconds:F2} s\n";
+            + $"(of which time stepping at most {solution.SteppingError[^1]:G3}); uniformisation rate {solution.LargestRate:G4}, {solution.Products:N0} sparse products ({solution.KrylovSteps:N0} Krylov steps, their error estimate {solution.KrylovError:G3}), {solution.WallTime.TotalSeconds:F2} s\n";
         if (outcome.Stationary is { } s)
         {
             text += "stationary law on the final projection: "
@@ -97,6 +99,21 @@ internal static class ExactCommand
                 + $"; relative residual {s.Residual:G3} after {s.Sweeps} sweeps, mass on the projection's boundary {s.BoundaryMass:G3}\n";
         }
         return text;
+    }
+
+    /// <summary>The species indices named by --joint A,B, or null when it was not given.</summary>
+    private static (int, int)? JointPair(string? text, CopyNumber.Network.ReactionNetwork network)
+    {
+        if (text is null) return null;
+        var names = text.Split(',', StringSplitOptions.TrimEntries);
+        if (names.Length != 2 || names[0] == names[1])
+            throw new UserInputException($"--joint takes two different species as A,B (got '{text}')");
+        int Index(string name)
+        {
+            for (var i = 0; i < network.Species.Count; i++) if (network.Species[i] == name) return i;
+            throw new UserInputException($"--joint: '{name}' is not a species of the model (species: {string.Join(", ", network.Species)})");
+        }
+        return (Index(names[0]), Index(names[1]));
     }
 
     private static string Invariant(double value) => value.ToString("R", CultureInfo.InvariantCulture);

@@ -24,12 +24,13 @@ internal static class SimulateCommand
         var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder; MODEL and every option may be left out (they take the stored values), options given must agree with the stored run; finished blocks are kept." };
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
+        var checkExact = new Option<bool?>("--check-exact") { Description = "Also solve the master equation on the grid and test the ensemble against the exact law (default: only when that solve is small; 'false' turns it off)." };
 
         var command = new Command("simulate", "Run an ensemble of stochastic replicates and summarise it on the time grid beside the rate equations.");
         command.Arguments.Add(model);
         grid.AddTo(command);
         ensemble.AddTo(command);
-        foreach (var option in new Option[] { output, force, resume, noContrast, takeOver })
+        foreach (var option in new Option[] { output, force, resume, noContrast, takeOver, checkExact })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
@@ -84,6 +85,9 @@ internal static class SimulateCommand
                     outcome = SimulationRun.Execute(request, monitor, session.Interrupt);
             }
             var code = Report(outcome, folder, writer, error);
+            // The exact check (issue 11): the master equation on the run's grid against the finished ensemble.
+            if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && parsed.GetValue(checkExact) is not false)
+                writer.Write(ExactCheck.Run(folder, loaded.Network, timeGrid, parsed.GetValue(checkExact) is true, specification.Threads, session.Interrupt).Describe());
             // A shard is only part of a run: its contrast waits for the merged folder.
             if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && !parsed.GetValue(noContrast))
             {

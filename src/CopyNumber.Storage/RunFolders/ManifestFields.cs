@@ -6,6 +6,15 @@ namespace CopyNumber.Storage;
 /// </summary>
 public static class ManifestFields
 {
+    /// <summary>Where the error bars of a folder's means come from; present in an exact folder (written by <c>exact</c>).</summary>
+    public const string ErrorKind = "error_kind";
+
+    /// <summary>The value of <see cref="ErrorKind"/> in an exact folder.</summary>
+    public const string ExactErrorKind = "exact: projection bound and time-stepping error";
+
+    /// <summary>The check of a finished ensemble against the exact law of the master equation (<c>simulate --check-exact</c>).</summary>
+    public const string ExactCheck = "exact_check";
+
     /// <summary>Replicates per block (int).</summary>
     public const string BlockSize = "block_size";
 

@@ -6,7 +6,8 @@ public static class RunFiles
     /// <summary>File names inside a run folder.</summary>
     public const string Moments = "moments.parquet", Distributions = "distributions.parquet",
         Deterministic = "deterministic.parquet", Paths = "paths.parquet", Manifest = "manifest.json",
-        ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet";
+        ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet",
+        Joint = "joint.parquet";
 
     /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files).</summary>
     public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
@@ -36,7 +37,7 @@ public static class RunFiles
     /// </summary>
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
-        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, ResumedPaths,
+        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths,
         Contrast, ReportMarkdown, ReportHtml, Claim, Lock,
     };
 

@@ -159,6 +159,11 @@ public sealed class StoredRun
             manifest.Arguments.TryGetValue(key, out var value) ? value : throw new RunFolderException($"The manifest of '{full}' records no '{key}' argument; it cannot be resumed or merged.", full);
         RunFolderException Bad(string what) => new($"The manifest of '{full}' is not valid: {what}.", full);
 
+        // An exact folder holds the master equation's laws, not replicates: there are no blocks to continue or to pool.
+        if (manifest.ExtraText(ManifestFields.ErrorKind) == ManifestFields.ExactErrorKind)
+            throw new RunFolderException($"'{full}' holds an exact solution of the master equation (written by 'copynumber exact'): it has no replicates, "
+                + "so there is nothing to resume or merge. Run 'exact' again with the settings you want, or 'simulate' for a sampled ensemble.", full);
+
         if (!int.TryParse(Field(ManifestFields.BlockSize), NumberStyles.None, CultureInfo.InvariantCulture, out var blockSize) || blockSize < 1) throw Bad("block_size is not a positive whole number");
         if (!long.TryParse(Field(ManifestFields.TotalBlocks), NumberStyles.None, CultureInfo.InvariantCulture, out var totalBlocks) || totalBlocks < 1) throw Bad("total_blocks is not a positive whole number");
         if (!Shard.TryParse(Argument(ManifestFields.ShardArgument), out var shard, out var shardProblem)) throw Bad(shardProblem);

@@ -19,6 +19,8 @@ namespace CopyNumber.Analysis;
 /// <param name="Minimum">The smallest value over the replicates, or NaN when unknown (the histogram's is used when there is one).</param>
 /// <param name="SwitchesPerReplicate">For a 0/1 quantity, the mean number of 0↔1 transitions per replicate from the first grid time
 /// to this one, counted at the events; NaN when unknown.</param>
+/// <param name="IsExactLaw">True when the point is an exact law (the master equation) rather than a sample: <paramref name="Replicates"/>
+/// is then a stand-in for "no sampling error" and verdict texts speak of probabilities, not of replicates.</param>
 public sealed record ContrastPoint(
     double Time,
     long Replicates,
@@ -31,7 +33,8 @@ public sealed record ContrastPoint(
     double LnaVariance = double.NaN,
     double CorrectedMean = double.NaN,
     double Minimum = double.NaN,
-    double SwitchesPerReplicate = double.NaN)
+    double SwitchesPerReplicate = double.NaN,
+    bool IsExactLaw = false)
 {
     /// <summary>A point from the ensemble statistics of a count quantity and its histogram.</summary>
     /// <param name="time">The grid time.</param>

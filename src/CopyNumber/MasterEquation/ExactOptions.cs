@@ -5,18 +5,26 @@ namespace CopyNumber.MasterEquation;
 /// time-stepping loss together); a tenth of it is given to the time stepping, the rest to the projection.</param>
 /// <param name="MaxStates">The largest projection allowed; the solve stops with a message beyond it.</param>
 /// <param name="Threads">Threads for the sparse products; 0 for all cores.</param>
-public sealed record ExactOptions(double Tolerance = 1e-6, long MaxStates = 10_000_000, int Threads = 0)
+/// <param name="Stepping">The time stepper: by <see cref="StepperRule"/> (default), or one of the two forced.</param>
+public sealed record ExactOptions(double Tolerance = 1e-6, long MaxStates = 10_000_000, int Threads = 0, Stepping Stepping = Stepping.Automatic)
 {
-    /// <summary>The share of <see cref="Tolerance"/> given to the time stepping (the Poisson tails of uniformisation).</summary>
+    /// <summary>Two species (indices into the network's species) whose joint law is recorded at every grid time, or null.</summary>
+    public (int First, int Second)? Joint { get; init; }
+
+    /// <summary>The most sparse products the solve may do before it stops with a message (unlimited by default).</summary>
+    public long MaxProducts { get; init; } = long.MaxValue;
+
+    /// <summary>The share of <see cref="Tolerance"/> given to the time stepping (the Poisson tails of uniformisation, the Krylov estimates).</summary>
     public const double SteppingShare = 0.1;
 
     /// <summary>
     /// Bytes one state costs in a solve of a network with <paramref name="dimension"/> stored coordinates and
     /// <paramref name="reactions"/> reactions: its coordinates and hash slots, the generator's entries (incoming
-    /// source and rate, and the build's scratch of a target and a rate per reaction), and eight vectors of doubles
-    /// (probability, the step's start, result, occupancy, two product vectors, diagonal and exit rates).
+    /// source and rate, and the build's scratch of a target and a rate per reaction), eight vectors of doubles
+    /// (probability, the step's start, result, occupancy, two product vectors, diagonal and exit rates) and the
+    /// Krylov basis (m + 2 vectors of doubles, <see cref="KrylovExponential.BasisSize"/>).
     /// </summary>
-    public static long BytesPerState(int dimension, int reactions) => 4L * dimension + 8 + reactions * (12L + 12L) + 8 * 8 + 16;
+    public static long BytesPerState(int dimension, int reactions) => 4L * dimension + 8 + reactions * (12L + 12L) + 8 * 8 + 16 + 8L * (KrylovExponential.BasisSize + 2);
 
     /// <summary>
     /// The default state limit: the states whose solve fits in half the memory this process may use

@@ -48,13 +48,19 @@ public sealed class ExactSolution
     public ExactLaw Law(int gridIndex, int quantity) => _laws[gridIndex, quantity];
 
     /// <summary>
-    /// Per grid time, 1 − Σp over the projection: since the projected, truncated solution lies below the true
-    /// law state by state (Munsky &amp; Khammash 2006, Theorem 2.2; uniformisation's terms are nonnegative), this
-    /// is exactly ‖p_true − p‖₁, a rigorous bound on the error of every probability and of every marginal.
+    /// Per grid time, a bound on ‖p_true − p‖₁, the error of every probability and of every marginal: 1 − Σp over the
+    /// projection, plus twice the Krylov steps' error estimates so far. With uniformisation alone the projected,
+    /// truncated solution lies below the true law state by state (Munsky &amp; Khammash 2006, Theorem 2.2;
+    /// uniformisation's terms are nonnegative), so 1 − Σp is exactly that error and rigorous; a Krylov step's
+    /// error e changes Σp by at most ‖e‖₁, hence the projection error 1 − Σp_projected ≤ 1 − Σp + ‖e‖₁ and the
+    /// total ≤ 1 − Σp + 2‖e‖₁, rigorous as far as the Krylov estimate of ‖e‖₁ holds.
     /// </summary>
     public IReadOnlyList<double> Bound { get; }
 
-    /// <summary>Per grid time, the sum of the Poisson tails cut so far: the part of <see cref="Bound"/> the time stepping may account for.</summary>
+    /// <summary>
+    /// Per grid time, the time-stepping error so far: the Poisson tails cut by uniformisation (rigorous) plus the
+    /// a-posteriori estimates of the Krylov steps (<see cref="KrylovError"/>, well established but not rigorous).
+    /// </summary>
     public IReadOnlyList<double> SteppingError { get; }
 
     /// <summary>States in the projection at each grid time.</summary>
@@ -68,6 +74,22 @@ public sealed class ExactSolution
 
     /// <summary>Stored coordinates per state (species less conservation laws).</summary>
     public int Dimension { get; }
+
+    /// <summary>
+    /// Per grid time, the joint law of the two species of <see cref="ExactOptions.Joint"/>: (first count, second count,
+    /// probability) with positive probability, ordered by first then second count, normalised on the projection
+    /// like the marginals; empty when no joint law was asked for.
+    /// </summary>
+    public IReadOnlyList<IReadOnlyList<(long First, long Second, double Probability)>> Joint { get; init; } = [];
+
+    /// <summary>Steps refused because too much probability left the projection (each redone after growing it).</summary>
+    public int RefusedSteps { get; init; }
+
+    /// <summary>Krylov steps taken (0 when uniformisation did all the stepping).</summary>
+    public int KrylovSteps { get; init; }
+
+    /// <summary>The sum of the Krylov steps' a-posteriori error estimates (1-norm), included in <see cref="SteppingError"/>.</summary>
+    public double KrylovError { get; init; }
 
     /// <summary>Wall-clock time of the solve.</summary>
     public TimeSpan WallTime { get; }

@@ -8,7 +8,8 @@ namespace CopyNumber.MasterEquation;
 /// <summary>
 /// Solves the chemical master equation dP/dt = A·P by finite state projection (Munsky &amp; Khammash 2006,
 /// J. Chem. Phys. 124:044104) with a projection that grows as the solution needs it, stepping in time by
-/// <see cref="Uniformisation"/>, and applying the schedule exactly at its times (see docs/methods.md).
+/// <see cref="Uniformisation"/> or <see cref="KrylovExponential"/> as <see cref="StepperRule"/> decides per
+/// stretch between grid times, and applying the schedule exactly at its times (see docs/methods.md).
 /// </summary>
 /// <remarks>
 /// <para>Growth rule. The projection starts as the initial state. A step [t, t+h] is accepted when the
@@ -19,7 +20,8 @@ namespace CopyNumber.MasterEquation;
 /// the reactions that left the projection: the r-th retry of a step adds 2^(r−1) rings of states
 /// reachable from there (N-step reachability, so a distribution that travels far in one step needs only
 /// a logarithmic number of retries). Growth follows reachability, so states the network cannot reach
-/// never enter, and conservation laws are respected without being imposed.</para>
+/// never enter, and conservation laws are respected without being imposed. Before each step the projection
+/// may grow ahead of it (see <see cref="PreGrow"/>), so that fewer steps are refused and redone.</para>
 /// <para>What is refused: a parameter change whose value differs between states with probability (it
 /// would make the parameter a random variable), a negative or non-finite propensity, a projection beyond
 /// <see cref="ExactOptions.MaxStates"/>.</para>
@@ -37,6 +39,15 @@ public sealed class FiniteStateProjection
     private StateSpace _space;
     private Generator? _generator;
     private Uniformisation? _propagator;
+    private readonly KrylovExponential _krylov;
+    private readonly StepperRule _rule;
+    private double _krylovStep = double.NaN;
+    private double _krylovError;
+    private int _krylovSteps;
+    private int _refusals;
+    private double[] _lastOccupancy = [];
+    private double _lastStep;
+    private int _preRings = 1;
     private double[] _p = [];
     private double _steppingError;
     private long _products;
@@ -54,6 +65,8 @@ public sealed class FiniteStateProjection
         _targetCounts = new long[network.Species.Count];
         _space = new StateSpace(StateCoding.For(network));
         _key = new int[_space.Dimension];
+        _krylov = new KrylovExponential(_parallel);
+        _rule = new StepperRule(options.Stepping);
     }
 
     /// <summary>Solves the master equation of <paramref name="network"/> on <paramref name="grid"/>.</summary>
@@ -95,6 +108,7 @@ public sealed class FiniteStateProjection
         var bound = new double[grid.Count];
         var stepping = new double[grid.Count];
         var states = new int[grid.Count];
+        var joint = new IReadOnlyList<(long, long, double)>[_options.Joint is null ? 0 : grid.Count];
         var timeline = Timeline.Of(_network, grid);
         var t = 0.0;
         foreach (var segment in timeline.Segments)
@@ -104,20 +118,27 @@ public sealed class FiniteStateProjection
             {
                 t = Advance(t, grid[k], grid.Until, cancel);
                 Record(k, quantities, laws);
-                bound[k] = Missing();
+                if (_options.Joint is { } pair) joint[k] = JointLaw(pair.First, pair.Second);
+                bound[k] = Bound();
                 stepping[k] = _steppingError;
                 states[k] = _space.Count;
             }
             if (segment.End > t) t = Advance(t, segment.End, grid.Until, cancel);
         }
-        return new ExactSolution(grid, quantities, laws, bound, stepping, states, _products, _largestRate, _space.Dimension, clock.Elapsed);
+        return new ExactSolution(grid, quantities, laws, bound, stepping, states, _products, _largestRate, _space.Dimension, clock.Elapsed)
+        {
+            KrylovSteps = _krylovSteps,
+            KrylovError = _krylovError,
+            RefusedSteps = _refusals,
+            Joint = joint,
+        };
     }
 
-    /// <summary>1 − Σp, clamped at 0 (the sum is computed with compensation, so round-off does not fake a bound).</summary>
-    private double Missing()
+    /// <summary>1 − Σp over <paramref name="p"/>, clamped at 0 (the sum is computed with compensation, so round-off does not fake a bound).</summary>
+    private static double MissingOf(double[] p)
     {
         double sum = 0, compensation = 0;
-        foreach (var x in _p)
+        foreach (var x in p)
         {
             var y = x - compensation;
             var s = sum + y;
@@ -127,37 +148,91 @@ public sealed class FiniteStateProjection
         return Math.Max(0, 1 - sum);
     }
 
+    /// <summary>
+    /// The reported bound on ‖p_true − p‖₁: 1 − Σp, plus twice the Krylov steps' error estimates (one for the
+    /// mass they may have added to Σp, one for their own error); with uniformisation only it is exactly 1 − Σp.
+    /// </summary>
+    private double Bound() => MissingOf(_p) + 2 * _krylovError;
+
     private double Advance(double t, double target, double until, CancellationToken cancel)
     {
         var epsilon = _options.Tolerance;
+        var errorPerTime = epsilon * ExactOptions.SteppingShare / until;
         var retries = 0;
+        if (!(t < target)) return t;
+        EnsureGenerator();
+        var krylov = _rule.UseKrylov(_propagator!.Rate, target - t);
         while (t < target)
         {
             cancel.ThrowIfCancellationRequested();
+            if (_products > _options.MaxProducts)
+                throw new MasterEquationException($"the solve needs more than {_options.MaxProducts:N0} sparse products (its limit) to reach t = {target:G6}");
             EnsureGenerator();
-            var propagator = _propagator!;
-            var h = Math.Min(target - t, propagator.LongestStep);
+            double Longest()
+            {
+                var longest = krylov ? (double.IsNaN(_krylovStep) ? double.PositiveInfinity : _krylovStep) : _propagator!.LongestStep;
+                // A Krylov step that would leave a sliver (under a tenth of a step) before the target takes the sliver too.
+                return krylov && target - t <= 1.1 * longest ? target - t : Math.Min(target - t, longest);
+            }
+            var h = Longest();
+            // Grow before stepping where the current support already sends out more than half the step's allowance.
+            if (retries == 0 && PreGrow(h, epsilon * (t + h) / until - Bound()))
+            {
+                EnsureGenerator();
+                h = Longest();
+            }
             var end = target - (t + h) <= 1e-12 * Math.Max(1, target) ? target : t + h;
             h = end - t;
             var result = new double[_space.Count];
             var occupancy = new double[_space.Count];
-            var productsBefore = propagator.Products;
-            var tail = propagator.Advance(_p, h, epsilon * ExactOptions.SteppingShare * h / until, result, occupancy);
-            _products += propagator.Products - productsBefore;
-            var allowance = epsilon * end / until;
-            var previous = _p;
-            _p = result;
-            var missing = Missing();
-            if (missing <= allowance)
+            double error;
+            double krylovWork = 0;
+            var next = _krylovStep;
+            if (krylov)
             {
-                _steppingError += tail;
+                var (productsBefore, passesBefore) = (_krylov.Products, _krylov.VectorPasses);
+                (var taken, error, next) = _krylov.Step(_generator!, _p, h, _krylovStep, errorPerTime, result);
+                if (taken < h) { end = t + taken; h = taken; }
+                _products += _krylov.Products - productsBefore;
+                krylovWork = _krylov.Products - productsBefore + (_krylov.VectorPasses - passesBefore) / StepperRule.PassesPerProduct;
+                for (var i = 0; i < result.Length; i++)
+                {
+                    // Clearing a negative entry moves it toward the nonnegative projected solution, so no error is added.
+                    if (result[i] < 0) result[i] = 0;
+                    occupancy[i] = 0.5 * h * (_p[i] + result[i]);
+                }
+            }
+            else
+            {
+                var productsBefore = _propagator.Products;
+                error = _propagator.Advance(_p, h, errorPerTime * h, result, occupancy);
+                _products += _propagator.Products - productsBefore;
+            }
+            var allowance = epsilon * end / until;
+            if (MissingOf(result) + 2 * (_krylovError + (krylov ? error : 0)) <= allowance)
+            {
+                _p = result;
+                _lastOccupancy = occupancy;
+                _lastStep = h;
+                // The rings the last refused try of this step needed are grown ahead of the next step; they shrink again when not needed.
+                _preRings = retries > 0 ? Math.Max(_preRings, 1 << Math.Min(retries - 1, 20)) : Math.Max(1, _preRings / 2);
+                _steppingError += error;
+                if (krylov)
+                {
+                    _rule.RecordKrylov(krylovWork, h);
+                    _krylovError += error;
+                    _krylovSteps++;
+                    _krylovStep = next;
+                }
                 t = end;
                 retries = 0;
                 continue;
             }
-            _p = previous;
+            if (krylov) _krylovStep = h;
             retries++;
-            Grow(occupancy, allowance - Missing(), rings: 1 << Math.Min(retries - 1, 20));
+            _refusals++;
+            if (!Grow(occupancy, allowance - Bound(), rings: 1 << Math.Min(retries - 1, 20)))
+                throw new MasterEquationException("the projection cannot grow although probability leaves it; the network's reachable states are all included, so this is a round-off failure of the tolerance — ask for a larger --tolerance");
         }
         return t;
     }
@@ -170,8 +245,30 @@ public sealed class FiniteStateProjection
         _largestRate = Math.Max(_largestRate, _propagator.Rate);
     }
 
-    /// <summary>Grows the projection from the states that leaked most over the refused step (see the type's remarks).</summary>
-    private void Grow(double[] occupancy, double stepAllowance, int rings)
+    /// <summary>
+    /// Grows before a step of length <paramref name="h"/> when the support is expected to send out more than half
+    /// of <paramref name="stepAllowance"/>: each state's expected time-integrated probability over the step is the
+    /// larger of p·h (the current support) and the previous accepted step's occupancy per unit time times h (where
+    /// probability has been flowing); the leak rates times these are the expected outflow. True when states were added.
+    /// </summary>
+    private bool PreGrow(double h, double stepAllowance)
+    {
+        var generator = _generator!;
+        if (double.IsInfinity(h)) return false;
+        var occupancy = new double[generator.States];
+        var outflow = 0.0;
+        var rate = _lastStep > 0 ? h / _lastStep : 0;
+        for (var i = 0; i < occupancy.Length; i++)
+        {
+            occupancy[i] = Math.Max(_p[i] * h, i < _lastOccupancy.Length ? _lastOccupancy[i] * rate : 0);
+            outflow += generator.Leak[i] * occupancy[i];
+        }
+        if (!(outflow > 0.5 * Math.Max(0, stepAllowance))) return false;
+        return Grow(occupancy, stepAllowance, rings: _preRings);
+    }
+
+    /// <summary>Grows the projection from the states that leaked most over a step (see the type's remarks); true when states were added.</summary>
+    private bool Grow(double[] occupancy, double stepAllowance, int rings)
     {
         var generator = _generator!;
         var leaked = new List<(int State, double Mass)>();
@@ -201,11 +298,11 @@ public sealed class FiniteStateProjection
             foreach (var state in frontier) AddSuccessors(state, next, onlyLeaking: ring == 0 ? generator.LeakReactions[state] : -1);
             (frontier, next) = (next, frontier);
         }
-        if (_space.Count == before)
-            throw new MasterEquationException("the projection cannot grow although probability leaves it; the network's reachable states are all included, so this is a round-off failure of the tolerance — ask for a larger --tolerance");
+        if (_space.Count == before) return false;
         var grown = new double[_space.Count];
         Array.Copy(_p, grown, _p.Length);
         _p = grown;
+        return true;
     }
 
     /// <summary>Adds the states one firing away from <paramref name="state"/> (for reactions in the bit mask <paramref name="onlyLeaking"/>) to the space and to <paramref name="added"/> when new.</summary>
@@ -233,6 +330,7 @@ public sealed class FiniteStateProjection
     /// <summary>Applies one scheduled change to the whole distribution at its time.</summary>
     private void Apply(ScheduledChange change)
     {
+        _lastOccupancy = []; // where probability flowed before the change says nothing about after it
         if (change.Target == ScheduleTarget.Parameter)
         {
             double? value = null;
@@ -277,6 +375,22 @@ public sealed class FiniteStateProjection
         _generator = null;
     }
 
+    /// <summary>The joint law of species <paramref name="first"/> and <paramref name="second"/> on the projection, normalised.</summary>
+    private (long, long, double)[] JointLaw(int first, int second)
+    {
+        var law = new Dictionary<(long, long), double>();
+        var total = 0.0;
+        for (var i = 0; i < _space.Count; i++)
+        {
+            if (!(_p[i] > 0)) continue;
+            _space.Counts(i, _counts);
+            var key = (_counts[first], _counts[second]);
+            law[key] = law.GetValueOrDefault(key) + _p[i];
+            total += _p[i];
+        }
+        return law.OrderBy(e => e.Key.Item1).ThenBy(e => e.Key.Item2).Select(e => (e.Key.Item1, e.Key.Item2, e.Value / total)).ToArray();
+    }
+
     /// <summary>Marginals of the count quantities and moments of the real readouts at grid point <paramref name="k"/>.</summary>
     private void Record(int k, IReadOnlyList<Quantity> quantities, ExactLaw[,] laws)
     {
@@ -307,7 +421,7 @@ public sealed class FiniteStateProjection
             }
             total += _p[i];
         }
-        var missing = Missing();
+        var missing = Bound();
         for (var q = 0; q < quantities.Count; q++)
         {
             var errorBar = missing * largest[q];

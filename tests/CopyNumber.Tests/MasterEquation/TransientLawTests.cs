@@ -37,6 +37,50 @@ public sealed class TransientLawTests
     }
 
     /// <summary>
+    /// The same Poisson law (Bailey 1964, quoted from memory) with every step taken by the Krylov exponential
+    /// (Sidje 1998): the reported bound (1 − Σp plus twice the Krylov estimates) still covers the true error, and
+    /// the Krylov estimates stay within the stepping share of the tolerance.
+    /// </summary>
+    [Fact]
+    public void KrylovSteppingGivesThePoissonLawWithinTheReportedBound()
+    {
+        const double k = 20, mu = 0.5, tolerance = 1e-8;
+        var grid = new TimeGrid(until: 10, every: 2.5);
+        var solution = FiniteStateProjection.Solve(ExactModels.ImmigrationDeath(k, mu), grid, new ExactOptions(tolerance, Stepping: Stepping.Krylov));
+        Assert.True(solution.KrylovSteps > 0);
+        Assert.True(solution.KrylovError <= ExactOptions.SteppingShare * tolerance, $"Krylov estimates {solution.KrylovError:G3}");
+        for (var g = 0; g < grid.Count; g++)
+        {
+            var mean = k / mu * (1 - Math.Exp(-mu * grid[g]));
+            var error = TrueError(solution, g, 0, x => ExactModels.Poisson(mean, x), upTo: 200);
+            Assert.True(error <= solution.Bound[g] + RoundOff, $"t = {grid[g]}: true error {error:G3} above the bound {solution.Bound[g]:G3}");
+            Assert.True(solution.Bound[g] <= tolerance, $"t = {grid[g]}: bound {solution.Bound[g]:G3}");
+        }
+    }
+
+    /// <summary>
+    /// The joint law of two species that share no reaction: two immigration–death processes from 0 are
+    /// independent, so their joint law is the product of two Poisson laws with means (k/μ)(1 − e^{−μt})
+    /// (Bailey 1964, quoted from memory; independence is common practice for reactions sharing no species).
+    /// </summary>
+    [Fact]
+    public void TheJointLawOfIndependentSpeciesIsTheProductOfTheirPoissonLaws()
+    {
+        var network = ExactModels.Load("species\n  X = 0\n  Y = 0\nreactions\n  bx: 0 -> X mass 4\n  dx: X -> 0 mass 1\n  by: 0 -> Y mass 2\n  dy: Y -> 0 mass 0.5\n");
+        var grid = new TimeGrid(until: 3, every: 1.5);
+        var solution = FiniteStateProjection.Solve(network, grid, new ExactOptions(1e-9) { Joint = (0, 1) });
+        Assert.Equal(grid.Count, solution.Joint.Count);
+        for (var g = 1; g < grid.Count; g++)
+        {
+            var mx = 4 * (1 - Math.Exp(-grid[g]));
+            var my = 4 * (1 - Math.Exp(-0.5 * grid[g]));
+            var error = solution.Joint[g].Sum(e => Math.Abs(e.Probability - ExactModels.Poisson(mx, e.First) * ExactModels.Poisson(my, e.Second)));
+            Assert.True(error < 1e-7, $"t = {grid[g]}: joint law off by {error:G3} in total over its support");
+            Assert.Equal(1, solution.Joint[g].Sum(e => e.Probability), 1e-12);
+        }
+    }
+
+    /// <summary>
     /// Isomerisation A ⇄ B from A = n: B(t) is binomial(n, q(t)) with q(t) = c1/(c1+c2)·(1 − e^{−(c1+c2)t})
     /// (common practice: each molecule is an independent two-state chain; Jahnke &amp; Huisinga 2007, J. Math. Biol. 54:1).
     /// A + B = n is a conservation law, so only one coordinate is stored.

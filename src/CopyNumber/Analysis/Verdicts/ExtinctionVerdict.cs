@@ -22,11 +22,17 @@ internal static class ExtinctionVerdict
         if (zeros == 0) return null;
         var tail = 1 - new Binomial(t.ExtinctionProbability, (int)Math.Min(n, int.MaxValue)).CumulativeDistribution(zeros - 1);
         if (!(tail <= t.FalseAlarmRate)) return null;
+        var floor = $"with the rate equations at ≥ {Number(t.ExtinctionFloor)} {(t.ExtinctionFloor == 1 ? "copy" : "copies")}";
+        // An exact law has no replicates: its P(0) is a probability with the projection's error bar, not a count of zeros.
+        if (last.IsExactLaw)
+            return new QuantityVerdict(e.Quantity, VerdictKind.ExtinctionProne,
+                $"P(0) = {Number(last.ProbabilityOfZero)} in the exact law (master equation, no sampling error) at the final time t = {Time(last.Time)} "
+                + $"while the rate equations hold {Number(last.RateEquationValue)} copies; threshold P(0) > {Number(t.ExtinctionProbability)}, {floor}");
         var lower = Beta.InvCDF(zeros, n - zeros + 1, t.FalseAlarmRate);
         return new QuantityVerdict(e.Quantity, VerdictKind.ExtinctionProne,
             $"P(0) = {Number(last.ProbabilityOfZero, 1.0 / n)} ({zeros} of {n} replicates at 0; lower {Level(1 - t.FalseAlarmRate)} confidence bound {Number(lower)}) at the final time t = {Time(last.Time)} "
             + $"while the rate equations hold {Number(last.RateEquationValue)} copies; "
             + $"threshold P(0) > {Number(t.ExtinctionProbability)} by an exact binomial test at false-alarm rate {Percent(t.FalseAlarmRate)}, "
-            + $"with the rate equations at ≥ {Number(t.ExtinctionFloor)} {(t.ExtinctionFloor == 1 ? "copy" : "copies")}");
+            + floor);
     }
 }

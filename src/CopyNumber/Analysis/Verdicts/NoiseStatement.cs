@@ -36,6 +36,8 @@ internal static class NoiseStatement
         var low = ones == 0 ? 0 : Beta.InvCDF(ones, n - ones + 1, t.FalseAlarmRate / 2);
         var high = ones == n ? 1 : Beta.InvCDF(ones + 1, n - ones, 1 - t.FalseAlarmRate / 2);
         var deterministic = double.IsFinite(p.RateEquationValue) ? $", {Number(p.RateEquationValue)} by the rate equations" : "";
+        if (p.IsExactLaw)
+            return $"occupancy (probability of 1 in the exact law, no sampling error) {Number(p.Mean)} at the final time t = {Time(p.Time)}{deterministic}";
         return $"occupancy (fraction of replicates at 1) {Number(p.Mean, 1.0 / n)} at the final time t = {Time(p.Time)} ({Level(level)} interval {Number(low)} to {Number(high)}){deterministic}";
     }
 
