@@ -232,21 +232,6 @@ public sealed class SecondEditionCompilationTests
         Assert.Equal(1, trigger.OnState([10, 30.5], [0.001, 0.01]));
     }
 
-    [Theory]
-    [InlineData(SimulationMethod.Direct)]
-    [InlineData(SimulationMethod.NextReaction)]
-    [InlineData(SimulationMethod.CompositionRejection)]
-    [InlineData(SimulationMethod.TauLeap)]
-    public void Every_simulator_refuses_a_model_with_a_trigger_naming_its_line(SimulationMethod method)
-    {
-        var network = AnalysisModels.Compile(Triggered);
-        var refusal = Assert.Throws<UnsupportedModelException>(() => SimulatorFactory.Create(method, network, new SimulatorOptions()));
-        var problem = Assert.Single(refusal.Problems);
-        Assert.Equal((10, 3), (problem.Position.Line, problem.Position.Column));
-        Assert.Contains("state-triggered changes are not supported yet", problem.Message);
-        Assert.Contains("whenever P2 > 30 and not P < 10", problem.Message);
-    }
-
     [Fact]
     public void The_rate_equations_and_the_expansions_refuse_a_model_with_a_trigger()
     {

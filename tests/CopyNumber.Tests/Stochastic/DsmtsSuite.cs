@@ -18,19 +18,12 @@ namespace CopyNumber.Tests.Stochastic;
 /// then checked to be the constant 0 (<see cref="Expected.ConstantColumns"/>). Species used "as
 /// concentrations" in a compartment of volume 2 (00011), or rates multiplied by a volume of 0.5 (00018),
 /// halve the propensities. The assignment rule y = 2X (00019) is an integer readout.
-/// Skipped: 00033, whose reset is triggered by a count (P2 &gt; 30); it needs state-triggered events,
-/// which the language does not have yet (a later issue). Every other case 00001–00039 is encoded.
+/// 00033's reset is triggered by a count (P2 &gt; 30): a <c>whenever</c> line. Every case 00001–00039 is encoded.
 /// </remarks>
 internal static class DsmtsSuite
 {
     /// <summary>Case number → the model in our language.</summary>
     public static readonly IReadOnlyDictionary<int, string> Models = BuildModels();
-
-    /// <summary>Cases left out, with the reason.</summary>
-    public static readonly IReadOnlyDictionary<int, string> Skipped = new Dictionary<int, string>
-    {
-        [33] = "its reset is triggered by a count (P2 > 30): state-triggered events are a later issue",
-    };
 
     private static Dictionary<int, string> BuildModels()
     {
@@ -66,6 +59,8 @@ internal static class DsmtsSuite
         models[30] = Dimerisation(100, 0.001, 0.01);
         models[31] = Dimerisation(1000, 0.0002, 0.004);
         models[32] = Dimerisation(100, 0.001, 0.01, schedule: "changes\n  P = 100, P2 = 0  at time 25\n");
+        // 00033 (dsmts-003-04): 00032's reset triggered by the count, P2 > 30, instead of the time.
+        models[33] = Dimerisation(100, 0.001, 0.01, schedule: "changes\n  P = 100, P2 = 0  whenever P2 > 30\n");
         models[34] = Reduced("0.5 * 0.001 * (100 - 2 * P2) * (99 - 2 * P2)");
         models[35] = Reduced("(0.001 * (100 - 2 * P2) * (100 - 2 * P2 - 1)) / 2");
         models[36] = Reduced("(0.001 * (100 - 2 * P2) * ((100 - 2 * P2) - 1)) / 2");
