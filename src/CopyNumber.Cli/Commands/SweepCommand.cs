@@ -46,7 +46,7 @@ internal static class SweepCommand
             var modelPath = parsed.GetValue(model)!;
             var baseModel = ModelArgument.Load(modelPath);
             ModelSupport.RequireSimulation(baseModel.Network); // before anything is written
-            ModelSupport.RequireDeterministic(baseModel.Network); // the contrast needs the rate equations too
+            ModelSupport.RequireRateEquations(baseModel.Network); // the contrast needs the rate equations too
             // One seed for every size, drawn once when not given.
             var baseSpecification = ensemble.Bind(parsed, baseModel, timeGrid, stored: null, "sweep");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);

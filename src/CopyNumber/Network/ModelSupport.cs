@@ -36,11 +36,15 @@ public static class ModelSupport
     public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network) =>
         [.. TriggerProblems(network), .. SimulationProblems(network)];
 
-    /// <summary>Why the rate equations and the expansions cannot integrate <paramref name="network"/>; empty when they can.</summary>
-    public static IReadOnlyList<Diagnostic> DeterministicProblems(ReactionNetwork network)
+    /// <summary>
+    /// Why the rate equations, the linear noise approximation and the corrected mean cannot integrate
+    /// <paramref name="network"/>; empty when they can. The rate equations carry out state-triggered
+    /// changes; the expansions stop at the first one and say so (<c>SystemSizeExpansionSolution.StoppedAt</c>).
+    /// </summary>
+    public static IReadOnlyList<Diagnostic> RateEquationProblems(ReactionNetwork network)
     {
         ArgumentNullException.ThrowIfNull(network);
-        return TriggerProblems(network);
+        return [];
     }
 
     /// <summary>Throws <see cref="UnsupportedModelException"/> when the stochastic simulators cannot run <paramref name="network"/>.</summary>
@@ -50,7 +54,7 @@ public static class ModelSupport
     public static void RequireStochastic(ReactionNetwork network) => Require(StochasticProblems(network));
 
     /// <summary>Throws <see cref="UnsupportedModelException"/> when the rate equations cannot integrate <paramref name="network"/>.</summary>
-    public static void RequireDeterministic(ReactionNetwork network) => Require(DeterministicProblems(network));
+    public static void RequireRateEquations(ReactionNetwork network) => Require(RateEquationProblems(network));
 
     private static void Require(IReadOnlyList<Diagnostic> problems)
     {

@@ -32,4 +32,13 @@ public sealed record StateTrigger(
     /// after an event that changes one of these.
     /// </summary>
     public IReadOnlyList<int>? SpeciesRead { get; init; }
+
+    /// <summary>
+    /// Rounds of triggered changes one instant may take (each round's changes turning further conditions
+    /// true) before a method stops the run as an endless cascade; the same in every method.
+    /// </summary>
+    public const int MaxRounds = 1000;
+
+    /// <summary>Whether a condition's value means it holds: neither 0 nor NaN. The one rule, for every method.</summary>
+    public static bool Holds(double value) => value != 0.0 && !double.IsNaN(value);
 }

@@ -102,13 +102,13 @@ internal sealed class TriggerLeapGuard
         {
             var read = _read[t];
             if (read.Length > MaxCornerSpecies) return true;
-            var now = TriggerWatch.IsTrue(_triggers[t].OnCounts(counts, parameters));
+            var now = StateTrigger.Holds(_triggers[t].OnCounts(counts, parameters));
             Array.Copy(counts, _corner, counts.Length);
             for (var corner = 0; corner < 1 << read.Length; corner++)
             {
                 for (var r = 0; r < read.Length; r++)
                     _corner[read[r]] = (corner >> r & 1) == 0 ? _low[read[r]] : _high[read[r]];
-                if (TriggerWatch.IsTrue(_triggers[t].OnCounts(_corner, parameters)) != now) return true;
+                if (StateTrigger.Holds(_triggers[t].OnCounts(_corner, parameters)) != now) return true;
             }
         }
         return false;

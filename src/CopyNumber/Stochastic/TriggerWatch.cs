@@ -19,13 +19,10 @@ namespace CopyNumber.Stochastic;
 ///   that time, in file order, each assignment seeing the result of the one before (every such trigger
 ///   applies, even when an earlier one made its condition false again: SBML's persistent events); then
 ///   every condition is evaluated again and those that turned true form the next round, up to
-///   <see cref="MaxRounds"/> rounds, beyond which the run stops with a message.
+///   <see cref="StateTrigger.MaxRounds"/> rounds, beyond which the run stops with a message.
 /// </remarks>
 internal sealed class TriggerWatch
 {
-    /// <summary>Rounds of triggered changes one instant may take before the run is stopped as endless.</summary>
-    public const int MaxRounds = 1000;
-
     private readonly StateTrigger[] _triggers;
     private readonly int[] _watchStart;   // reaction j's triggers to evaluate: _watched[_watchStart[j] .. _watchStart[j+1]−1]
     private readonly int[] _watched;
@@ -108,7 +105,7 @@ internal sealed class TriggerWatch
             {
                 if (!_pending[t]) continue;
                 _pending[t] = false;
-                if (round > MaxRounds) throw SimulationFailureException.TriggersCascade(_triggers[t], time, MaxRounds);
+                if (round > StateTrigger.MaxRounds) throw SimulationFailureException.TriggersCascade(_triggers[t], time, StateTrigger.MaxRounds);
                 foreach (var assignment in _triggers[t].Assignments)
                     parametersChanged |= ScheduleCursor.Apply(assignment, state, time);
             }
@@ -133,10 +130,7 @@ internal sealed class TriggerWatch
         _holds[t] = now;
     }
 
-    private bool Holds(int t, SimulatorState state) => IsTrue(_triggers[t].OnCounts(state.Counts, state.Parameters));
-
-    /// <summary>A condition holds when its value is neither 0 nor NaN.</summary>
-    public static bool IsTrue(double value) => value != 0.0 && !double.IsNaN(value);
+    private bool Holds(int t, SimulatorState state) => StateTrigger.Holds(_triggers[t].OnCounts(state.Counts, state.Parameters));
 
     private static bool Reads(StateTrigger trigger, ReadOnlySpan<int> changed)
     {
