@@ -28,6 +28,7 @@ public static class ContrastReport
         };
         if (contrast.ExpansionFailure is not null)
             cautions.Add($"The linear noise approximation could not be computed ({contrast.ExpansionFailure}); its bands and variance ratios are missing.");
+        if (contrast.ExpansionStop is { } stop) cautions.Add(stop);
 
         var verdictRows = contrast.Quantities
             .SelectMany(q => q.Verdicts.Select(v => (IReadOnlyList<string>)[q.Name, v.Label, v.Sentence]))

@@ -72,8 +72,9 @@ public static class ExactCheck
             }
             outcome = new ExactCheckOutcome(EnsembleAgreementTest.Compare(exact, Histogram), null, asked);
         }
-        catch (MasterEquationException e)
+        catch (Exception e) when (e is MasterEquationException or UnsupportedModelException)
         {
+            // A model the master equation cannot take (too large, state-triggered changes): no check, and the run stands.
             outcome = new ExactCheckOutcome(null, e.Message, asked);
         }
         if (outcome.Agreement is null && !asked) return outcome;

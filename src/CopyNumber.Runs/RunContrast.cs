@@ -22,6 +22,15 @@ public sealed record RunContrastResult(
 {
     /// <summary>Where the error bars of the means come from: the sampling error of an ensemble, or an exact run's bounds.</summary>
     public string ErrorSource { get; init; } = RunContrast.SamplingErrorSource;
+
+    /// <summary>
+    /// When the expansion stopped at a state-triggered change, the sentence saying so and that the
+    /// verdicts cover only the times before it; null otherwise.
+    /// </summary>
+    public string? ExpansionStop => Expansion is { StoppedBy: { } trigger } expansion
+        ? $"The linear noise approximation and the corrected mean stop at the first state-triggered change ('{trigger.Text}', line {trigger.Position.Line}) " +
+          $"at t = {expansion.StoppedAt.ToString("G6", CultureInfo.InvariantCulture)}: the verdicts cover only the grid times before it."
+        : null;
 }
 
 /// <summary>
@@ -83,6 +92,9 @@ public static class RunContrast
             for (var k = 0; k < run.Times.Length; k++)
             {
                 if (!exact && series.Replicates[k] < 1) break; // replicates stopped early leave later times empty
+                // Verdicts only before the first triggered change; a grid time that coincides with it (Timeline's rule)
+                // is excluded too, since whether the rate equations hold the value before or after the change there is a convention.
+                if (expansion is not null && run.Times[k] >= expansion.StoppedAt - Timeline.CoincidenceTolerance * grid.Every) break;
                 var replicates = exact ? ExactReplicates : series.Replicates[k];
                 var (counts, probabilities) = run.Distribution(series.Name, k);
                 var histogram = counts.Length > 0 ? CountDistribution.FromProbabilities(counts, probabilities, exact ? double.PositiveInfinity : replicates) : null;

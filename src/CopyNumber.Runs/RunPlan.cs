@@ -34,7 +34,8 @@ public sealed record RunPlan(
     {
         ArgumentNullException.ThrowIfNull(specification);
         var network = specification.Model.Network;
-        ModelSupport.RequireStochastic(network); // a model the simulators cannot carry out is refused before anything is written
+        ModelSupport.RequireSimulation(network); // a model the simulators cannot carry out is refused before anything is written
+        ModelSupport.RequireRateEquations(network); // the contrast needs the rate equations too
         // Sized before anything is solved, so an impossible run is refused at once.
         var sized = specification.EnsembleOptions(SimulationMethod.Direct);
         var memory = EnsembleMemory.For(network, sized);

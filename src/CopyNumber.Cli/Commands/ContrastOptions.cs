@@ -81,6 +81,6 @@ internal sealed class ContrastOptions
         foreach (var q in contrast.Quantities)
             foreach (var v in q.Verdicts)
                 table.Add(q.Name, v.Label, v.Sentence);
-        return table + $"error bars: {contrast.ErrorSource}\n" + Contrast.Caution + "\n";
+        return table + $"error bars: {contrast.ErrorSource}\n" + (contrast.ExpansionStop is { } stop ? stop + "\n" : "") + Contrast.Caution + "\n";
     }
 }

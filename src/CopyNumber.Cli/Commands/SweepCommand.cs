@@ -45,7 +45,8 @@ internal static class SweepCommand
             var thresholds = contrastOptions.Thresholds(parsed);
             var modelPath = parsed.GetValue(model)!;
             var baseModel = ModelArgument.Load(modelPath);
-            ModelSupport.RequireStochastic(baseModel.Network); // before anything is written
+            ModelSupport.RequireSimulation(baseModel.Network); // before anything is written
+            ModelSupport.RequireRateEquations(baseModel.Network); // the contrast needs the rate equations too
             // One seed for every size, drawn once when not given.
             var baseSpecification = ensemble.Bind(parsed, baseModel, timeGrid, stored: null, "sweep");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);

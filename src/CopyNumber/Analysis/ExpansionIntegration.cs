@@ -11,6 +11,9 @@ namespace CopyNumber.Analysis;
 /// the fluctuations are mapped linearly: ξ ↦ M·ξ with M the identity except row i, which is ∇f (set),
 /// e_i + ∇f (add) or e_i − ∇f (subtract); so C ↦ M·C·Mᵀ and δ ↦ M·δ. Adding or subtracting a constant
 /// leaves C unchanged (a deterministic jump); setting a species to a constant zeroes its row and column.
+/// A state-triggered change has no such rule here (its time depends on the fluctuations the expansion
+/// describes): the integration stops at the first one, located on the dense output as for the rate
+/// equations, and the solution says so (<see cref="SystemSizeExpansionSolution.StoppedAt"/>).
 /// </summary>
 internal static class ExpansionIntegration
 {
@@ -20,7 +23,7 @@ internal static class ExpansionIntegration
         ArgumentNullException.ThrowIfNull(grid);
         ArgumentNullException.ThrowIfNull(options);
         if (options.Check() is { } problem) throw new ArgumentException(problem, nameof(options));
-        ModelSupport.RequireDeterministic(network);
+        ModelSupport.RequireRateEquations(network);
 
         var system = new ExpansionSystem(network, withMeanCorrection);
         var s = system.SpeciesCount;
@@ -63,10 +66,20 @@ internal static class ExpansionIntegration
         }
 
         var run = new OdeRun(system, options);
-        TimelineIntegration.Run(run, Timeline.Of(network, grid), y, change => Apply(change, y, system), Record);
+        var triggers = new RealStateTriggers(network, system.ParameterArray, (change, _) => Apply(change, y, system));
+        var stoppedAt = TimelineIntegration.Run(run, Timeline.Of(network, grid), y, change => Apply(change, y, system), Record, triggers, stopAtTrigger: true);
+        var stoppedBy = double.IsFinite(stoppedAt) ? triggers.FirstTurningTrue(y) : null;
+        // Grid times from the stop on are not integrated: NaN, so no value is mistaken for a solution.
+        for (var point = 0; point < grid.Count; point++)
+        {
+            if (states[point] is not null) continue;
+            states[point] = Enumerable.Repeat(double.NaN, system.Dimension).ToArray();
+            for (var c = 0; c < columns.Length; c++) rateEquations[point, c] = variances[point, c] = corrected[point, c] = double.NaN;
+        }
 
         return new SystemSizeExpansionSolution(grid, columns, s, states, system.CorrectionOffset,
-            rateEquations, variances, corrected, withMeanCorrection, run.Statistics);
+            rateEquations, variances, corrected, withMeanCorrection, run.Statistics)
+        { StoppedAt = stoppedAt, StoppedBy = stoppedBy };
     }
 
     private static double QuadraticForm(double[] g, double[,] c)

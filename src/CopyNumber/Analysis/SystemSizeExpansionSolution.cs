@@ -31,6 +31,16 @@ public sealed class SystemSizeExpansionSolution
         Statistics = statistics;
     }
 
+    /// <summary>
+    /// The time of the first state-triggered change, where the expansion stops (its fluctuations would
+    /// cross the jump by no rule of theirs); +∞ when it covers the whole grid. Every value at a grid time
+    /// at or after it is NaN.
+    /// </summary>
+    public double StoppedAt { get; init; } = double.PositiveInfinity;
+
+    /// <summary>The change line that stopped the expansion (<see cref="StoppedAt"/>), or null.</summary>
+    public StateTrigger? StoppedBy { get; init; }
+
     /// <summary>The recording times.</summary>
     public TimeGrid Grid { get; }
 

@@ -45,11 +45,24 @@ internal sealed class OdeRun
     /// Integrates from (<paramref name="t0"/>, <paramref name="y"/>) to <paramref name="tEnd"/>, leaving the state at
     /// <paramref name="tEnd"/> in <paramref name="y"/>. <paramref name="outputTimes"/> must be sorted and lie in [t0, tEnd].
     /// </summary>
-    public void Advance(double t0, double[] y, double tEnd, ReadOnlySpan<double> outputTimes, OutputSink sink)
+    /// <param name="t0">Start time.</param>
+    /// <param name="y">The state at <paramref name="t0"/>; on return the state at the time reached.</param>
+    /// <param name="tEnd">End time.</param>
+    /// <param name="outputTimes">Times to serve to <paramref name="sink"/>, sorted, in [t0, tEnd].</param>
+    /// <param name="sink">Receives the solution at each output time.</param>
+    /// <param name="turnsTrue">
+    /// Optional: whether a state makes a state-triggered change's condition turn true. After each accepted
+    /// step whose end state does, the crossing is located by bisection on the step's dense output, down to
+    /// round-off in t (so the time's error is the interpolant's, of the order of the tolerances); the
+    /// integration stops there, with the state at the crossing in <paramref name="y"/> and only the output
+    /// times before it served.
+    /// </param>
+    /// <returns>The time reached: <paramref name="tEnd"/>, or the crossing's time.</returns>
+    public double Advance(double t0, double[] y, double tEnd, ReadOnlySpan<double> outputTimes, OutputSink sink, Func<double[], bool>? turnsTrue = null)
     {
         var next = 0;
         for (; next < outputTimes.Length && outputTimes[next] <= t0; next++) sink(next, outputTimes[next], y);
-        if (!(tEnd > t0)) return;
+        if (!(tEnd > t0)) return t0;
 
         _system.Derivative(t0, y, _slope);
         Statistics.FunctionEvaluations++;
@@ -63,7 +76,7 @@ internal sealed class OdeRun
             // step is exact to working precision, and no adaptive step could be represented anyway.
             for (var i = 0; i < y.Length; i++) y[i] += (tEnd - t0) * _slope[i];
             for (; next < outputTimes.Length; next++) sink(next, outputTimes[next], y);
-            return;
+            return tEnd;
         }
 
         var stepper = Current;
@@ -96,7 +109,9 @@ internal sealed class OdeRun
             stepper.Accept();
             Statistics.Steps++;
             if (_stiffMode) Statistics.StiffSteps++; else Statistics.ExplicitSteps++;
-            while (next < outputTimes.Length && outputTimes[next] <= tNew)
+            // A crossing inside the step: outputs before it are served, the state at it is handed back.
+            var crossing = turnsTrue is not null && turnsTrue(stepper.State) ? LocateCrossing(stepper, turnsTrue) : double.NaN;
+            while (next < outputTimes.Length && (outputTimes[next] < crossing || double.IsNaN(crossing) && outputTimes[next] <= tNew))
             {
                 if (outputTimes[next] == tNew) sink(next, tNew, stepper.State);
                 else
@@ -106,14 +121,39 @@ internal sealed class OdeRun
                 }
                 next++;
             }
+            if (!double.IsNaN(crossing))
+            {
+                if (crossing == tNew) Array.Copy(stepper.State, y, y.Length);
+                else stepper.Interpolate(crossing, y);
+                return crossing;
+            }
             if (tNew == tEnd)
             {
                 Array.Copy(stepper.State, y, y.Length);
-                return;
+                return tEnd;
             }
             h = stepper.Controller.Accepted(tNew - t, error);
             if (SwitchMethod(stepper, h)) stepper = Current;
         }
+    }
+
+    /// <summary>
+    /// The earliest time in the last accepted step at which the dense output makes a condition turn true,
+    /// by bisection between its start (false) and its end (true) until the bracket is a few ulps wide;
+    /// the bracket's upper end, where the condition holds.
+    /// </summary>
+    private double LocateCrossing(OdeStepper stepper, Func<double[], bool> turnsTrue)
+    {
+        var low = stepper.PreviousTime;
+        var high = stepper.Time;
+        for (var i = 0; i < 200 && high - low > 4 * MachineEpsilon * Math.Max(1.0, Math.Abs(high)); i++)
+        {
+            var middle = low + (high - low) / 2;
+            stepper.Interpolate(middle, _output);
+            if (turnsTrue(_output)) high = middle;
+            else low = middle;
+        }
+        return high;
     }
 
     /// <summary>Applies the stiffness tests after an accepted step; true when the method changed.</summary>

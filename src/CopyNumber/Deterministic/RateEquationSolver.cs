@@ -10,6 +10,9 @@ namespace CopyNumber.Deterministic;
 /// (values evaluated on the state and parameters in force just before each change), and the integrator
 /// restarts, since a jump invalidates its step history. A change at a grid time is in force when that
 /// point is recorded, and readouts are evaluated with the parameter values in force at each point.
+/// A state-triggered change acts when its condition turns from false to true: the crossing is located on
+/// the integrator's dense output (<see cref="OdeRun.Advance"/>), the changes apply there, in file order,
+/// and the integrator restarts, as at a timed change.
 /// States are not clipped at zero: small negative round-off is left as computed.
 /// </summary>
 public static class RateEquationSolver
@@ -30,7 +33,7 @@ public static class RateEquationSolver
         ArgumentNullException.ThrowIfNull(grid);
         ArgumentNullException.ThrowIfNull(options);
         if (options.Check() is { } problem) throw new ArgumentException(problem, nameof(options));
-        ModelSupport.RequireDeterministic(network);
+        ModelSupport.RequireRateEquations(network);
 
         var system = new RateEquationSystem(network);
         var parameters = system.ParameterArray;
@@ -47,14 +50,14 @@ public static class RateEquationSolver
             for (var r = 0; r < readouts.Count; r++) values[point, speciesCount + r] = readouts[r].OnState(x, parameters);
         }
 
-        TimelineIntegration.Run(run, Timeline.Of(network, grid), state, change => Apply(change, state, system), Record);
+        var triggers = new RealStateTriggers(network, parameters, (change, time) => Apply(change, state, system, time));
+        TimelineIntegration.Run(run, Timeline.Of(network, grid), state, change => Apply(change, state, system, change.Time), Record, triggers);
 
         return new DeterministicSolution(grid, columns, speciesCount, values, run.Statistics);
     }
 
-    private static void Apply(ScheduledChange change, double[] state, RateEquationSystem system)
+    private static void Apply(ScheduledChange change, double[] state, RateEquationSystem system, double time)
     {
-        var time = change.Time;
         var value = change.OnState(state, system.ParameterArray);
         var old = change.Target == ScheduleTarget.Species ? state[change.TargetIndex] : system.ParameterArray[change.TargetIndex];
         var updated = change.Combine(old, value);

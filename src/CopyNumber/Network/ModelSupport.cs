@@ -11,13 +11,13 @@ public static class ModelSupport
 {
     /// <summary>Why the stochastic simulators cannot run <paramref name="network"/>; empty when they can.</summary>
     /// <remarks>
-    /// Stochastic runs need whole initial counts (a count is an integer; rounding a declared amount would
-    /// silently run another model) and no state-triggered change.
+    /// Stochastic runs need whole initial counts: a count is an integer, and rounding a declared amount
+    /// would silently run another model. The simulators carry out state-triggered changes.
     /// </remarks>
-    public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network)
+    public static IReadOnlyList<Diagnostic> SimulationProblems(ReactionNetwork network)
     {
         ArgumentNullException.ThrowIfNull(network);
-        var problems = new List<Diagnostic>(TriggerProblems(network));
+        var problems = new List<Diagnostic>();
         for (var i = 0; i < network.Species.Count; i++)
         {
             var amount = network.InitialAmounts[i];
@@ -29,29 +29,43 @@ public static class ModelSupport
         return problems;
     }
 
-    /// <summary>Why the rate equations and the expansions cannot integrate <paramref name="network"/>; empty when they can.</summary>
-    public static IReadOnlyList<Diagnostic> DeterministicProblems(ReactionNetwork network)
+    /// <summary>
+    /// Why the methods on whole counts that do not carry out state-triggered changes (the master equation)
+    /// cannot take <paramref name="network"/>: the simulators' problems and every trigger; empty when they can.
+    /// </summary>
+    public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network) =>
+        [.. TriggerProblems(network), .. SimulationProblems(network)];
+
+    /// <summary>
+    /// Why the rate equations, the linear noise approximation and the corrected mean cannot integrate
+    /// <paramref name="network"/>; empty when they can. The rate equations carry out state-triggered
+    /// changes; the expansions stop at the first one and say so (<c>SystemSizeExpansionSolution.StoppedAt</c>).
+    /// </summary>
+    public static IReadOnlyList<Diagnostic> RateEquationProblems(ReactionNetwork network)
     {
         ArgumentNullException.ThrowIfNull(network);
-        return TriggerProblems(network);
+        return [];
     }
 
     /// <summary>Throws <see cref="UnsupportedModelException"/> when the stochastic simulators cannot run <paramref name="network"/>.</summary>
+    public static void RequireSimulation(ReactionNetwork network) => Require(SimulationProblems(network));
+
+    /// <summary>Throws <see cref="UnsupportedModelException"/> when the master equation cannot take <paramref name="network"/> (see <see cref="StochasticProblems"/>).</summary>
     public static void RequireStochastic(ReactionNetwork network) => Require(StochasticProblems(network));
 
     /// <summary>Throws <see cref="UnsupportedModelException"/> when the rate equations cannot integrate <paramref name="network"/>.</summary>
-    public static void RequireDeterministic(ReactionNetwork network) => Require(DeterministicProblems(network));
+    public static void RequireRateEquations(ReactionNetwork network) => Require(RateEquationProblems(network));
 
     private static void Require(IReadOnlyList<Diagnostic> problems)
     {
         if (problems.Count > 0) throw new UnsupportedModelException(problems);
     }
 
-    // Never ignored silently: a model with a trigger is refused until the methods carry triggers out.
+    // Never ignored silently: a method that does not carry triggers out refuses the model.
     private static List<Diagnostic> TriggerProblems(ReactionNetwork network) =>
         network.Triggers.Select(t => At(network, t.Position,
-            $"state-triggered changes are not supported yet ('{t.Text}' on line {t.Position.Line}); " +
-            "no simulator or solver runs a model with a 'whenever' line")).ToList();
+            $"state-triggered changes are not supported by this method ('{t.Text}' on line {t.Position.Line}); " +
+            "the stochastic simulators carry them out")).ToList();
 
     private static Diagnostic At(ReactionNetwork network, SourcePosition position, string message) =>
         new(network.SourceFile, position, message, "");

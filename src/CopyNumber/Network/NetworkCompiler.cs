@@ -371,7 +371,8 @@ public static class NetworkCompiler
                 var condition = _scope.Expand(trigger.Condition);
                 compiled = new StateTrigger(trigger.Position, text, assignments,
                     ExpressionCompiler.CompileCountLaw(condition, _scope),
-                    ExpressionCompiler.CompileStateLaw(condition, _scope));
+                    ExpressionCompiler.CompileStateLaw(condition, _scope))
+                { SpeciesRead = _scope.SpeciesRead(condition) };
             });
             return compiled;
         }

@@ -59,7 +59,7 @@ public sealed class ReactionNetwork
     /// </summary>
     public IReadOnlyList<double> InitialAmounts { get; }
 
-    /// <summary>State-triggered changes, in file order. No method carries them out yet; each refuses a network that has one.</summary>
+    /// <summary>State-triggered changes, in file order (which methods carry them out: <see cref="ModelSupport"/>).</summary>
     public IReadOnlyList<StateTrigger> Triggers { get; }
 
     /// <summary>The declared units of time and of <c>size</c> (each may be undeclared).</summary>

@@ -124,6 +124,11 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
             selection.AddToTotal(change);
             selection.EndEvent();
             fired++;
+            if (header.ChecksTriggers && state.Triggers.AfterFiring(j, state))
+            {
+                end = SegmentEnd.Triggered;
+                break;
+            }
             if (--budget == 0)
             {
                 end = SegmentEnd.Budget;

@@ -8,7 +8,9 @@ namespace CopyNumber.Stochastic;
 /// The replicate loop shared by the exact methods. Grid times need no stop: the state is constant between
 /// events, so the recorder is handed it before each event that passes grid times. Schedule times are
 /// stops: the method advances to the stop, discarding the pending event, the changes are applied and the
-/// method adjusts its pending event times to the new propensities.
+/// method adjusts its pending event times to the new propensities. A state-triggered change is a stop
+/// too, made by the event that turned its condition true (<see cref="SegmentEnd.Triggered"/>): the
+/// change applies at that event's time and the method adjusts its pending event times the same way.
 /// </summary>
 internal abstract class ExactSimulation : IStochasticSimulator
 {
@@ -37,9 +39,16 @@ internal abstract class ExactSimulation : IStochasticSimulator
             var horizon = Math.Min(scheduled, grid.Until);
             var end = Advance(ref rng, ref time, horizon, _recorder, ref events, _maxEvents);
             if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true) { Switches = State.Switches.Finish() };
+            if (end == SegmentEnd.Triggered)
+            {
+                State.Triggers.FirePending(State, time);
+                AfterSchedule(time);
+                continue;
+            }
             if (scheduled <= grid.Until)
             {
                 _schedule.ApplyDue(time, State);
+                State.Triggers.AfterTimedChanges(State, time);
                 AfterSchedule(time);
                 continue;
             }
@@ -57,7 +66,7 @@ internal abstract class ExactSimulation : IStochasticSimulator
     /// </summary>
     protected abstract SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, GridRecorder recorder, ref long events, long maxEvents);
 
-    /// <summary>Brings propensities and pending events up to date after schedule changes at <paramref name="time"/>.</summary>
+    /// <summary>Brings propensities and pending events up to date after timed or triggered changes at <paramref name="time"/>.</summary>
     protected abstract void AfterSchedule(double time);
 
     /// <summary>True when the event due at <paramref name="next"/> must not fire: it lies beyond the horizon, or the limit is reached.</summary>

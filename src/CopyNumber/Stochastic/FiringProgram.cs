@@ -69,6 +69,7 @@ internal sealed class FiringProgram
                 OutOfLine = effects.MayMakeNegative[j] || effects.IsBroad[j],
                 CheckConsumption = effects.MayMakeNegative[j],
                 CountsSwitch = state.Switches.TwoState.ChangedBy(j),
+                ChecksTriggers = state.Triggers.WatchedBy(j),
                 Broad = effects.IsBroad[j],
             };
         }
@@ -210,6 +211,8 @@ internal sealed class FiringProgram
         public bool CheckConsumption;
         /// <summary>The reaction changes a two-state species: its firing is a switch (<see cref="TransitionCounter"/>).</summary>
         public bool CountsSwitch;
+        /// <summary>A firing may change a state-triggered change's condition (<see cref="TriggerWatch.WatchedBy"/>).</summary>
+        public bool ChecksTriggers;
         /// <summary>The update range is set at each firing by <see cref="CollectBroad"/>.</summary>
         public bool Broad;
     }

@@ -118,6 +118,11 @@ internal sealed class NextReactionMethod : ExactSimulation
                 else if (a != Unsafe.Add(ref propensity0, k)) Rescale(k, a, t);
             }
             fired++;
+            if (header.ChecksTriggers && state.Triggers.AfterFiring(mu, state))
+            {
+                end = SegmentEnd.Triggered;
+                break;
+            }
         }
         rng = random;
         events = fired;

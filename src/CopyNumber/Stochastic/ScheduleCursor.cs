@@ -57,28 +57,36 @@ internal sealed class ScheduleCursor
         if (switches.Counting) switches.BeforeSchedule(state.Counts);
         while (_next < changes.Length && changes[_next].Time <= time)
         {
-            var change = changes[_next++];
-            var value = change.OnCounts(state.Counts, state.Parameters);
-            if (change.Target == ScheduleTarget.Species)
-            {
-                if (!double.IsFinite(value) || Math.Abs(value) > LargestCount) throw SimulationFailureException.ScheduleNotFinite(change, value);
-                var result = change.Combine(state.Counts[change.TargetIndex], (long)Math.Round(value, MidpointRounding.AwayFromZero));
-                if (result < 0) throw SimulationFailureException.ScheduleMadeNegative(change, result);
-                state.Counts[change.TargetIndex] = result;
-            }
-            else
-            {
-                var result = change.Combine(state.Parameters[change.TargetIndex], value);
-                if (!double.IsFinite(result)) throw SimulationFailureException.ScheduleNotFinite(change, result);
-                state.Parameters[change.TargetIndex] = result;
-                parametersChanged = true;
-            }
+            parametersChanged |= Apply(changes[_next++], state, time);
             applied = true;
         }
         if (parametersChanged) state.RefreshConstants();
         if (applied && switches.Counting) switches.AfterSchedule(state.Counts, countFlips: time > 0);
         UpdateNextTime();
         return applied;
+    }
+
+    /// <summary>
+    /// Applies one change (timed or triggered) to <paramref name="state"/> at <paramref name="time"/>: the one
+    /// implementation of the rounding and the checks; the caller refreshes the constants when it returns true.
+    /// </summary>
+    /// <returns>True when a parameter changed.</returns>
+    internal static bool Apply(ScheduledChange change, SimulatorState state, double time)
+    {
+        if (!double.IsNaN(change.Time)) time = change.Time; // a timed change reports its own time
+        var value = change.OnCounts(state.Counts, state.Parameters);
+        if (change.Target == ScheduleTarget.Species)
+        {
+            if (!double.IsFinite(value) || Math.Abs(value) > LargestCount) throw SimulationFailureException.ScheduleNotFinite(change, value, time);
+            var result = change.Combine(state.Counts[change.TargetIndex], (long)Math.Round(value, MidpointRounding.AwayFromZero));
+            if (result < 0) throw SimulationFailureException.ScheduleMadeNegative(change, result, time);
+            state.Counts[change.TargetIndex] = result;
+            return false;
+        }
+        var changed = change.Combine(state.Parameters[change.TargetIndex], value);
+        if (!double.IsFinite(changed)) throw SimulationFailureException.ScheduleNotFinite(change, changed, time);
+        state.Parameters[change.TargetIndex] = changed;
+        return true;
     }
 
     private void UpdateNextTime()

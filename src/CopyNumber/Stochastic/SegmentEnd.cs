@@ -9,4 +9,9 @@ internal enum SegmentEnd
     Budget,
     /// <summary>The replicate's event limit was reached before the horizon.</summary>
     EventLimit,
+    /// <summary>
+    /// An event made a state-triggered change's condition turn true: time is the event's, the change waits
+    /// in <see cref="TriggerWatch"/> for the caller to apply it and refresh the propensities.
+    /// </summary>
+    Triggered,
 }

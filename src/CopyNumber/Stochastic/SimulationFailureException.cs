@@ -29,11 +29,18 @@ public sealed class SimulationFailureException : CopyNumberException
         new($"reaction '{network.Reactions[reaction].Name}' fired at time {Number(time)} and made species '{network.Species[species]}' negative; " +
             $"its rate law must be 0 whenever there are too few '{network.Species[species]}' to consume (state after firing: {State(network, counts)})", time);
 
-    internal static SimulationFailureException ScheduleNotFinite(ScheduledChange change, double value) =>
-        new($"at time {Number(change.Time)} the schedule computes {Number(value)} for '{change.TargetName}', which is not a usable finite number", change.Time);
+    internal static SimulationFailureException ScheduleNotFinite(ScheduledChange change, double value, double time) =>
+        new($"at time {Number(time)} {Origin(change)} computes {Number(value)} for '{change.TargetName}', which is not a usable finite number", time);
 
-    internal static SimulationFailureException ScheduleMadeNegative(ScheduledChange change, long result) =>
-        new($"at time {Number(change.Time)} the schedule makes species '{change.TargetName}' {result}; copy numbers cannot be negative", change.Time);
+    internal static SimulationFailureException ScheduleMadeNegative(ScheduledChange change, long result, double time) =>
+        new($"at time {Number(time)} {Origin(change)} makes species '{change.TargetName}' {result}; copy numbers cannot be negative", time);
+
+    /// <summary>A timed change is the schedule's; a triggered one (no time of its own) is a state-triggered change.</summary>
+    private static string Origin(ScheduledChange change) => double.IsNaN(change.Time) ? "a state-triggered change" : "the schedule";
+
+    internal static SimulationFailureException TriggersCascade(StateTrigger trigger, double time, int rounds) =>
+        new($"at time {Number(time)} state-triggered changes kept setting each other off for {rounds} rounds (last: '{trigger.Text}' on line {trigger.Position.Line}); " +
+            "a change whose assignments make another condition turn true, and so on without end, has no defined result", time);
 
     /// <summary>2^53: the largest magnitude up to which a double holds every integer, so a count readout is exact.</summary>
     internal const double LargestExactReadout = 9007199254740992;

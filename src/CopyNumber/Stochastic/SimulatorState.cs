@@ -27,12 +27,13 @@ internal sealed class SimulatorState
             throw new ArgumentException("the network's reactions, propensities and N disagree on the number of reactions", nameof(network));
         if (network.Parameters.Count != network.InitialParameterValues.Count)
             throw new ArgumentException("the network's parameter names and values disagree in number", nameof(network));
-        ModelSupport.RequireStochastic(network);
+        ModelSupport.RequireSimulation(network);
         Counts = new long[species];
         Parameters = new double[network.Parameters.Count];
         Constants = new double[reactions];
         Terms = new PropensityTerm[reactions];
         Switches = new TransitionCounter(network);
+        Triggers = new TriggerWatch(network);
         for (var j = 0; j < reactions; j++)
         {
             var form = _propensities.Form(j);
@@ -53,6 +54,9 @@ internal sealed class SimulatorState
 
     /// <summary>This replicate's switches of the two-state species, counted at the events.</summary>
     public TransitionCounter Switches { get; }
+
+    /// <summary>This replicate's state-triggered changes: which conditions hold, which wait to apply.</summary>
+    public TriggerWatch Triggers { get; }
     public int SpeciesCount => Counts.Length;
     public int ReactionCount => Terms.Length;
 
@@ -68,8 +72,8 @@ internal sealed class SimulatorState
     }
 
     /// <summary>
-    /// Starts a replicate at t = 0: initial state, the schedule's changes due at t ≤ 0 applied, nothing
-    /// recorded yet.
+    /// Starts a replicate at t = 0: initial state, the schedule's changes due at t ≤ 0 applied, the
+    /// triggers' conditions evaluated on the result (their starting values), nothing recorded yet.
     /// </summary>
     public void StartReplicate(ScheduleCursor schedule, GridRecorder recorder, TimeGrid grid, ITrajectoryObserver observer)
     {
@@ -77,6 +81,7 @@ internal sealed class SimulatorState
         Switches.Start();
         schedule.Start(grid);
         schedule.ApplyDue(0.0, this);
+        Triggers.Start(this);
         recorder.Start(grid, observer, Parameters);
     }
 

@@ -21,7 +21,9 @@ namespace CopyNumber.Stochastic;
 ///    is the minimum one critical reaction, chosen with probability a_j/a0c, fires once; otherwise none does;
 /// 5. a leap that would make a count negative is rejected and tried again from step 3 with τ' = τ/2.
 /// Grid and schedule times are stops: a leap that reaches one is cut there, so the state recorded at a
-/// grid time is the state at that time. Counts are never negative.
+/// grid time is the state at that time. Counts are never negative. A leap that could carry a
+/// state-triggered change's condition across is replaced by exact steps (<see cref="TriggerLeapGuard"/>),
+/// which apply the change at the event that sets it off.
 /// </remarks>
 internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     where TSelection : struct, IReactionSelection<TSelection>
@@ -37,6 +39,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     private readonly ScheduleCursor _schedule;
     private readonly GridRecorder _recorder = new();
     private readonly CriticalReactions _critical;
+    private readonly TriggerLeapGuard _triggerGuard;
     private readonly LeapStepSize _stepSize;
     private readonly PropensityJacobian _jacobian;
     private readonly TrapezoidalLeap _trapezoid;
@@ -59,6 +62,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
         _exact = new DirectMethod<TSelection>(_state, _effects, options.MaxEvents);
         _schedule = new ScheduleCursor(network);
         _critical = new CriticalReactions(_effects, options.CriticalThreshold);
+        _triggerGuard = new TriggerLeapGuard(network);
         _stepSize = new LeapStepSize(network, _effects, options.Epsilon);
         _jacobian = new PropensityJacobian(_state, _effects);
         _trapezoid = new TrapezoidalLeap(_jacobian, _effects, _state.SpeciesCount);
@@ -88,7 +92,11 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             var stop = Math.Min(_recorder.NextTime, _schedule.NextTime);
             if (t >= stop)
             {
-                if (_schedule.NextTime <= t) _schedule.ApplyDue(t, _state);
+                if (_schedule.NextTime <= t)
+                {
+                    _schedule.ApplyDue(t, _state);
+                    _state.Triggers.AfterTimedChanges(_state, t);
+                }
                 _recorder.RecordThrough(t, counts);
                 if (_recorder.Finished) return new ReplicateResult(events, steps, false) { Switches = _state.Switches.Finish() };
                 continue;
@@ -120,20 +128,14 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
         var critical = _critical.IsCritical;
         while (true)
         {
-            if (tauPrime < ExactStepFactor / a0)
-            {
-                _exact.Refresh(t);
-                var before = events;
-                var end = _exact.Advance(ref rng, ref t, stop, ExactStepBurst, _recorder, ref events, _maxEvents);
-                steps += events - before;
-                return end != SegmentEnd.EventLimit;
-            }
+            if (tauPrime < ExactStepFactor / a0) return ExactSteps(ref rng, ref t, stop, ref events, ref steps);
 
             var remaining = stop - t;
             var tauCritical = a0c > 0.0 ? rng.NextExponential() / a0c : double.PositiveInfinity;
             var criticalFires = tauCritical <= tauPrime && tauCritical <= remaining;
             var reachesStop = !criticalFires && tauPrime >= remaining;
             var tau = criticalFires ? tauCritical : Math.Min(tauPrime, remaining);
+            if (_triggerGuard.MayCross(counts, _state.Parameters, _propensity, tau)) return ExactSteps(ref rng, ref t, stop, ref events, ref steps);
 
             var firings = 0L;
             for (var j = 0; j < _firings.Length; j++)
@@ -183,8 +185,21 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             steps++;
             if (trapezoidal) TrapezoidalLeaps++;
             else ExplicitLeaps++;
+            // A crossing the guard's rule did not foresee still fires, at the leap's end.
+            if (_triggerGuard.Any && _state.Triggers.CheckAll(_state)) _state.Triggers.FirePending(_state, t);
             return true;
         }
+    }
+
+    /// <summary>Up to <see cref="ExactStepBurst"/> events of the direct method; a state-triggered change one of them sets off is applied at its time.</summary>
+    private bool ExactSteps(ref Xoshiro256StarStar rng, ref double t, double stop, ref long events, ref long steps)
+    {
+        _exact.Refresh(t);
+        var before = events;
+        var end = _exact.Advance(ref rng, ref t, stop, ExactStepBurst, _recorder, ref events, _maxEvents);
+        steps += events - before;
+        if (end == SegmentEnd.Triggered) _state.Triggers.FirePending(_state, t);
+        return end != SegmentEnd.EventLimit;
     }
 
     /// <summary>

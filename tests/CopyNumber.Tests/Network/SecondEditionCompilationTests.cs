@@ -232,44 +232,35 @@ public sealed class SecondEditionCompilationTests
         Assert.Equal(1, trigger.OnState([10, 30.5], [0.001, 0.01]));
     }
 
-    [Theory]
-    [InlineData(SimulationMethod.Direct)]
-    [InlineData(SimulationMethod.NextReaction)]
-    [InlineData(SimulationMethod.CompositionRejection)]
-    [InlineData(SimulationMethod.TauLeap)]
-    public void Every_simulator_refuses_a_model_with_a_trigger_naming_its_line(SimulationMethod method)
+    [Fact]
+    public void The_expansions_stop_at_the_first_trigger_and_say_which()
     {
+        // Dimerisation from P = 100, P2 = 0: the rate equations' P2 rises monotonically until it passes 30,
+        // where the reset drops it to 0 (the first grid time after that is the first where P2 falls); the
+        // linear noise approximation stops there, the rate equations carry on.
         var network = AnalysisModels.Compile(Triggered);
-        var refusal = Assert.Throws<UnsupportedModelException>(() => SimulatorFactory.Create(method, network, new SimulatorOptions()));
-        var problem = Assert.Single(refusal.Problems);
-        Assert.Equal((10, 3), (problem.Position.Line, problem.Position.Column));
-        Assert.Contains("state-triggered changes are not supported yet", problem.Message);
-        Assert.Contains("whenever P2 > 30 and not P < 10", problem.Message);
+        var grid = new TimeGrid(50, 0.5);
+        var rate = RateEquationSolver.Solve(network, grid, AnalysisModels.Tight);
+        var crossing = Enumerable.Range(1, grid.Count - 1).First(k => rate[k, 1] < rate[k - 1, 1]);
+        Assert.True(rate[crossing - 1, 1] <= 30 && rate[crossing - 1, 1] > 25, $"P2 = {rate[crossing - 1, 1]} just before the reset");
+        var lna = LinearNoiseApproximation.Solve(network, grid, AnalysisModels.Tight);
+        Assert.InRange(lna.StoppedAt, grid[crossing - 1], grid[crossing]);
+        Assert.Equal(10, lna.StoppedBy!.Position.Line);
+        Assert.False(double.IsNaN(lna.Variance(crossing - 1, 1)));
+        Assert.True(double.IsNaN(lna.Variance(crossing, 1)));
     }
 
     [Fact]
-    public void The_rate_equations_and_the_expansions_refuse_a_model_with_a_trigger()
-    {
-        var network = AnalysisModels.Compile(Triggered);
-        var grid = new TimeGrid(1, 0.5);
-        Assert.Throws<UnsupportedModelException>(() => RateEquationSolver.Solve(network, grid, AnalysisModels.Tight));
-        Assert.Throws<UnsupportedModelException>(() => LinearNoiseApproximation.Solve(network, grid, AnalysisModels.Tight));
-    }
-
-    [Theory]
-    [InlineData("simulate")]
-    [InlineData("solve")]
-    public void The_command_line_refuses_a_trigger_with_exit_code_2_and_writes_nothing(string command)
+    public void Simulate_runs_a_trigger_and_says_the_verdicts_stop_at_the_first_one()
     {
         using var scratch = new ScratchFolder();
         var model = scratch.File("triggered.cnet");
         File.WriteAllText(model, Triggered);
         var output = Path.Combine(scratch.Path, "out");
-        string[] replicates = command == "simulate" ? ["--replicates", "16"] : [];
-        var run = CliRun.Of([command, model, "--until", "5", "--every", "1", "--out", output, .. replicates]);
-        Assert.Equal(2, run.ExitCode);
-        Assert.StartsWith($"{model}:10:3: error: state-triggered changes are not supported yet", run.Error);
-        Assert.False(Directory.Exists(output) || File.Exists(output));
+        var run = CliRun.Of(["simulate", model, "--until", "50", "--every", "1", "--out", output, "--replicates", "64", "--seed", "3"]);
+        Assert.True(run.ExitCode == 0, run.Error);
+        Assert.Contains("stop at the first state-triggered change ('P = 100, P2 = 0  whenever P2 > 30 and not P < 10', line 10)", run.Output);
+        Assert.Contains("the verdicts cover only the grid times before it", run.Output);
     }
 
     private const string Fractional = """
