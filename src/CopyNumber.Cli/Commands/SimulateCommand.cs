@@ -91,7 +91,7 @@ internal static class SimulateCommand
             // A shard is only part of a run: its contrast waits for the merged folder.
             if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && !parsed.GetValue(noContrast))
             {
-                error.WriteLine($"the run's tables are complete in {Paths.Shown(folder)}; contrasting it with the rate equations (an interruption now loses nothing: 'copynumber contrast' redoes it)");
+                error.WriteLine("contrasting with the rate equations (the tables are complete; an interruption here loses nothing)");
                 var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap);
                 writer.Write("\n" + ContrastOptions.RenderVerdicts(contrast));
                 writer.WriteLine($"wrote {Paths.Shown(files)}");
