@@ -175,7 +175,7 @@ internal sealed class CheckpointStore : ICheckpointSink, IPathSink, IDisposable
     }
 
     private string Dropped(OutputException failure) =>
-        $"{(failure.InnerException is { } inner && AtomicFile.IsDiskFull(inner) ? "no space left on device" : failure.Message.TrimEnd('.'))} while writing {RunFiles.Paths} (after {_pathRows} rows); the paths were dropped";
+        PathsTable.DroppedText(failure, RunFiles.Paths, _pathRows);
 
     /// <inheritdoc />
     public void Dispose()

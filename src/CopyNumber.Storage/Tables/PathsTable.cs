@@ -52,18 +52,11 @@ public sealed class PathsTable : IPathSink, IDisposable
     public OutputException? Failure { get; private set; }
 
     /// <summary>
-    /// <see cref="Failure"/> in one phrase for the user and the manifest: "no space left on device while writing
-    /// paths.parquet (after 262144 rows); the paths were dropped". Null when nothing failed.
+    /// Why paths were dropped, in one phrase for the user and the manifest: "no space left on device while
+    /// writing paths.parquet (after 262144 rows); the paths were dropped".
     /// </summary>
-    public string? FailureText
-    {
-        get
-        {
-            if (Failure is not { } failure) return null;
-            var cause = failure.InnerException is { } inner && AtomicFile.IsDiskFull(inner) ? "no space left on device" : failure.Message.TrimEnd('.');
-            return $"{cause} while writing {Path.GetFileName(_path)} (after {_rowsWritten} rows); the paths were dropped";
-        }
-    }
+    internal static string DroppedText(OutputException failure, string file, long rows) =>
+        $"{(failure.InnerException is { } inner && AtomicFile.IsDiskFull(inner) ? "no space left on device" : failure.Message.TrimEnd('.'))} while writing {file} (after {rows} rows); the paths were dropped";
 
     /// <summary>The table's columns for <paramref name="network"/>: replicate, time, then a count per species.</summary>
     public static IReadOnlyList<ColumnSpec> ColumnsFor(ReactionNetwork network) =>

@@ -16,13 +16,7 @@ internal static class ChildCli
     public static string Binary => typeof(CliApplication).Assembly.Location;
 
     /// <summary>Starts <c>copynumber <paramref name="arguments"/></c> with both streams redirected.</summary>
-    public static Process Start(IEnumerable<string> arguments)
-    {
-        var info = new ProcessStartInfo(Host) { RedirectStandardError = true, RedirectStandardOutput = true, UseShellExecute = false };
-        info.ArgumentList.Add(Binary);
-        foreach (var a in arguments) info.ArgumentList.Add(a);
-        return Process.Start(info) ?? throw new InvalidOperationException("could not start the child process");
-    }
+    public static Process Start(IEnumerable<string> arguments) => ChildProcess.Start(arguments);
 
     /// <summary>Runs a process to its end; its exit code and both streams.</summary>
     public static (int ExitCode, string Output, string Error) Finish(Process child)

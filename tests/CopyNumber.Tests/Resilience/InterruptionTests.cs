@@ -23,9 +23,9 @@ public class InterruptionTests
         if (!OperatingSystem.IsLinux() && !OperatingSystem.IsMacOS()) return; // SIGTERM is POSIX
         using var scratch = new ScratchFolder();
         var model = WriteModel(scratch);
-        // About 500 events per replicate, 25 million in all over 781 blocks: seconds even for the fastest
+        // About 2 500 events per replicate, 125 million in all over 781 blocks: seconds even for the fastest
         // simulator on an idle machine, so the signal sent 400 ms after the start arrives mid-run.
-        string[] arguments = ["simulate", model, "--until", "20", "--every", "1", "--replicates", "50000", "--seed", "3", "--threads", "2", "--no-contrast"];
+        string[] arguments = ["simulate", model, "--until", "100", "--every", "5", "--replicates", "50000", "--seed", "3", "--threads", "2", "--no-contrast"];
 
         var interrupted = scratch.File("interrupted");
         using var child = Start([.. arguments, "--out", interrupted]);
@@ -79,25 +79,7 @@ public class InterruptionTests
         foreach (var file in ResultFiles) AssertSameCells(whole, interrupted, file);
     }
 
-    /// <summary>Starts the built copynumber.dll (copied beside the tests by the project reference) under the dotnet host.</summary>
-    private static Process Start(string[] arguments)
-    {
-        var binary = typeof(CliApplication).Assembly.Location;
-        var info = new ProcessStartInfo(Environment.ProcessPath is { } host && Path.GetFileNameWithoutExtension(host) == "dotnet" ? host : "dotnet")
-        {
-            RedirectStandardError = true,
-            RedirectStandardOutput = true,
-            UseShellExecute = false,
-        };
-        info.ArgumentList.Add(binary);
-        foreach (var a in arguments) info.ArgumentList.Add(a);
-        return Process.Start(info) ?? throw new InvalidOperationException("could not start the child process");
-    }
+    private static Process Start(string[] arguments) => ChildProcess.Start(arguments);
 
-    private static void Signal(int pid)
-    {
-        using var kill = Process.Start(new ProcessStartInfo("/bin/kill", ["-TERM", pid.ToString()]) { UseShellExecute = false })!;
-        kill.WaitForExit();
-        Assert.Equal(0, kill.ExitCode);
-    }
+    private static void Signal(int pid) => ChildProcess.Signal(pid, "TERM");
 }

@@ -29,8 +29,9 @@ public sealed partial class SignalTests
         using var scratch = new ScratchFolder();
         var model = WriteModel(scratch);
         var folder = scratch.File("run");
-        // About 25 million events: seconds on any machine, so the signal arrives mid-ensemble.
-        using var child = Child.Start(["simulate", model, "--until", "20", "--every", "1", "--replicates", "50000", "--seed", "3", "--threads", "2", "--no-contrast", "--out", folder]);
+        // About 250 million events: many seconds on any machine, so the signal arrives mid-ensemble (25 million
+        // finished before the signal on an idle machine).
+        using var child = Child.Start(["simulate", model, "--until", "20", "--every", "1", "--replicates", "500000", "--seed", "3", "--threads", "2", "--no-contrast", "--out", folder]);
         Assert.True(child.WaitForError(line => line.StartsWith("simulating", StringComparison.Ordinal), Patience), "the child never started simulating");
         Thread.Sleep(300);
         child.Signal(signal);
@@ -112,15 +113,7 @@ public sealed partial class SignalTests
 
         public static Child Start(string[] arguments)
         {
-            var info = new ProcessStartInfo(Environment.ProcessPath is { } host && Path.GetFileNameWithoutExtension(host) == "dotnet" ? host : "dotnet")
-            {
-                RedirectStandardError = true,
-                RedirectStandardOutput = true,
-                UseShellExecute = false,
-            };
-            info.ArgumentList.Add(typeof(CliApplication).Assembly.Location);
-            foreach (var a in arguments) info.ArgumentList.Add(a);
-            var child = new Child(Process.Start(info) ?? throw new InvalidOperationException("could not start the child process"));
+            var child = new Child(ChildProcess.Start(arguments));
             child.Process.ErrorDataReceived += (_, e) => child.Line(e.Data, error: true);
             child.Process.OutputDataReceived += (_, e) => child.Line(e.Data, error: false);
             child.Process.BeginErrorReadLine();
@@ -132,12 +125,7 @@ public sealed partial class SignalTests
 
         public bool WaitForOutput(Func<string, bool> match, TimeSpan patience) => Wait(match, error: false, patience);
 
-        public void Signal(string name)
-        {
-            using var kill = Process.Start(new ProcessStartInfo("/bin/kill", [$"-{name}", Process.Id.ToString()]) { UseShellExecute = false })!;
-            kill.WaitForExit();
-            Assert.Equal(0, kill.ExitCode);
-        }
+        public void Signal(string name) => ChildProcess.Signal(Process.Id, name);
 
         private bool Wait(Func<string, bool> match, bool error, TimeSpan patience)
         {
