@@ -27,6 +27,7 @@ internal sealed class SbmlExport(LoadedModel model)
     private readonly Dictionary<string, string> _ids = new(StringComparer.Ordinal);        // language name → SBML id
     private readonly Dictionary<string, string> _reactionIds = new(StringComparer.Ordinal); // compiled reaction name → SBML id
     private readonly Dictionary<string, string> _renamed = new(StringComparer.Ordinal);
+    private readonly Dictionary<string, string> _renamedReactions = new(StringComparer.Ordinal);
     private readonly HashSet<string> _taken = new(StringComparer.Ordinal);
     private readonly List<string> _notes = [];
     private string _compartment = "size";
@@ -38,12 +39,12 @@ internal sealed class SbmlExport(LoadedModel model)
             new XAttribute(XNamespace.Xmlns + SbmlConventions.AnnotationPrefix, Cn.NamespaceName),
             Model());
         if (_refusals.Count > 0)
-            return new SbmlExportResult(null, _refusals.OrderBy(d => d.Position.Line).ThenBy(d => d.Position.Column).ToList(), _renamed);
+            return new SbmlExportResult(null, _refusals.OrderBy(d => d.Position.Line).ThenBy(d => d.Position.Column).ToList(), _renamed, _renamedReactions);
         var text = new StringBuilder();
         using (var writer = XmlWriter.Create(new StringWriter(text, CultureInfo.InvariantCulture),
                    new XmlWriterSettings { Indent = true, IndentChars = "  ", Encoding = new UTF8Encoding(false), NewLineChars = "\n" }))
             new XDocument(new XDeclaration("1.0", "UTF-8", null), document).Save(writer);
-        return new SbmlExportResult(text.ToString().Replace("encoding=\"utf-16\"", "encoding=\"UTF-8\"") + "\n", [], _renamed);
+        return new SbmlExportResult(text.ToString().Replace("encoding=\"utf-16\"", "encoding=\"UTF-8\"") + "\n", [], _renamed, _renamedReactions);
     }
 
     private void Refuse(SourcePosition at, string message) =>
@@ -59,19 +60,19 @@ internal sealed class SbmlExport(LoadedModel model)
     private void AllocateIds()
     {
         foreach (var name in _network.Species.Concat(_network.Parameters).Concat(_network.Readouts.Select(r => r.Name)))
-            _ids[name] = Allocate(name, name);
+            _ids[name] = Allocate(name, _renamed);
         _compartment = Allocate("size", null);
-        foreach (var reaction in _network.Reactions) _reactionIds[reaction.Name] = Allocate(reaction.Name, reaction.Name);
+        foreach (var reaction in _network.Reactions) _reactionIds[reaction.Name] = Allocate(reaction.Name, _renamedReactions);
     }
 
-    private string Allocate(string wanted, string? recordAs)
+    private string Allocate(string wanted, Dictionary<string, string>? record)
     {
         var valid = new StringBuilder();
         foreach (var c in wanted) valid.Append(char.IsAsciiLetterOrDigit(c) || c == '_' ? c : '_');
         if (valid.Length == 0 || char.IsAsciiDigit(valid[0])) valid.Insert(0, '_');
         var id = valid.ToString();
         for (var i = 2; !_taken.Add(id); i++) id = $"{valid}_{i}";
-        if (recordAs is not null && id != wanted) _renamed[recordAs] = id;
+        if (record is not null && id != wanted) record[wanted] = id;
         return id;
     }
 
@@ -241,8 +242,9 @@ internal sealed class SbmlExport(LoadedModel model)
             "Readouts are parameters set by assignment rules.",
         };
         paragraphs.AddRange(_notes);
-        if (_renamed.Count > 0)
-            paragraphs.Add("Renamed to become SBML ids: " + string.Join(", ", _renamed.Select(kv => $"'{kv.Key}' is '{kv.Value}'")) + ".");
+        if (_renamed.Count + _renamedReactions.Count > 0)
+            paragraphs.Add("Renamed to become SBML ids (one namespace in SBML): " + string.Join(", ",
+                _renamed.Select(kv => $"'{kv.Key}' is '{kv.Value}'").Concat(_renamedReactions.Select(kv => $"reaction '{kv.Key}' is '{kv.Value}'"))) + ".");
         return new XElement(Core + "notes", new XElement(Xhtml + "body", paragraphs.Select(p => new XElement(Xhtml + "p", p))));
     }
 

@@ -23,8 +23,9 @@ public static class SbmlExporter
 /// <summary>The result of an export: the SBML text (or the refusals) and every name that had to change to become an SBML id.</summary>
 /// <param name="Xml">The SBML document, or null when the model was refused.</param>
 /// <param name="Diagnostics">Why the model was refused (empty on success).</param>
-/// <param name="Renamed">Language name → SBML id, for the names that changed (reactions under their compiled names).</param>
-public sealed record SbmlExportResult(string? Xml, IReadOnlyList<Diagnostic> Diagnostics, IReadOnlyDictionary<string, string> Renamed)
+/// <param name="Renamed">Species, parameter or readout name → SBML id, for the names that changed.</param>
+/// <param name="RenamedReactions">Compiled reaction name (<c>name_fwd</c>/<c>name_rev</c> for a reversible line) → SBML id, for the names that changed.</param>
+public sealed record SbmlExportResult(string? Xml, IReadOnlyList<Diagnostic> Diagnostics, IReadOnlyDictionary<string, string> Renamed, IReadOnlyDictionary<string, string> RenamedReactions)
 {
     /// <summary>True when the document was written.</summary>
     public bool Succeeded => Xml is not null && Diagnostics.Count == 0;
