@@ -47,8 +47,10 @@ internal sealed class SbmlExport(LoadedModel model)
         return new SbmlExportResult(text.ToString().Replace("encoding=\"utf-16\"", "encoding=\"UTF-8\"") + "\n", [], _renamed, _renamedReactions);
     }
 
+    // An SBML model is exported from its translation, so a refusal points into that text and says so.
     private void Refuse(SourcePosition at, string message) =>
-        _refusals.Add(new Diagnostic(_syntax.File, at, message, at.Line >= 1 && at.Line <= _lines.Length ? _lines[at.Line - 1] : ""));
+        _refusals.Add(new Diagnostic(SbmlImporter.IsSbmlPath(_syntax.File) ? $"{_syntax.File} (as imported)" : _syntax.File, at, message,
+            at.Line >= 1 && at.Line <= _lines.Length ? _lines[at.Line - 1] : ""));
 
     // ---- ids ----
 

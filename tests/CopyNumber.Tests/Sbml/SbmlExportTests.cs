@@ -61,6 +61,25 @@ public sealed class SbmlExportTests
     }
 
     [Fact]
+    public void A_mass_action_annotation_beside_another_law_is_not_believed()
+    {
+        // The law k·A·A/Ω (not the falling factorial) under an annotation saying 'mass k': the law is read as written,
+        // so its propensity at A = 7 stays 0.3·49/2 = 7.35 (annotations never change a model's meaning, L3V2 core section 3.2.4).
+        var model = ModelLoader.LoadText("size 2\nspecies\n  A = 7\n  B = 0\nparameters\n  k = 0.3\nreactions\n  pair: 2 A -> B  mass k\n", "pair.cnet").Model!;
+        var document = XDocument.Parse(SbmlExporter.Export(model).Xml!);
+        var law = document.Descendants(Core + "kineticLaw").Single().Elements().Last();
+        var minus = law.Descendants().Single(e => e.Name.LocalName == "minus").Parent!;
+        minus.ReplaceWith(minus.Elements().ElementAt(1));   // A − 1 becomes A
+        var imported = SbmlImporter.Import(document.ToString(), "tampered.xml");
+        Assert.True(imported.Succeeded, string.Join("\n", imported.Diagnostics.Select(d => d.Format())));
+        var network = Simulate.Network(imported.CnetText!, "tampered.cnet");
+        Assert.Equal(CopyNumber.Language.LawKind.Rate, network.Reactions[0].Law);
+        var constants = new double[1];
+        network.Propensities.ComputeConstants([0.3], constants);
+        Assert.Equal(7.35, network.Propensities.Evaluate(0, [7, 0], constants, [0.3]), 12);
+    }
+
+    [Fact]
     public void Exported_birth_death_solves_to_the_closed_form_mean()
     {
         var model = ModelLoader.LoadText("time unit minute\nspecies\n  X = 100\nparameters\n  l = 0.1\n  m = 0.11\nreactions\n  birth: X -> 2 X  mass l\n  death: X -> 0  mass m\n", "bd.cnet").Model!;
@@ -173,11 +192,20 @@ public sealed class SbmlExportTests
 /// <summary>A fact that runs when the SBML Test Suite is at ../shared/sbml-test-cases and says it was skipped otherwise.</summary>
 public sealed class DsmtsFolderFactAttribute : FactAttribute
 {
-    public static string Folder => Path.GetFullPath(Environment.GetEnvironmentVariable("COPYNUMBER_SBML_TEST_CASES") ?? "/work/shared/sbml-test-cases");
+    /// <summary>../shared/sbml-test-cases beside the repository root (the folder holding CopyNumber.sln), as in CI.</summary>
+    public static string Folder
+    {
+        get
+        {
+            var directory = new DirectoryInfo(AppContext.BaseDirectory);
+            while (directory is not null && !File.Exists(Path.Combine(directory.FullName, "CopyNumber.sln"))) directory = directory.Parent;
+            return Path.GetFullPath(Path.Combine(directory?.FullName ?? ".", "..", "shared", "sbml-test-cases"));
+        }
+    }
 
     public DsmtsFolderFactAttribute()
     {
         if (!Directory.Exists(Path.Combine(Folder, "stochastic")))
-            Skip = $"the SBML Test Suite is not at {Folder} (set COPYNUMBER_SBML_TEST_CASES to its folder)";
+            Skip = $"the SBML Test Suite is not at {Folder}; this check runs when it is";
     }
 }
