@@ -18,6 +18,7 @@ internal static class CliApplication
         root.Subcommands.Add(SweepCommand.Create(session));
         root.Subcommands.Add(ExactCommand.Create(session));
         root.Subcommands.Add(ImportCommand.Create());
+        root.Subcommands.Add(ExportCommand.Create());
         return root;
     }
 

@@ -52,7 +52,9 @@ internal sealed class MathMlReader(IReadOnlyDictionary<string, (IReadOnlyList<st
         var value = type switch
         {
             "integer" or "real" or "double" => Part(0),
-            "e-notation" => Part(0) * Math.Pow(10, Part(1)),
+            // Parsed as one decimal number, so mantissa·10^exponent is the nearest double, not a product's round-off.
+            "e-notation" => parts.Count == 2 && double.TryParse($"{parts[0]}e{parts[1]}", NumberStyles.Float, CultureInfo.InvariantCulture, out var v)
+                ? v : throw new SbmlRefusal(e, $"malformed number '{e.Value.Trim()}' in <cn>"),
             "rational" => Part(0) / Part(1),
             _ => throw new SbmlRefusal(e, $"<cn type=\"{type}\"> is not a number type of SBML"),
         };

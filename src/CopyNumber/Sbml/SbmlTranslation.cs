@@ -152,6 +152,7 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
         var text = new StringBuilder();
         if (_sizeCompartment is not null)
             text.Append($"size {SbmlMath.FormatNumber(SbmlValue(_sizeCompartment, _compartments[_sizeCompartment].Element))}\n");
+        if (TimeUnit(model) is { } unit) text.Append($"time unit {unit}\n");
         text.Append(SpeciesSection());
         var reactions = ReactionSection(model, out var localParameters);
         text.Append(ParameterSection(localParameters));
@@ -334,6 +335,8 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
         }
         var reactants = Side(reaction, "listOfReactants");
         var products = Side(reaction, "listOfProducts");
+        if (AnnotatedMassAction(reaction, law) is { } constant)
+            return $"  {(Reserved.Contains(id) ? id + "_sbml" : id)}: {SideText(reactants)} -> {SideText(products)}  mass {constant.ToCnet()}\n";
         var rate = ToCnet(MathOf(law), law);
         if (F != 1) rate = SbmlMath.Apply("*", new MathNumber(F), rate);
         var name0 = Reserved.Contains(id) ? id + "_sbml" : id;
@@ -420,7 +423,7 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
     private string ChangeSection(XElement model)
     {
         var text = new StringBuilder();
-        foreach (var e in List(model, "listOfEvents", "event"))
+        foreach (var e in InPriorityOrder(List(model, "listOfEvents", "event").ToList()))
             Guard(() => text.Append(Event(e)));
         return text.Length == 0 ? "" : "\nchanges\n" + text;
     }
@@ -430,8 +433,6 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
         var what = SbmlRefusal.Describe(e);
         if (e.Elements().FirstOrDefault(x => x.Name.LocalName == "delay") is { } delay)
             throw new SbmlRefusal(delay, $"{what} has a delay: delayed events are not supported");
-        if (e.Elements().FirstOrDefault(x => x.Name.LocalName == "priority") is { } priority)
-            throw new SbmlRefusal(priority, $"{what} has a priority: event priorities are not supported (simultaneous changes apply in file order)");
         var trigger = e.Elements().FirstOrDefault(x => x.Name.LocalName == "trigger") ?? throw new SbmlRefusal(e, $"{what} has no trigger");
         var condition = MathOf(trigger);
         var initialValue = Flag(trigger, "initialValue", true);
@@ -478,10 +479,12 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
     private List<string> Assignments(XElement e)
     {
         var list = new List<(string Target, SbmlMath Value, XElement Element)>();
+        var operations = new Dictionary<XElement, (string Operator, SbmlMath Amount)>();
         foreach (var a in e.Elements().Where(x => x.Name.LocalName == "listOfEventAssignments").Elements())
         {
             var variable = (string?)a.Attribute("variable") ?? "";
             var value = ToCnet(MathOf(a), a);
+            if (AnnotatedChange(a, variable) is { } change) operations[a] = (change.Operator, ToCnet(change.Amount, a));
             if (_species.TryGetValue(variable, out var s))
             {
                 if (s.Concentration) value = SbmlMath.Apply("*", value, Volume(s.Compartment, a));
@@ -503,7 +506,71 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
             ordered.Add(next);
             list.Remove(next);
         }
-        return ordered.Select(x => $"{x.Target} = {x.Value.ToCnet()}").ToList();
+        return ordered.Select(x => operations.TryGetValue(x.Element, out var op) ? $"{x.Target} {op.Operator}= {op.Amount.ToCnet()}" : $"{x.Target} = {x.Value.ToCnet()}").ToList();
+    }
+
+    /// <summary>
+    /// Events in the order SBML executes simultaneous ones: by decreasing priority (L3V2 core section 4.12.6),
+    /// file order among equal ones. Only constant priorities are read, and either every event has one or none.
+    /// </summary>
+    private List<XElement> InPriorityOrder(List<XElement> events)
+    {
+        var priorities = events.Select(e => e.Elements().FirstOrDefault(x => x.Name.LocalName == "priority")).ToList();
+        if (priorities.All(p => p is null)) return events;
+        var values = new List<double>();
+        for (var i = 0; i < events.Count; i++)
+        {
+            if (priorities[i] is not { } priority)
+                throw new SbmlRefusal(events[i], $"{SbmlRefusal.Describe(events[i])} has no priority while other events have one; SBML leaves their order undefined, and changes here apply in one order");
+            var math = MathOf(priority);
+            if (math.Names().Any() || math.Nodes().OfType<MathTime>().Any())
+                throw new SbmlRefusal(priority, $"{SbmlRefusal.Describe(events[i])} has a priority that is not a constant; only constant priorities are supported (they give the order of simultaneous changes)");
+            values.Add(math.Evaluate(_ => 0));
+        }
+        return events.Select((e, i) => (e, i)).OrderByDescending(x => values[x.i]).ThenBy(x => x.i).Select(x => x.e).ToList();
+    }
+
+    /// <summary>
+    /// The constant k of a law our export annotated as mass action (SbmlConventions), in the language's names,
+    /// when the law is exactly k·Ω^(1−m)·∏ ff(x, ν) over this reaction's reactants in the system size's
+    /// compartment; otherwise null and the law is read as written.
+    /// </summary>
+    private SbmlMath? AnnotatedMassAction(XElement reaction, XElement law)
+    {
+        var mark = law.Elements().Where(x => x.Name.LocalName == "annotation").Elements(SbmlConventions.Annotation + "massAction").FirstOrDefault();
+        if (mark?.Element(MathMl + "math") is not { } kMath || F != 1 || _sizeCompartment is null) return null;
+        var reactants = reaction.Elements().Where(x => x.Name.LocalName == "listOfReactants").Elements()
+            .Select(r => ((string?)r.Attribute("species") ?? "", (long)Math.Round(Number(r, "stoichiometry") ?? 1))).ToList();
+        if (reactants.Any(r => !_species.TryGetValue(r.Item1, out var s) || s.Concentration || _rules.ContainsKey(r.Item1))) return null;
+        var k = _math.ReadMath(kMath);
+        if (k.Names().Any(_species.ContainsKey) || k.Nodes().OfType<MathTime>().Any()) return null;
+        return SbmlConventions.MassActionPropensity(k, reactants, _sizeCompartment).Equals(MathOf(law)) ? ToCnet(k, law) : null;
+    }
+
+    /// <summary>
+    /// An event assignment our export annotated as an addition or subtraction: when its math is exactly
+    /// <c>S + v</c> (or <c>S − v</c>) for its own species S in amounts, the change is <c>S += v</c>, which in
+    /// stochastic runs adds the rounded amount (docs/network-language.md), as the model it came from did.
+    /// </summary>
+    private (string Operator, SbmlMath Amount)? AnnotatedChange(XElement assignment, string variable)
+    {
+        var mark = assignment.Elements().Where(x => x.Name.LocalName == "annotation").Elements(SbmlConventions.Annotation + "change").FirstOrDefault();
+        var op = (string?)mark?.Attribute("operation") switch { "add" => "+", "subtract" => "-", _ => null };
+        if (op is null || F != 1 || !_species.TryGetValue(variable, out var s) || s.Concentration) return null;
+        return MathOf(assignment) is MathApply { Arguments.Count: 2 } a && a.Operator == op && a.Arguments[0] is MathName n && n.Name == variable
+            ? (op, a.Arguments[1]) : null;
+    }
+
+    /// <summary>The model's time unit as the language names it, when it is one SbmlConventions knows; null otherwise.</summary>
+    private static string? TimeUnit(XElement model)
+    {
+        if ((string?)model.Attribute("timeUnits") is not { } id) return null;
+        if (id == "second") return "second";
+        var definition = model.Elements().Where(e => e.Name.LocalName == "listOfUnitDefinitions").Elements().FirstOrDefault(d => (string?)d.Attribute("id") == id);
+        var units = definition?.Elements().Where(e => e.Name.LocalName == "listOfUnits").Elements().ToList();
+        if (units is not [var unit] || (string?)unit.Attribute("kind") != "second" || (Number(unit, "exponent") ?? 1) != 1) return null;
+        var seconds = (Number(unit, "multiplier") ?? 1) * Math.Pow(10, Number(unit, "scale") ?? 0);
+        return SbmlConventions.TimeUnitOfSeconds(seconds)?.Name;
     }
 
     private string ReadoutSection(Dictionary<SbmlOutput, string> outputs)
