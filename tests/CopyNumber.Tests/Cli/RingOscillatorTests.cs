@@ -27,9 +27,19 @@ public sealed class RingOscillatorTests
                 Assert.DoesNotContain("linear noise approximation gives", text);
             }
             Assert.DoesNotContain("LNA ±2σ", report);
-            foreach (var species in new[] { "m1", "m2", "m3", "p1", "p2", "p3" })
-                Assert.Matches($@"\| {species} \| cycles with the rate equations \| \d+ of \d+ replicates oscillate: period [\d.]+ ± [\d.]+ .* amplitude [\d.]+ ± [\d.]+ copies .* coherence time [\d.]+ ± [\d.]+", report);
+            foreach (var name in new[] { "m1", "m2", "m3", "p1", "p2", "p3" })
+                Assert.Matches($@"\| {name} \| cycles with the rate equations \| \d+ of \d+ replicates oscillate: period [\d.]+ ± [\d.]+ .* amplitude [\d.]+ ± [\d.]+ copies .* coherence time [\d.]+ ± [\d.]+", report);
             Assert.Contains("extinction not judged: the rate equations themselves fall to", report);
+
+            // The tables of the oscillation sample: 200 replicates per species, and a spectrum whose largest power of p1 lies at the cycle's period.
+            using (var replicates = CopyNumber.Storage.ParquetTableReader.Open(Path.Combine(folder, "oscillation-replicates.parquet")))
+                Assert.Equal(6 * 200, replicates.Longs("replicate").Length);
+            using var spectrum = CopyNumber.Storage.ParquetTableReader.Open(Path.Combine(folder, "oscillation-spectrum.parquet"));
+            var species = spectrum.Strings("species");
+            var omega = spectrum.Doubles("omega");
+            var power = spectrum.Doubles("power");
+            var top = Enumerable.Range(0, species.Length).Where(k => species[k] == "p1").MaxBy(k => power[k]);
+            Assert.InRange(2 * Math.PI / omega[top], 30, 45);
         }
         finally
         {

@@ -54,9 +54,21 @@ public sealed record OscillationSample(double Step, double Discarded, double[][]
         var step = period / PointsPerPeriod;
         var discard = Math.Max(2 * period, 3 * relaxation);
         var horizon = Math.Max(until, discard + Math.Max(WindowPeriods * period, WindowDampingTimes * relaxation));
+        return Record(network, step, discard, horizon, (int)Math.Min(replicates, MaximumReplicates), seed, threads, cancel);
+    }
+
+    /// <summary>
+    /// Records <paramref name="count"/> replicates (seeded by <paramref name="seed"/>, direct method) every <paramref name="step"/> over
+    /// [0, <paramref name="horizon"/>] (rounded up to whole steps), keeping the points after <paramref name="discard"/>; for callers that
+    /// choose the sampling themselves (the false-alarm measurement samples networks that need no sample).
+    /// </summary>
+    public static OscillationSample Record(ReactionNetwork network, double step, double discard, double horizon, int count, ulong seed, int threads, CancellationToken cancel = default)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        if (!(step > 0 && discard >= 0 && horizon > discard + step && count >= 1))
+            throw new AnalysisInputException($"an oscillation sample needs step > 0, 0 ≤ transient < horizon and at least one replicate (got step {step}, transient {discard}, horizon {horizon}, {count} replicates)");
         var points = (long)Math.Ceiling(horizon / step);
         horizon = points * step;
-        var count = (int)Math.Min(replicates, MaximumReplicates);
         var species = network.Species.Count;
         var skip = (int)Math.Round(discard / step);
         var kept = (int)points + 1 - skip;

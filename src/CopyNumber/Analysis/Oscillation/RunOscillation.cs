@@ -11,7 +11,7 @@ public sealed record RunOscillation(RateEquationOscillation RateEquations, Oscil
 {
     /// <summary>
     /// Detects the rate equations' oscillation and, when they oscillate or ring, records and analyses the sample
-    /// (<see cref="OscillationSample.Record"/>) at false-alarm rate <paramref name="alpha"/> per species.
+    /// (<see cref="OscillationSample"/>) at false-alarm rate <paramref name="alpha"/> per species.
     /// </summary>
     public static RunOscillation Analyse(ReactionNetwork network, double until, long replicates, ulong seed, int threads, double alpha, CancellationToken cancel = default)
     {
