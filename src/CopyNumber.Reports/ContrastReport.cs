@@ -88,6 +88,8 @@ public static class ContrastReport
             sections.Add(new ReportSection(q.Name, sentences, [], figures));
         }
 
+        if (OscillationSection.Build(contrast.Oscillation, contrast.Network, timeUnit) is { } oscillationSection) sections.Add(oscillationSection);
+
         var heat = heatmapQuantity
             ?? contrast.Quantities
                 .Where(q => q.Verdicts.Any(v => v.Kind != VerdictKind.Adequate) && run.Distribution(q.Name, times.Length - 1).Counts.Length > 0)

@@ -40,6 +40,11 @@ public sealed class RingOscillatorTests
             var power = spectrum.Doubles("power");
             var top = Enumerable.Range(0, species.Length).Where(k => species[k] == "p1").MaxBy(k => power[k]);
             Assert.InRange(2 * Math.PI / omega[top], 30, 45);
+
+            // The report's oscillation figures: paths beside the rate equations, periods, spectra (PNG files).
+            foreach (var figure in new[] { "p1-cycle.png", "p1-periods.png", "p1-spectrum.png" })
+                Assert.Equal(0x89, File.ReadAllBytes(Path.Combine(folder, "figures", figure))[0]);
+            Assert.Contains("## Oscillation", report);
         }
         finally
         {
