@@ -1,4 +1,5 @@
 using CopyNumber.Analysis.Oscillation;
+using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Deterministic;
 using CopyNumber.Network;
 

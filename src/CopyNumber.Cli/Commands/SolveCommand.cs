@@ -1,4 +1,5 @@
 using CopyNumber.Analysis.Oscillation;
+using CopyNumber.Analysis.Verdicts;
 using System.CommandLine;
 using CopyNumber.Cli.Rendering;
 using CopyNumber.Deterministic;
@@ -49,7 +50,7 @@ internal static class SolveCommand
                 DeterministicTable.Write(path, solution, Provenance.For(loaded.Path, loaded.Text, arguments, DateTimeOffset.UtcNow));
             }
             writer.Write(Render(solution, loaded.Network.Units));
-            writer.WriteLine("oscillation: " + OscillationSentence.Describe(OscillationSentence.DetectForRun(loaded.Network, timeGrid.Until)));
+            writer.WriteLine("oscillation: " + OscillationSentence.Describe(CycleDetection.DetectForRun(loaded.Network, timeGrid.Until)));
             if (path is not null) writer.WriteLine($"wrote {Paths.Shown(path)}");
             return ExitCodes.Done;
         });

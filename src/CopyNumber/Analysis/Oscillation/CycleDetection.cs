@@ -70,7 +70,7 @@ public static class CycleDetection
                     var multipliers = Floquet(network, onCycle, period);
                     return new RateEquationOscillation(OscillationKind.LimitCycle, period, ranges, multipliers, neutral, [], [], onCycle,
                         network.Species[reference],
-                        $"peaks of {network.Species[reference]} of constant height (successive cycles' ranges differ by {change:G2}, below {CycleTolerance:G2})");
+                        string.Create(System.Globalization.CultureInfo.InvariantCulture, $"peaks of {network.Species[reference]} of constant height (successive cycles' ranges differ by {change:G2}, below {CycleTolerance:G2})"));
                 }
             }
         }
@@ -85,9 +85,28 @@ public static class CycleDetection
         var stable = eigenvalues.All(l => l.Real < 0 || l.Magnitude <= 1e-12);
         if (focus != default && stable && focus.Real < 0)
             return new RateEquationOscillation(OscillationKind.DampedOscillation, 2 * Math.PI / focus.Imaginary, [], [], neutral, eigenvalues, end, [],
-                network.Species[reference], $"a stable focus: the Jacobian at the steady state has the complex pair {Format(focus)}");
+                network.Species[reference], string.Create(System.Globalization.CultureInfo.InvariantCulture, $"a stable focus: the Jacobian at the steady state has the complex pair {focus.Real:G3} ± {focus.Imaginary:G3}i"));
         return new RateEquationOscillation(OscillationKind.None, double.NaN, [], [], neutral, eigenvalues, end, [], network.Species[reference],
             focus == default ? "a steady state whose linearisation has only real eigenvalues" : "a steady state that is not a stable focus");
+    }
+
+    /// <summary>How many times the run's length the detection integrates (the transient must fit in the first half).</summary>
+    public const double HorizonFactor = 4;
+
+    /// <summary>
+    /// Detects the rate equations' oscillation over <see cref="HorizonFactor"/> times <paramref name="until"/>; a failure of the
+    /// integration gives kind None with the failure as its reason (the oscillation is then not judged).
+    /// </summary>
+    public static RateEquationOscillation DetectForRun(ReactionNetwork network, double until)
+    {
+        try
+        {
+            return Detect(network, HorizonFactor * until);
+        }
+        catch (Exception e) when (e is SolverFailureException or ArithmeticException or AnalysisInputException)
+        {
+            return new RateEquationOscillation(OscillationKind.None, double.NaN, [], [], 0, [], [], [], "", $"not judged: {e.Message}");
+        }
     }
 
     /// <summary>The Jacobian's eigenvalues at <paramref name="state"/> (copies), in 1/time, sorted by decreasing real part.</summary>
@@ -219,7 +238,4 @@ public static class CycleDetection
         return monodromy.Evd().EigenValues.OrderBy(m => (m - 1).Magnitude).ToArray();
     }
 
-    /// <summary>A complex number as "a ± bi" with three significant digits.</summary>
-    public static string Format(Complex value) =>
-        $"{Verdicts.VerdictText.Number(value.Real)} ± {Verdicts.VerdictText.Number(Math.Abs(value.Imaginary))}i";
 }

@@ -16,7 +16,7 @@ public sealed record RunOscillation(RateEquationOscillation RateEquations, Oscil
     public static RunOscillation Analyse(ReactionNetwork network, double until, long replicates, ulong seed, int threads, double alpha, CancellationToken cancel = default)
     {
         ArgumentNullException.ThrowIfNull(network);
-        var rateEquations = OscillationSentence.DetectForRun(network, until);
+        var rateEquations = CycleDetection.DetectForRun(network, until);
         if (!OscillationSample.Wanted(rateEquations))
             return new RunOscillation(rateEquations, null, [], "no sample paths recorded: the rate equations neither oscillate nor have complex eigenvalues");
         var sample = OscillationSample.Record(network, rateEquations, until, replicates, seed, threads, cancel);

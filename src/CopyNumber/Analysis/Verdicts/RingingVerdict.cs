@@ -19,7 +19,7 @@ public static class RingingVerdict
         if (run.RateEquations.Kind == OscillationKind.LimitCycle || run.For(species) is not { } ensemble || !ensemble.Spectrum.Peak.Found) return null;
         var peak = ensemble.Spectrum.Peak;
         var rateEquations = run.RateEquations.Kind == OscillationKind.DampedOscillation
-            ? $"the rate equations settle into a stable focus (eigenvalues {CycleDetection.Format(run.RateEquations.LeastDampedComplexPair!.Value)}, damped period {Number(run.RateEquations.Period)})"
+            ? $"the rate equations settle into a stable focus (eigenvalues {OscillationSentence.Format(run.RateEquations.LeastDampedComplexPair!.Value)}, damped period {Number(run.RateEquations.Period)})"
             : "the rate equations do not oscillate";
         var lna = ensemble.LnaPower is { } power ? LnaComparison(ensemble, power) : "";
         var (coherence, coherenceError) = ensemble.CoherenceTime;

@@ -1,31 +1,11 @@
-using CopyNumber.Analysis.Verdicts;
-using CopyNumber.Deterministic;
-using CopyNumber.Network;
+using System.Numerics;
+using CopyNumber.Analysis.Oscillation;
 
-namespace CopyNumber.Analysis.Oscillation;
+namespace CopyNumber.Analysis.Verdicts;
 
 /// <summary>The one sentence that says what the rate equations do, for `solve` and the contrast alike.</summary>
 public static class OscillationSentence
 {
-    /// <summary>How many times the run's length the detection integrates (the transient must fit in the first half).</summary>
-    public const double HorizonFactor = 4;
-
-    /// <summary>
-    /// Detects the rate equations' oscillation over <see cref="HorizonFactor"/> times <paramref name="until"/>; a failure of the
-    /// integration gives kind None with the failure as its reason (the oscillation is then not judged).
-    /// </summary>
-    public static RateEquationOscillation DetectForRun(ReactionNetwork network, double until)
-    {
-        try
-        {
-            return CycleDetection.Detect(network, HorizonFactor * until);
-        }
-        catch (Exception e) when (e is SolverFailureException or ArithmeticException or AnalysisInputException)
-        {
-            return new RateEquationOscillation(OscillationKind.None, double.NaN, [], [], 0, [], [], [], "", $"not judged: {e.Message}");
-        }
-    }
-
     /// <summary>E.g. "the rate equations run on a stable limit cycle: period 36.2; p1 34.3 to 630, …; Floquet multipliers: trivial 1, largest other 0.163".</summary>
     public static string Describe(RateEquationOscillation o)
     {
@@ -39,12 +19,15 @@ public static class OscillationSentence
                 return $"the rate equations run on {(o.IsStableCycle ? "a stable" : "an unstable")} limit cycle: period {N(o.Period)}; range over one period (copies): {ranges}; "
                     + $"Floquet multipliers: trivial {o.FloquetMultipliers[0].Real.ToString("F6", System.Globalization.CultureInfo.InvariantCulture)}{neutral}{others}";
             case OscillationKind.DampedOscillation:
-                return $"the rate equations spiral into a stable focus: least damped eigenvalues {CycleDetection.Format(o.LeastDampedComplexPair!.Value)} "
+                return $"the rate equations spiral into a stable focus: least damped eigenvalues {Format(o.LeastDampedComplexPair!.Value)} "
                     + $"(period {N(o.Period)}, damping time {N(o.DampingTime)}); noise may keep such a circuit ringing (quasi-cycles)";
             default:
                 return $"the rate equations do not oscillate: {o.Reason}";
         }
     }
+
+    /// <summary>A complex number as "a ± bi" with three significant digits.</summary>
+    public static string Format(Complex value) => $"{N(value.Real)} ± {N(Math.Abs(value.Imaginary))}i";
 
     private static string N(double x) => VerdictText.Number(x);
 }
