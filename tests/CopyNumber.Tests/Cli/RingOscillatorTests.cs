@@ -28,7 +28,7 @@ public sealed class RingOscillatorTests
             }
             Assert.DoesNotContain("LNA ±2σ", report);
             foreach (var name in new[] { "m1", "m2", "m3", "p1", "p2", "p3" })
-                Assert.Matches($@"\| {name} \| cycles with the rate equations \| \d+ of \d+ replicates oscillate: period [\d.]+ ± [\d.]+ .* amplitude [\d.]+ ± [\d.]+ copies .* coherence time [\d.]+ ± [\d.]+", report);
+                Assert.Matches($@"\| {name} \| cycles with the rate equations \| oscillating in \d+ of \d+ replicates: period [\d.]+ ± [\d.]+ .* amplitude [\d.]+ ± [\d.]+ copies .* coherence time [\d.]+ ± [\d.]+", report);
             Assert.Contains("extinction not judged: the rate equations themselves fall to", report);
 
             // The tables of the oscillation sample: 200 replicates per species, and a spectrum whose largest power of p1 lies at the cycle's period.

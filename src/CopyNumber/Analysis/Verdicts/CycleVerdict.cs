@@ -44,7 +44,7 @@ public static class CycleVerdict
               + $"amplitude {Number(amplitude)} ± {Number(amplitudeError)} copies (spread {Number(amplitudeSpread)}) against {Number(range.Amplitude)}"
             : $"too few complete cycles per replicate for a period (rate equations: {Number(cycle.Period)})";
         return new QuantityOscillation(true, range.Minimum, new QuantityVerdict(species, VerdictKind.CyclesWithRateEquations,
-            $"{ensemble.ReplicatesWithPeriod} of {sample.Replicates} replicates oscillate: {periods}; spectral peak at period {Number(peak.Period)} "
+            $"oscillating in {ensemble.ReplicatesWithPeriod} of {sample.Replicates} replicates: {periods}; spectral peak at period {Number(peak.Period)} "
             + $"({Number(peak.Ratio)} times the low-frequency power, {Number(peak.Statistic)} standard errors above it, threshold {Number(peak.Threshold)}); {coherenceText}. "
             + $"The replicates drift out of phase, so the ensemble mean flattens: the mean, the linear noise approximation and the corrected mean are not compared along the cycle; {sampleText}{trough}"));
     }
