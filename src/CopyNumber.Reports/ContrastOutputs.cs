@@ -33,10 +33,19 @@ public static class ContrastOutputs
         FolderContents.RemoveContrastOutputs(folder);
         var table = Path.Combine(folder, TableFile);
         ContrastTable.Write(table, contrast.Quantities, metadata);
+        var written = new List<string> { table };
+        if (contrast.Oscillation is { Species.Count: > 0 } oscillation)
+        {
+            var spectrum = Path.Combine(folder, RunFiles.OscillationSpectrum);
+            var replicates = Path.Combine(folder, RunFiles.OscillationReplicates);
+            OscillationSpectrumTable.Write(spectrum, oscillation, metadata);
+            OscillationReplicatesTable.Write(replicates, oscillation, metadata);
+            written.AddRange([spectrum, replicates]);
+        }
         var report = ContrastReport.Build(contrast, thresholds, histogramTimes, heatmapQuantity);
         var markdown = ReportWriter.WriteMarkdown(report, folder, MarkdownFile);
         var html = Path.Combine(folder, HtmlFile);
         ReportWriter.WriteHtml(report, html);
-        return (contrast, [table, markdown, html]);
+        return (contrast, [.. written, markdown, html]);
     }
 }

@@ -26,7 +26,9 @@ public static class ContrastReport
             + $"(docs/methods-analysis.md gives each rule and its measured rate); in the tables a deviation at one time counts as resolved beyond {Format(thresholds.Z)} standard errors; "
             + $"verdicts need at least {thresholds.MinimumReplicates} replicates.",
         };
-        if (contrast.ExpansionFailure is not null)
+        if (contrast.ExpansionFailure == RunContrast.OnCycleNote)
+            cautions.Add($"The linear noise approximation and the corrected mean are {RunContrast.OnCycleNote}; the replicates are compared by their periods and amplitudes instead (section 'Oscillation').");
+        else if (contrast.ExpansionFailure is not null)
             cautions.Add($"The linear noise approximation could not be computed ({contrast.ExpansionFailure}); its bands and variance ratios are missing.");
         if (contrast.ExpansionStop is { } stop) cautions.Add(stop);
 
@@ -67,7 +69,7 @@ public static class ContrastReport
             var band = new BandSeries(q.Name, times, series.Mean, series.Quantile05, series.Quantile95, series.Deterministic,
                 lnaLower, lnaUpper, run.SamplePaths(q.Name, 5)) { TimeUnit = timeUnit };
             figures.Add(new ReportFigure($"{safe}-mean.png",
-                $"{q.Name}: ensemble mean with its 5–95% band, the rate equations and the LNA ±2σ band.", Figures.MeanWithBands(band)));
+                $"{q.Name}: ensemble mean with its 5–95% band, the rate equations{(lnaColumn >= 0 ? " and the LNA ±2σ band" : "")}.", Figures.MeanWithBands(band)));
 
             var snapshots = chosenTimes
                 .Select(k => (k, run.Distribution(q.Name, k)))
@@ -85,6 +87,8 @@ public static class ContrastReport
             sentences.Add($"P(0) at the final time: {Format(q.FinalProbabilityOfZero)}.");
             sections.Add(new ReportSection(q.Name, sentences, [], figures));
         }
+
+        if (OscillationSection.Build(contrast.Oscillation, contrast.Network, timeUnit) is { } oscillationSection) sections.Add(oscillationSection);
 
         var heat = heatmapQuantity
             ?? contrast.Quantities

@@ -1,4 +1,5 @@
 using CopyNumber.Analysis;
+using CopyNumber.Analysis.Oscillation;
 using System.Globalization;
 using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Deterministic;
@@ -23,6 +24,9 @@ public sealed record RunContrastResult(
     /// <summary>Where the error bars of the means come from: the sampling error of an ensemble, or an exact run's bounds.</summary>
     public string ErrorSource { get; init; } = RunContrast.SamplingErrorSource;
 
+    /// <summary>The oscillation analysis (rate equations, sample paths, spectra; docs/methods-analysis.md, section 7), or null for an exact run.</summary>
+    public RunOscillation? Oscillation { get; init; }
+
     /// <summary>
     /// When the expansion stopped at a state-triggered change, the sentence saying so and that the
     /// verdicts cover only the times before it; null otherwise.
@@ -41,6 +45,9 @@ public sealed record RunContrastResult(
 /// </summary>
 public static class RunContrast
 {
+    /// <summary>Why the expansions are left out while the rate equations run on a limit cycle.</summary>
+    public const string OnCycleNote = "not used along the rate equations' limit cycle, where its covariance grows without bound as the replicates' phases diffuse";
+
     /// <summary><see cref="RunContrastResult.ErrorSource"/> of an ensemble run.</summary>
     public const string SamplingErrorSource = "sampling: the standard error of the ensemble mean";
 
@@ -69,20 +76,29 @@ public static class RunContrast
         if (grid.Count != run.Times.Length)
             throw new RunFolderException($"the grid in '{run.Path}/manifest.json' has {grid.Count} points but the tables have {run.Times.Length}", run.Path);
 
-        SystemSizeExpansionSolution? expansion = null;
-        string? failure = null;
-        try
-        {
-            expansion = EffectiveMesoscopicRateEquations.Solve(network, grid, solver ?? new SolverOptions());
-        }
-        catch (Exception e) when (e is SolverFailureException or AnalysisInputException or ArithmeticException)
-        {
-            failure = e.Message;
-        }
-
         var exact = manifest.ExtraText(ExactRun.ErrorKindField) == ExactRun.ExactErrorKind;
         var z = (thresholds ?? ContrastThresholds.Default).Z;
         var zeroOne = ZeroOneSpecies.Of(network);
+        var thresholdsInForce = thresholds ?? ContrastThresholds.Default;
+        // Sample paths for the oscillation analysis are simulated here, from the run's seed, only when the rate equations
+        // oscillate or ring; an exact run has no replicates to sample.
+        var oscillation = exact ? null
+            : RunOscillation.Analyse(network, grid.Until, manifest.ReplicatesFinished, manifest.Seed, Environment.ProcessorCount, thresholdsInForce.FalseAlarmRate);
+        SystemSizeExpansionSolution? expansion = null;
+        string? failure = null;
+        if (oscillation?.RateEquations.Kind == OscillationKind.LimitCycle)
+            failure = OnCycleNote;
+        else
+        {
+            try
+            {
+                expansion = EffectiveMesoscopicRateEquations.Solve(network, grid, solver ?? new SolverOptions());
+            }
+            catch (Exception e) when (e is SolverFailureException or AnalysisInputException or ArithmeticException)
+            {
+                failure = e.Message;
+            }
+        }
         var switching = SwitchingJson.Read(manifest, network, grid.Until).Where(x => x.Replicates > 0).ToDictionary(x => x.Species);
         var contrasts = new List<QuantityContrast>();
         foreach (var series in run.Quantities)
@@ -108,9 +124,18 @@ public static class RunContrast
             // The switches are counted over the whole run [0, T]: they belong to the final grid time, when the run reached it.
             if (points.Count > 0 && points[^1].Time == grid.Until && switching.TryGetValue(series.Name, out var switches))
                 points[^1] = points[^1] with { SwitchesPerReplicate = switches.Mean };
-            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name)));
+            if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name),
+                OscillationOf(oscillation, series.Name, thresholdsInForce)));
         }
-        return new RunContrastResult(run, network, contrasts, expansion, failure) { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource };
+        return new RunContrastResult(run, network, contrasts, expansion, failure) { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation };
+    }
+
+    private static QuantityOscillation? OscillationOf(RunOscillation? run, string quantity, ContrastThresholds thresholds)
+    {
+        if (run is null) return null;
+        var cycle = CycleVerdict.For(run, quantity, thresholds);
+        if (cycle.OnCycle) return cycle;
+        return RingingVerdict.For(run, quantity, thresholds) is { } ringing ? new QuantityOscillation(false, double.NaN, ringing) : null;
     }
 
     private static double ReadArgument(RunFolder run, string name) =>

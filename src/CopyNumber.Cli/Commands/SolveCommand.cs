@@ -1,3 +1,5 @@
+using CopyNumber.Analysis.Oscillation;
+using CopyNumber.Analysis.Verdicts;
 using System.CommandLine;
 using CopyNumber.Cli.Rendering;
 using CopyNumber.Deterministic;
@@ -48,6 +50,7 @@ internal static class SolveCommand
                 DeterministicTable.Write(path, solution, Provenance.For(loaded.Path, loaded.Text, arguments, DateTimeOffset.UtcNow));
             }
             writer.Write(Render(solution, loaded.Network.Units));
+            writer.WriteLine("oscillation: " + OscillationSentence.Describe(CycleDetection.DetectForRun(loaded.Network, timeGrid.Until)));
             if (path is not null) writer.WriteLine($"wrote {Paths.Shown(path)}");
             return ExitCodes.Done;
         });

@@ -23,8 +23,11 @@ public static partial class Contrast
     /// <param name="lattice">The quantity's lattice from the model, on which its histograms are read; the plain integers when null.</param>
     /// <param name="zeroOneLaw">When the model bounds this species to {0, 1} by a conservation law, that law written out
     /// (e.g. "g_off + g_on = 1"); null to decide from the histograms' support.</param>
+    /// <param name="oscillation">The oscillation analysis of this quantity (docs/methods-analysis.md, section 7): on a limit cycle the
+    /// mean-shift and noise verdicts give way to the oscillation verdict and extinction is judged against the cycle's trough; null without one.</param>
     /// <exception cref="AnalysisInputException">No points, times not increasing or not finite, a replicate count below 1, or a threshold out of range.</exception>
-    public static QuantityContrast Analyze(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds = null, QuantityLattice? lattice = null, string? zeroOneLaw = null)
+    public static QuantityContrast Analyze(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds = null, QuantityLattice? lattice = null, string? zeroOneLaw = null,
+        QuantityOscillation? oscillation = null)
     {
         ArgumentNullException.ThrowIfNull(quantity);
         ArgumentNullException.ThrowIfNull(points);
@@ -81,10 +84,13 @@ public static partial class Contrast
         else
         {
             var shift = MeanShiftTest.Run(points, deviations, shapes, thresholds);
-            if (shift.Verdict(quantity, points, deviations, thresholds) is { } shifted) verdicts.Add(shifted);
-            if (NoiseVerdict.Judge(context, window, windowStart) is { } noisy) verdicts.Add(noisy);
+            // Along a limit cycle the mean and the expansions describe dephasing, not the replicates (section 7).
+            var onCycle = oscillation is { OnCycle: true };
+            if (!onCycle && shift.Verdict(quantity, points, deviations, thresholds) is { } shifted) verdicts.Add(shifted);
+            if (!onCycle && NoiseVerdict.Judge(context, window, windowStart) is { } noisy) verdicts.Add(noisy);
             if (Multimodal(context) is { } multimodal) verdicts.Add(multimodal);
-            if (ExtinctionVerdict.Judge(context) is { } extinction) verdicts.Add(extinction);
+            if ((!onCycle || oscillation!.Trough >= thresholds.ExtinctionFloor) && ExtinctionVerdict.Judge(context) is { } extinction) verdicts.Add(extinction);
+            if (oscillation?.Verdict is { } rings) verdicts.Add(rings);
             if (verdicts.Count == 0) verdicts.Add(Adequate(context, shift));
             // Why there is no CV verdict, said wherever the quantity's verdicts are read.
             else if (NoiseStatement.For(context, window) is { } statement)

@@ -15,6 +15,12 @@ public enum VerdictKind
     ExtinctionProne,
     /// <summary>Too few replicates to judge; no other verdict is given.</summary>
     TooFewReplicates,
+    /// <summary>The rate equations run on a limit cycle and the replicates oscillate with them (a coherent spectral peak); their periods and amplitudes are compared.</summary>
+    CyclesWithRateEquations,
+    /// <summary>The rate equations run on a limit cycle but the ensemble's spectrum shows no coherent peak.</summary>
+    CycleLostToNoise,
+    /// <summary>The rate equations settle, but the replicates ring: a coherent spectral peak (quasi-cycles).</summary>
+    NoiseDrivenRinging,
 }
 
 /// <summary>One verdict on one quantity, with a plain sentence giving the numbers and the threshold.</summary>
@@ -23,7 +29,7 @@ public enum VerdictKind
 /// <param name="Sentence">One sentence, e.g. "ensemble mean 15% (±2%) above the rate equations from t = 40 on; threshold 5%".</param>
 public sealed record QuantityVerdict(string Quantity, VerdictKind Kind, string Sentence)
 {
-    /// <summary>The verdict's label as written in reports: "adequate", "mean shifted", "noise-dominated", "multimodal", "extinction-prone", "too few replicates".</summary>
+    /// <summary>The verdict's label as written in reports: "adequate", "mean shifted", "noise-dominated", "multimodal", "extinction-prone", "too few replicates", "cycles with the rate equations", "cycle lost to noise", "noise-driven ringing".</summary>
     public string Label => LabelOf(Kind);
 
     /// <summary>The label of a verdict kind.</summary>
@@ -34,6 +40,9 @@ public sealed record QuantityVerdict(string Quantity, VerdictKind Kind, string S
         VerdictKind.NoiseDominated => "noise-dominated",
         VerdictKind.Multimodal => "multimodal",
         VerdictKind.ExtinctionProne => "extinction-prone",
+        VerdictKind.CyclesWithRateEquations => "cycles with the rate equations",
+        VerdictKind.CycleLostToNoise => "cycle lost to noise",
+        VerdictKind.NoiseDrivenRinging => "noise-driven ringing",
         _ => "too few replicates",
     };
 }

@@ -18,7 +18,7 @@ public sealed class ScenarioTests
     public void EveryScenarioParsesAndSaysItsValuesAreIllustrative()
     {
         var files = ScenarioFiles();
-        Assert.Equal(["inducer_pulse.cnet", "promoter_switch.cnet", "repressor_dimer.cnet", "toggle_pair.cnet"],
+        Assert.Equal(["inducer_pulse.cnet", "promoter_switch.cnet", "repressor_dimer.cnet", "ring_oscillator.cnet", "toggle_pair.cnet"],
             files.Select(Path.GetFileName));
         foreach (var file in files)
         {
