@@ -47,6 +47,8 @@ internal static class SweepCommand
             var baseModel = ModelArgument.Load(modelPath);
             ModelSupport.RequireSimulation(baseModel.Network); // before anything is written
             ModelSupport.RequireRateEquations(baseModel.Network); // the contrast needs the rate equations too
+            // A sweep whose laws never read the size would only start the same dynamics elsewhere (issue 14).
+            if (Runs.Scans.SizeDependence.WhySweepChangesNothing(baseModel) is { } why) throw new UserInputException(why);
             // One seed for every size, drawn once when not given.
             var baseSpecification = ensemble.Bind(parsed, baseModel, timeGrid, stored: null, "sweep");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);
