@@ -93,6 +93,17 @@ internal static class ScanCommand
         return command;
     }
 
+    /// <summary><c>copynumber merge</c> on the shards of a scan: one scan folder with every point, its table and report.</summary>
+    internal static int Merge(IReadOnlyList<string> inputs, string output, bool force, ContrastThresholds thresholds, TextWriter writer)
+    {
+        using var claim = OutputFolder.Claim(output, "scan", DateTimeOffset.Now, force, takeOver: false, "merge");
+        var merged = ScanMerge.Execute(inputs, claim.Folder, thresholds);
+        WriteReport(claim.Folder, merged.Model.Network.Name, merged.Axes, merged.Cells, thresholds, merged.Points);
+        writer.Write(Render(merged.Axes, merged.Cells));
+        writer.WriteLine($"merged {inputs.Count} scan folder{(inputs.Count == 1 ? "" : "s")}: {merged.Points} points; wrote {Paths.Shown(claim.Folder)}");
+        return ExitCodes.Done;
+    }
+
     /// <summary>The map's report (report.md, report.html and figures) in the scan folder.</summary>
     internal static void WriteReport(string root, string name, IReadOnlyList<ScanAxis> axes, IReadOnlyList<ScanCell> cells, ContrastThresholds thresholds, int points)
     {

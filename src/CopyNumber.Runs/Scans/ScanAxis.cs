@@ -25,9 +25,15 @@ public sealed record ScanRange(double Low, double High, bool Logarithmic, int Co
         ? Math.Exp(Math.Log(Low) + u * (Math.Log(High) - Math.Log(Low)))
         : Low + u * (High - Low));
 
-    private static double Significant(double value) =>
-        value == 0 || !double.IsFinite(value) ? value
-        : Math.Round(value / Math.Pow(10, Math.Floor(Math.Log10(Math.Abs(value))) - 11)) * Math.Pow(10, Math.Floor(Math.Log10(Math.Abs(value))) - 11);
+    private static double Significant(double value)
+    {
+        if (value == 0 || !double.IsFinite(value)) return value;
+        // Divide an integer by an exact power of ten (10^k is exact for k ≤ 22), so the result is the double nearest the decimal.
+        var k = 11 - (int)Math.Floor(Math.Log10(Math.Abs(value)));
+        return k is >= 0 and <= 22 ? Math.Round(value * Math.Pow(10, k)) / Math.Pow(10, k)
+            : k < 0 && -k <= 22 ? Math.Round(value / Math.Pow(10, -k)) * Math.Pow(10, -k)
+            : value;
+    }
 
     /// <summary>The <see cref="Count"/> grid values, ends exact.</summary>
     public double[] Values() => Count == 1 ? [Low]
