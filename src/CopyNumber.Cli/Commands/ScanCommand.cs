@@ -64,24 +64,11 @@ internal static class ScanCommand
             var writer = parsed.InvocationConfiguration.Output;
             error.WriteLine($"scanning {baseModel.Network.Name}: {request.ShardPoints.Count} of {points.Count} points ({scanDesign}{(pointShard.IsWhole ? "" : $", shard {pointShard}")}), " +
                 $"{specification.Replicates} replicates each, seed {specification.Seed} at every point; verdicts at α = {Numbers.Format(thresholds.FalseAlarmRate)} over the map ({Numbers.Format(thresholds.FalseAlarmRate / points.Count, 3)} per point) -> {Paths.Shown(root)}");
-            var terminal = !Console.IsErrorRedirected && error == Console.Error;
-            var observer = new ScanObserver
+            var (outcome, stopped) = RunPoints(session, request, histogramTimes, heatmap, error, "scan", "points");
+            if (stopped is { } code)
             {
-                Line = line => error.WriteLine(line),
-                Ensemble = replicates =>
-                {
-                    var monitor = new EnsembleMonitor();
-                    return (monitor, new ProgressDisplay(monitor, replicates, error, terminal));
-                },
-            };
-            ScanOutcome outcome;
-            using (session.Honour())
-                outcome = ScanRunner.Execute(request, (folder, perPoint) => ContrastOutputs.Write(folder, perPoint, histogramTimes, heatmap).Contrast, observer, session.Interrupt);
-            if (outcome.StopReason != StopReason.Finished)
-            {
-                error.WriteLine(outcome.Failure is { } failure ? $"error: {failure}" : $"the scan stopped ({outcome.StopReason.Name()})");
-                error.WriteLine($"the points finished so far are in {Paths.Shown(root)}; continue with the same command and --out {Paths.Shown(root)} --resume");
-                return outcome.StopReason switch { StopReason.Failed => ExitCodes.RunFailed, StopReason.Interrupted => ExitCodes.Interrupted, _ => ExitCodes.Done };
+                error.WriteLine($"continue with the same command and --out {Paths.Shown(root)} --resume");
+                return code;
             }
             if (pointShard.IsWhole)
                 WriteReport(root, baseModel.Network.Name, axes, outcome.Cells, thresholds, points.Count);
@@ -91,6 +78,32 @@ internal static class ScanCommand
             return ExitCodes.Done;
         });
         return command;
+    }
+
+    /// <summary>
+    /// Runs the scan's points with a line per point and a progress display per ensemble; the exit code when it stopped
+    /// early (1 a point failed, 130 interrupted, 0 a wall-clock limit), null when every point finished.
+    /// </summary>
+    internal static (ScanOutcome Outcome, int? Stopped) RunPoints(CliSession session, ScanRequest request, IReadOnlyList<double> histogramTimes, string? heatmap,
+        TextWriter error, string what, string parts)
+    {
+        var terminal = !Console.IsErrorRedirected && error == Console.Error;
+        var observer = new ScanObserver
+        {
+            Line = line => error.WriteLine(line),
+            Ensemble = replicates =>
+            {
+                var monitor = new EnsembleMonitor();
+                return (monitor, new ProgressDisplay(monitor, replicates, error, terminal));
+            },
+        };
+        ScanOutcome outcome;
+        using (session.Honour())
+            outcome = ScanRunner.Execute(request, (folder, perPoint) => ContrastOutputs.Write(folder, perPoint, histogramTimes, heatmap).Contrast, observer, session.Interrupt);
+        if (outcome.StopReason == StopReason.Finished) return (outcome, null);
+        error.WriteLine(outcome.Failure is { } failure ? $"error: {failure}" : $"the {what} stopped ({outcome.StopReason.Name()})");
+        error.WriteLine($"the {parts} finished so far are in {Paths.Shown(request.Folder)}");
+        return (outcome, outcome.StopReason switch { StopReason.Failed => ExitCodes.RunFailed, StopReason.Interrupted => ExitCodes.Interrupted, _ => ExitCodes.Done });
     }
 
     /// <summary><c>copynumber merge</c> on the shards of a scan: one scan folder with every point, its table and report.</summary>

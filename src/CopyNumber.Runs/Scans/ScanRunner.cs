@@ -68,7 +68,7 @@ public static class ScanRunner
             }
             else
             {
-                var specification = scan.Specification with { Model = model, Size = size, Command = "scan" };
+                var specification = scan.Specification with { Model = model, Size = size };
                 var storedSettings = stored is null ? null : StoredSettings.Read(stored);
                 stored?.EnsureSameRun(specification.Settings(EnsembleOptions.DefaultBlockSize));
                 var plan = RunPlan.Make(specification, storedSettings, cancel);

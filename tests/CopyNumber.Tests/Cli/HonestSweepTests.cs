@@ -20,6 +20,7 @@ public class HonestSweepTests
         Assert.Equal(2, run.ExitCode);
         Assert.Contains("size", run.Error);
         Assert.Contains("would not change", run.Error);
-        Assert.False(Directory.Exists(Path.Combine(root, "size-10")), "nothing is run for a refused sweep");
+        Assert.False(Directory.Exists(Path.Combine(root, "point-0001")), "nothing is run for a refused sweep");
+        Assert.Contains("U would start at 250", run.Error);
     }
 }
