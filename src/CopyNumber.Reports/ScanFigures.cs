@@ -59,7 +59,7 @@ internal static class ScanFigures
     /// more stable steady states of the rate equations as the bistable region (dashed).
     /// </summary>
     public static byte[] VerdictMap(string quantity, (string Name, bool Log) xAxis, (string Name, bool Log) yAxis, IReadOnlyList<ScanCell> cells, bool isGrid,
-        int width = 900, int height = 700)
+        int width = 1150, int height = 700)
     {
         var plot = FigureLook.NewPlot($"verdicts for {quantity}", xAxis.Log ? xAxis.Name + " (log scale)" : xAxis.Name, yAxis.Log ? yAxis.Name + " (log scale)" : yAxis.Name);
         double X(ScanCell c) => xAxis.Log ? Math.Log10(c.Values[0]) : c.Values[0];
@@ -89,8 +89,7 @@ internal static class ScanFigures
         }
         if (xAxis.Log) plot.Axes.Bottom.TickGenerator = LogTicks.For(xs[0] - dx / 2, xs[^1] + dx / 2);
         if (yAxis.Log) plot.Axes.Left.TickGenerator = LogTicks.For(ys[0] - dy / 2, ys[^1] + dy / 2);
-        plot.ShowLegend(Alignment.UpperRight);
-        plot.Legend.Orientation = Orientation.Vertical;
+        plot.ShowLegend(Edge.Right); // outside the data, so no cell is hidden under it
         return FigureLook.ToPng(plot, width, height);
     }
 
