@@ -46,7 +46,7 @@ public static class ScanCells
                 last >= 0 ? q.VarianceRatio[last] : double.NaN,
                 last >= 0 && q.Modes[last] is { } modes ? modes.Count : 0,
                 q.FinalProbabilityOfZero,
-                steady.Stable.Count, states, point.FolderName));
+                steady.Stable.Count, states, steady.Unsettled, point.FolderName));
         }
         return cells;
     }

@@ -21,13 +21,14 @@ namespace CopyNumber.Storage;
 /// <param name="ZeroFraction">P(0) at the final time.</param>
 /// <param name="StableSteadyStates">Stable steady states of the rate equations at the point (−1 when not determined).</param>
 /// <param name="SteadyStatesText">Those steady states in words (the quantity's value at each).</param>
+/// <param name="UnsettledStarts">Starting points whose rate-equation trajectory never settled (a limit cycle, a slow drift or growth); 0 when all settled.</param>
 /// <param name="Folder">The point's run folder, relative to the scan folder.</param>
 public sealed record ScanCell(
     long Point, IReadOnlyList<double> Values, string Quantity, string Verdicts, IReadOnlyList<long> Flags,
     double LargestDeviation, double LargestDeviationError, double LargestRelativeDeviation, double LargestRelativeDeviationError,
     double FinalRelativeDeviation, double FinalRelativeDeviationError,
     double CoefficientOfVariation, double LnaRatio, long Modes, double ZeroFraction,
-    long StableSteadyStates, string SteadyStatesText, string Folder);
+    long StableSteadyStates, string SteadyStatesText, long UnsettledStarts, string Folder);
 
 /// <summary><c>scan.parquet</c>: one row per scan point and quantity, points ascending, quantities in the network's order.</summary>
 public static class ScanTable
@@ -53,6 +54,7 @@ public static class ScanTable
         columns.Add(new("p_zero", ColumnType.Double));
         columns.Add(new("stable_steady_states", ColumnType.Int64));
         columns.Add(new("steady_states", ColumnType.String));
+        columns.Add(new("unsettled_starts", ColumnType.Int64));
         columns.Add(new("folder", ColumnType.String));
 
         var data = new List<Array> { cells.Select(c => c.Point).ToArray() };
@@ -72,6 +74,7 @@ public static class ScanTable
         data.Add(cells.Select(c => c.ZeroFraction).ToArray());
         data.Add(cells.Select(c => c.StableSteadyStates).ToArray());
         data.Add(cells.Select(c => c.SteadyStatesText).ToArray());
+        data.Add(cells.Select(c => c.UnsettledStarts).ToArray());
         data.Add(cells.Select(c => c.Folder).ToArray());
         using var writer = ParquetTableWriter.Create(path, columns, metadata);
         writer.WriteRowGroup(data);
