@@ -66,8 +66,11 @@ internal static class ScanFigures
         double Y(ScanCell c) => yAxis.Log ? Math.Log10(c.Values[1]) : c.Values[1];
         var xs = cells.Select(X).Distinct().Order().ToArray();
         var ys = cells.Select(Y).Distinct().Order().ToArray();
-        var dx = Spacing(xs);
-        var dy = Spacing(ys);
+        // On a grid a cell fills the space to its neighbours; scattered points (a Latin hypercube) get squares of
+        // half the spacing of a √N × √N grid over the same ranges.
+        var side = Math.Max(3, Math.Sqrt(cells.Count));
+        var dx = isGrid ? Spacing(xs) : Math.Max(xs[^1] - xs[0], 1e-9) / side / 2;
+        var dy = isGrid ? Spacing(ys) : Math.Max(ys[^1] - ys[0], 1e-9) / side / 2;
         var used = new HashSet<string>();
         foreach (var c in cells)
         {
@@ -77,6 +80,13 @@ internal static class ScanFigures
             rectangle.LineColor = Colors.White;
             rectangle.LineWidth = 1;
             if (used.Add(column)) rectangle.LegendText = $"{letter}: {label}";
+            if (!isGrid && c.StableSteadyStates >= 2)
+            {
+                // Scattered points have no neighbours to draw a region's edge between: each bistable point is outlined.
+                rectangle.LineColor = VerdictColours.Bistable;
+                rectangle.LinePattern = LinePattern.Dashed;
+                rectangle.LineWidth = 2.5f;
+            }
             var text = plot.Add.Text(letter, X(c), Y(c));
             text.LabelFontSize = 13;
             text.LabelFontColor = column is "adequate" or "noise_dominated" or "too_few_replicates" ? Palette.Ink : Colors.White;

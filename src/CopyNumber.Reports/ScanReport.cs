@@ -58,7 +58,7 @@ public static class ScanReport
         {
             var distinct = cells.Select(c => (c.Values[0], c.Values[1])).Distinct().Count();
             var isGrid = distinct == cells.Select(c => c.Values[0]).Distinct().Count() * cells.Select(c => c.Values[1]).Distinct().Count();
-            if (!isGrid) paragraphs.Add("The points are not a full grid (a Latin hypercube): the map shows each point, without the boundary lines, which need neighbours on a grid.");
+            if (!isGrid) paragraphs.Add("The points are not a full grid (a Latin hypercube): the map shows each point, without the adequacy boundary, which needs neighbours on a grid; a point where the rate equations are bistable is outlined dashed.");
             foreach (var q in quantities)
                 figures.Add(new($"scan-map-{Safe(q)}.png",
                     $"Verdicts for {q} over {axes[0].Name} and {axes[1].Name}: A adequate, M mean shifted, N noise-dominated, B multimodal, X extinction-prone (the first that applies, in the order B, X, M, N). " +
