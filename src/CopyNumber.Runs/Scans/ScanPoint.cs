@@ -6,5 +6,5 @@ namespace CopyNumber.Runs.Scans;
 public sealed record ScanPoint(int Index, IReadOnlyList<double> Values)
 {
     /// <summary>The point's run folder name inside the scan folder, e.g. <c>point-0007</c>.</summary>
-    public string FolderName => "point-" + Index.ToString("D4", CultureInfo.InvariantCulture);
+    public string FolderName => Storage.RunFiles.ScanPointPrefix + Index.ToString("D4", CultureInfo.InvariantCulture);
 }

@@ -34,7 +34,7 @@ public sealed record ScanOutcome(IReadOnlyList<ScanCell> Cells, StopReason StopR
 public static class ScanRunner
 {
     /// <summary>The table's file name inside the scan folder.</summary>
-    public const string TableFile = "scan.parquet";
+    public const string TableFile = RunFiles.Scan;
 
     /// <summary>Runs <paramref name="scan"/>; <paramref name="writeContrast"/> writes a finished point's contrast outputs (table, report) and returns its contrast.</summary>
     public static ScanOutcome Execute(ScanRequest scan, Func<string, ContrastThresholds, RunContrastResult> writeContrast, ScanObserver? observer = null, CancellationToken cancel = default)

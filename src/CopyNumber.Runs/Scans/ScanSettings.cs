@@ -14,7 +14,7 @@ namespace CopyNumber.Runs.Scans;
 public sealed record ScanSettings(IReadOnlyDictionary<string, string> Shared, Shard Shard)
 {
     /// <summary>The file's name.</summary>
-    public const string FileName = "scan.json";
+    public const string FileName = RunFiles.ScanRecord;
 
     /// <summary>The settings of <paramref name="scan"/>.</summary>
     public static ScanSettings Of(ScanRequest scan)

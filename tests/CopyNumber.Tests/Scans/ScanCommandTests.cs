@@ -41,4 +41,20 @@ public class ScanCommandTests
         var again = CliRun.Of("contrast", Path.Combine(folder, "point-0001"));
         Assert.True(again.ExitCode == 0, again.Error);
     }
+
+    [Fact]
+    public void Force_replaces_a_scan_in_its_folder_and_refuses_a_folder_with_foreign_files()
+    {
+        using var scratch = new ScratchFolder();
+        var folder = scratch.File("scan");
+        string[] args = ["scan", CliRun.Scenario("toggle_pair.cnet"), "--vary", "a=10,20", "--until", "2", "--every", "1", "--replicates", "100", "--seed", "4", "--method", "direct", "--out", folder];
+        Assert.Equal(0, CliRun.Of(args).ExitCode);
+        Assert.Equal(2, CliRun.Of(args).ExitCode); // not empty
+        var again = CliRun.Of([.. args, "--force"]);
+        Assert.True(again.ExitCode == 0, again.Error);
+        File.WriteAllText(Path.Combine(folder, "notes.txt"), "mine");
+        var refused = CliRun.Of([.. args, "--force"]);
+        Assert.Equal(2, refused.ExitCode);
+        Assert.Contains("notes.txt", refused.Error);
+    }
 }
