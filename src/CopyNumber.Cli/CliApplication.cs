@@ -16,6 +16,7 @@ internal static class CliApplication
         root.Subcommands.Add(MergeCommand.Create());
         root.Subcommands.Add(ContrastCommand.Create());
         root.Subcommands.Add(SweepCommand.Create(session));
+        root.Subcommands.Add(ScanCommand.Create(session));
         root.Subcommands.Add(ExactCommand.Create(session));
         root.Subcommands.Add(ImportCommand.Create());
         root.Subcommands.Add(ExportCommand.Create());

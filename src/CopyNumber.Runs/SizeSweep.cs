@@ -1,6 +1,4 @@
-using CopyNumber.Analysis;
 using CopyNumber.Storage;
-using CopyNumber.Deterministic;
 
 namespace CopyNumber.Runs;
 
@@ -41,27 +39,15 @@ public sealed class SizeSweep
     /// <summary>Per quantity, the smallest size from which every larger tried size is adequate; null when even the largest is not.</summary>
     public IReadOnlyDictionary<string, double?> AdequateFrom { get; }
 
-    /// <summary>Summarises the contrasts of the runs, one per size.</summary>
-    public static SizeSweep Summarise(IReadOnlyList<(double Size, RunContrastResult Contrast)> runs)
+    /// <summary>Summarises a scan over <c>size</c> (its only varied name): one point per size and quantity, in the scan's order.</summary>
+    public static SizeSweep Summarise(IReadOnlyList<ScanCell> cells)
     {
-        var ordered = runs.OrderBy(r => r.Size).ToArray();
-        var points = new List<SweepPoint>();
-        foreach (var (size, contrast) in ordered)
-        {
-            foreach (var q in contrast.Quantities)
-            {
-                var largest = q.LargestResolvedRelativeDeviation;
-                var last = q.Times.Count - 1;
-                var verdicts = string.Join(", ", q.Verdicts.Select(v => v.Label));
-                points.Add(new SweepPoint(size, q.Name,
-                    largest is null ? double.NaN : Math.Abs(largest.Relative),
-                    largest?.RelativeHalfWidth ?? double.NaN,
-                    q.CoefficientOfVariation[last],
-                    q.VarianceRatio[last],
-                    verdicts,
-                    q.Verdicts.All(v => v.Kind == VerdictKind.Adequate)));
-            }
-        }
+        ArgumentNullException.ThrowIfNull(cells);
+        var order = cells.Select(c => c.Quantity).Distinct().Select((q, i) => (q, i)).ToDictionary(p => p.q, p => p.i);
+        var points = cells
+            .Select(c => new SweepPoint(c.Values[0], c.Quantity, c.LargestRelativeDeviation, c.LargestRelativeDeviationError,
+                c.CoefficientOfVariation, c.LnaRatio, c.Verdicts, c.Flags[0] == 1))
+            .OrderBy(p => order[p.Quantity]).ThenBy(p => p.Size).ToArray();
         var adequateFrom = new Dictionary<string, double?>();
         foreach (var group in points.GroupBy(p => p.Quantity))
         {
@@ -73,9 +59,6 @@ public sealed class SizeSweep
             }
             adequateFrom[group.Key] = from;
         }
-        var sorted = points.OrderBy(p => p.Quantity, StringComparer.Ordinal).ThenBy(p => p.Size).ToArray();
-        // Keep the network's quantity order rather than alphabetical.
-        var order = ordered.Length > 0 ? ordered[0].Contrast.Quantities.Select((q, i) => (q.Name, i)).ToDictionary(p => p.Name, p => p.i) : [];
-        return new SizeSweep(sorted.OrderBy(p => order.GetValueOrDefault(p.Quantity, int.MaxValue)).ThenBy(p => p.Size).ToArray(), adequateFrom);
+        return new SizeSweep(points, adequateFrom);
     }
 }

@@ -27,6 +27,9 @@ internal static class MergeCommand
         {
             var inputs = parsed.GetValue(folders)!;
             var thresholds = contrastOptions.Thresholds(parsed);
+            // The shards of a scan (issue 14) merge point by point.
+            if (Runs.Scans.ScanSettings.IsScan(inputs[0]))
+                return ScanCommand.Merge(inputs, parsed.GetValue(output)!, parsed.GetValue(force), thresholds, parsed.InvocationConfiguration.Output);
             var histogramTimes = contrastOptions.Times(parsed);
             var outcome = RunMerge.Execute(inputs, parsed.GetValue(output)!, parsed.GetValue(force), parsed.GetValue(takeOver));
             var result = outcome.Ensemble;

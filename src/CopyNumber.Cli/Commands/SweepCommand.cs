@@ -10,13 +10,15 @@ using CopyNumber.Storage;
 using CopyNumber.Reports;
 using CopyNumber.Stochastic;
 using CopyNumber.Cli.Rendering;
+using CopyNumber.Runs.Scans;
 
 namespace CopyNumber.Cli.Commands;
 
 /// <summary>
-/// <c>copynumber sweep MODEL --sizes 1,10,100 ...</c>: the same model at several system sizes Ω
-/// (initial counts scaled by Ω/Ω₀, concentrations unchanged), to find from which size on the rate
-/// equations are adequate.
+/// <c>copynumber sweep MODEL --sizes 1,10,100 ...</c>: a scan over the system size Ω (initial counts
+/// scaled by Ω/Ω₀, initial concentrations kept, mass-action constants of order m giving c = k·Ω^(1−m),
+/// <c>size</c> taking the new value in every law and parameter), to find from which size on the rate
+/// equations are adequate. A model whose propensities in counts do not change with Ω is refused.
 /// </summary>
 internal static class SweepCommand
 {
@@ -47,6 +49,8 @@ internal static class SweepCommand
             var baseModel = ModelArgument.Load(modelPath);
             ModelSupport.RequireSimulation(baseModel.Network); // before anything is written
             ModelSupport.RequireRateEquations(baseModel.Network); // the contrast needs the rate equations too
+            // A sweep whose laws never read the size would only start the same dynamics elsewhere (issue 14).
+            if (Runs.Scans.SizeDependence.WhySweepChangesNothing(baseModel) is { } why) throw new UserInputException(why);
             // One seed for every size, drawn once when not given.
             var baseSpecification = ensemble.Bind(parsed, baseModel, timeGrid, stored: null, "sweep");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, baseModel.Network, timeGrid.Until);
@@ -55,39 +59,13 @@ internal static class SweepCommand
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
 
-            var runs = new List<(double, RunContrastResult)>();
-            foreach (var size in sizeList)
-            {
-                var loaded = ModelArgument.Load(modelPath, new CompileOptions(SizeOverride: size));
-                var specification = baseSpecification with { Model = loaded, Size = size };
-                var folder = Path.Combine(root, "size-" + size.ToString("R", CultureInfo.InvariantCulture));
-                Directory.CreateDirectory(folder);
-                // Copy numbers grow with the size, so auto may choose differently at each size.
-                var plan = RunPlan.Make(specification);
-                SimulationOutcome outcome;
-                using (session.Honour())
-                {
-                    error.WriteLine($"size {size.ToString(CultureInfo.InvariantCulture)}: {specification.Replicates} replicates, {plan.MethodReason} -> {Paths.Shown(folder)}");
-                    var monitor = new EnsembleMonitor();
-                    using (new Rendering.ProgressDisplay(monitor, specification.Replicates, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
-                        outcome = SimulationRun.Execute(new SimulationRequest(plan, folder), monitor, session.Interrupt);
-                }
-                if (outcome.StopReason == StopReason.Interrupted)
-                {
-                    error.WriteLine($"interrupted during size {size}: the sizes finished so far are in {Paths.Shown(root)}");
-                    return ExitCodes.Interrupted;
-                }
-                if (outcome.StopReason != StopReason.Finished)
-                {
-                    error.WriteLine(outcome.Failure is { } failure ? $"error: at size {size}: {failure}" : $"error: size {size} stopped early ({outcome.StopReason}); a sweep needs every size whole");
-                    error.WriteLine($"the sizes finished so far are in {Paths.Shown(root)}");
-                    return outcome.StopReason == StopReason.Failed ? ExitCodes.RunFailed : ExitCodes.Done;
-                }
-                var (contrast, _) = ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap);
-                runs.Add((size, contrast));
-            }
-
-            var sweep = SizeSweep.Summarise(runs);
+            // A sweep is a scan over size (issue 14): each size a point with its own run folder, the same seed
+            // at every size, the verdicts' error rate held over all the sizes.
+            var axis = ScanAxis.Parse("size=" + string.Join(",", sizeList.Select(ScanAxis.Format)), baseModel.Network);
+            var scan = new ScanRequest(baseModel, [axis], ScanDesign.Grid, baseSpecification, thresholds, root);
+            var (outcome, stopped) = ScanCommand.RunPoints(session, scan, histogramTimes, heatmap, error, "sweep", "sizes");
+            if (stopped is { } code) return code;
+            var sweep = SizeSweep.Summarise(outcome.Cells);
             var metadata = Provenance.For(baseModel.Path, baseModel.Text,
                 new Dictionary<string, string> { ["command"] = "sweep", ["sizes"] = parsed.GetValue(sizes)!, ["seed"] = baseSpecification.Seed.ToString(CultureInfo.InvariantCulture) },
                 DateTimeOffset.UtcNow);

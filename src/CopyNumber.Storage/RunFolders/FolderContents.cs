@@ -12,7 +12,7 @@ public static class FolderContents
 
     /// <summary>
     /// Empties <paramref name="folder"/> for a new run written over an old one (<c>--force</c>): removes the files
-    /// a run folder, its contrast or a size sweep may hold, and nothing else. A folder holding anything we
+    /// a run folder, its contrast, a size sweep or a scan may hold, and nothing else. A folder holding anything we
     /// did not write is refused with nothing removed, since <c>--force</c> is meant to replace a run, not
     /// to delete the user's files. The claim and lock stay: the caller holds them.
     /// </summary>
@@ -57,7 +57,7 @@ public static class FolderContents
                     foreach (var figure in Directory.EnumerateFileSystemEntries(entry).Order(StringComparer.Ordinal))
                         if (!IsFigure(figure)) yield return Path.Combine(name, Path.GetFileName(figure));
                 }
-                else if (allowSweep && name.StartsWith(RunFiles.SweepRunPrefix, StringComparison.Ordinal))
+                else if (allowSweep && (name.StartsWith(RunFiles.SweepRunPrefix, StringComparison.Ordinal) || name.StartsWith(RunFiles.ScanPointPrefix, StringComparison.Ordinal)))
                 {
                     foreach (var inner in Foreign(entry, allowSweep: false)) yield return Path.Combine(name, inner);
                 }
@@ -66,7 +66,7 @@ public static class FolderContents
                     yield return name + Path.DirectorySeparatorChar;
                 }
             }
-            else if (!RunFiles.IsKnown(name) && !(allowSweep && RunFiles.BaseName(name) == RunFiles.Sweep))
+            else if (!RunFiles.IsKnown(name) && !(allowSweep && RunFiles.BaseName(name) is RunFiles.Sweep or RunFiles.Scan or RunFiles.ScanRecord))
             {
                 yield return name;
             }

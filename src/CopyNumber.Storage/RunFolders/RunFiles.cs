@@ -18,6 +18,9 @@ public static class RunFiles
     /// <summary>What a size sweep writes into its folder beside one run folder per size (<see cref="SweepRunPrefix"/><c>&lt;size&gt;</c>) and the two reports.</summary>
     public const string Sweep = "sweep.parquet", SweepRunPrefix = "size-";
 
+    /// <summary>What a scan (and a sweep, which is one) writes beside one run folder per point (<see cref="ScanPointPrefix"/><c>NNNN</c>): its table and its record.</summary>
+    public const string Scan = "scan.parquet", ScanRecord = "scan.json", ScanPointPrefix = "point-";
+
     /// <summary>
     /// The claim of the run that holds the folder (host, process, start; see <see cref="FolderClaim"/>) and the
     /// file its advisory lock is taken on. Both exist only while a run holds the folder, or after one died.

@@ -13,8 +13,10 @@ public class SweepTests
         var root = scratch.File("sweep");
         var run = CliRun.Of("sweep", model, "--sizes", "1,4,16", "--until", "8", "--every", "1", "--replicates", "2000", "--seed", "9", "--out", root);
         Assert.Equal(0, run.ExitCode);
-        foreach (var size in new[] { "1", "4", "16" })
-            Assert.True(File.Exists(Path.Combine(root, $"size-{size}", "moments.parquet")), $"size {size}");
+        // A sweep is a scan over size: one run folder per size, point-0000 the smallest.
+        foreach (var point in new[] { "point-0000", "point-0001", "point-0002" })
+            Assert.True(File.Exists(Path.Combine(root, point, "moments.parquet")), point);
+        Assert.True(File.Exists(Path.Combine(root, "scan.parquet")));
         var table = ParquetReadBack.Of(Path.Combine(root, "sweep.parquet"));
         Assert.Equal(["size", "species", "relative_deviation", "relative_half_width", "cv", "variance_ratio", "verdicts", "adequate_from"], table.Names);
         var sizes = (double[])table.Values[0];
