@@ -18,6 +18,9 @@ internal static class VerdictColours
         ("extinction_prone", "X", "extinction-prone", Color.FromHex("#3B3B3B")),
         ("mean_shifted", "M", "mean shifted", Color.FromHex("#1F4E79")),
         ("noise_dominated", "N", "noise-dominated", Color.FromHex("#D9952B")),
+        ("cycle_lost_to_noise", "L", "cycle lost to noise", Color.FromHex("#8C510A")),
+        ("cycles_with_rate_equations", "C", "cycles with the rate equations", Color.FromHex("#6BAED6")),
+        ("noise_driven_ringing", "R", "noise-driven ringing", Color.FromHex("#01665E")),
         ("adequate", "A", "adequate", Color.FromHex("#E3F1E6")),
     ];
 

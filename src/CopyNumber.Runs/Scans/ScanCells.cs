@@ -1,5 +1,6 @@
 using System.Globalization;
 using CopyNumber.Analysis;
+using CopyNumber.Analysis.Oscillation;
 using CopyNumber.Analysis.SteadyStates;
 using CopyNumber.Network;
 using CopyNumber.Storage;
@@ -11,7 +12,8 @@ public static class ScanCells
 {
     /// <summary>The verdict kinds in the order of <see cref="ScanTable.VerdictColumns"/>.</summary>
     public static readonly IReadOnlyList<VerdictKind> VerdictOrder =
-        [VerdictKind.Adequate, VerdictKind.MeanShifted, VerdictKind.NoiseDominated, VerdictKind.Multimodal, VerdictKind.ExtinctionProne, VerdictKind.TooFewReplicates];
+        [VerdictKind.Adequate, VerdictKind.MeanShifted, VerdictKind.NoiseDominated, VerdictKind.Multimodal, VerdictKind.ExtinctionProne, VerdictKind.TooFewReplicates,
+         VerdictKind.CyclesWithRateEquations, VerdictKind.CycleLostToNoise, VerdictKind.NoiseDrivenRinging];
 
     /// <summary>The point's rows.</summary>
     /// <param name="point">The point.</param>
@@ -24,6 +26,14 @@ public static class ScanCells
         ArgumentNullException.ThrowIfNull(network);
         ArgumentNullException.ThrowIfNull(contrast);
         var steady = SteadyStateSearch.Find(network, seed);
+        // A limit cycle never counts as a steady state (its starts are unsettled); the oscillation analysis names it.
+        var behaviour = contrast.Oscillation?.RateEquations.Kind switch
+        {
+            OscillationKind.LimitCycle => "limit cycle",
+            OscillationKind.DampedOscillation => "damped oscillation",
+            OscillationKind.None => "settles",
+            _ => "",
+        };
         var cells = new List<ScanCell>();
         foreach (var q in contrast.Quantities)
         {
@@ -46,7 +56,8 @@ public static class ScanCells
                 last >= 0 ? q.VarianceRatio[last] : double.NaN,
                 last >= 0 && q.Modes[last] is { } modes ? modes.Count : 0,
                 q.FinalProbabilityOfZero,
-                steady.Stable.Count, states, steady.Unsettled, point.FolderName));
+                steady.Stable.Count, states, steady.Unsettled, point.FolderName,
+                behaviour, contrast.Oscillation?.RateEquations.Kind is OscillationKind.LimitCycle or OscillationKind.DampedOscillation ? contrast.Oscillation.RateEquations.Period : double.NaN));
         }
         return cells;
     }

@@ -23,18 +23,24 @@ namespace CopyNumber.Storage;
 /// <param name="SteadyStatesText">Those steady states in words (the quantity's value at each).</param>
 /// <param name="UnsettledStarts">Starting points whose rate-equation trajectory never settled (a limit cycle, a slow drift or growth); 0 when all settled.</param>
 /// <param name="Folder">The point's run folder, relative to the scan folder.</param>
+/// <param name="RateEquationBehaviour">What the rate equations do at the point after their transient: <c>limit cycle</c>,
+/// <c>damped oscillation</c>, <c>settles</c>, or empty when not analysed (docs/methods-analysis.md, section 7).</param>
+/// <param name="RateEquationPeriod">The period of that cycle (or of the focus's ringing, 2π/|Im λ|), in model time units; NaN otherwise.</param>
 public sealed record ScanCell(
     long Point, IReadOnlyList<double> Values, string Quantity, string Verdicts, IReadOnlyList<long> Flags,
     double LargestDeviation, double LargestDeviationError, double LargestRelativeDeviation, double LargestRelativeDeviationError,
     double FinalRelativeDeviation, double FinalRelativeDeviationError,
     double CoefficientOfVariation, double LnaRatio, long Modes, double ZeroFraction,
-    long StableSteadyStates, string SteadyStatesText, long UnsettledStarts, string Folder);
+    long StableSteadyStates, string SteadyStatesText, long UnsettledStarts, string Folder,
+    string RateEquationBehaviour = "", double RateEquationPeriod = double.NaN);
 
 /// <summary><c>scan.parquet</c>: one row per scan point and quantity, points ascending, quantities in the network's order.</summary>
 public static class ScanTable
 {
     /// <summary>The 0/1 verdict columns, in file order.</summary>
-    public static readonly IReadOnlyList<string> VerdictColumns = ["adequate", "mean_shifted", "noise_dominated", "multimodal", "extinction_prone", "too_few_replicates"];
+    public static readonly IReadOnlyList<string> VerdictColumns =
+        ["adequate", "mean_shifted", "noise_dominated", "multimodal", "extinction_prone", "too_few_replicates",
+         "cycles_with_rate_equations", "cycle_lost_to_noise", "noise_driven_ringing"];
 
     /// <summary>A varied name's column, <c>vary_NAME</c>.</summary>
     public static string ValueColumn(string name) => "vary_" + name;
@@ -56,6 +62,8 @@ public static class ScanTable
         columns.Add(new("steady_states", ColumnType.String));
         columns.Add(new("unsettled_starts", ColumnType.Int64));
         columns.Add(new("folder", ColumnType.String));
+        columns.Add(new("rate_equations_behaviour", ColumnType.String));
+        columns.Add(new("rate_equations_period", ColumnType.Double));
 
         var data = new List<Array> { cells.Select(c => c.Point).ToArray() };
         for (var a = 0; a < names.Count; a++) data.Add(cells.Select(c => c.Values[a]).ToArray());
@@ -76,6 +84,8 @@ public static class ScanTable
         data.Add(cells.Select(c => c.SteadyStatesText).ToArray());
         data.Add(cells.Select(c => c.UnsettledStarts).ToArray());
         data.Add(cells.Select(c => c.Folder).ToArray());
+        data.Add(cells.Select(c => c.RateEquationBehaviour).ToArray());
+        data.Add(cells.Select(c => c.RateEquationPeriod).ToArray());
         using var writer = ParquetTableWriter.Create(path, columns, metadata);
         writer.WriteRowGroup(data);
         writer.Complete();
