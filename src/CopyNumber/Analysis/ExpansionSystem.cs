@@ -33,7 +33,7 @@ internal sealed class ExpansionSystem : IOdeSystem
         _s = network.Species.Count;
         _packed = _s * (_s + 1) / 2;
         var m = network.Reactions.Count;
-        _parameters = network.InitialParameterValues.ToArray();
+        _parameters = network.ParameterValuesWithTime();
         _constants = new double[m];
         _rates = new double[m];
         _phi = new double[_s];
@@ -57,8 +57,8 @@ internal sealed class ExpansionSystem : IOdeSystem
     /// <inheritdoc/>
     public int Dimension { get; }
 
-    /// <summary>Always true: the laws read the state and the parameters only.</summary>
-    public bool IsAutonomous => true;
+    /// <summary>True unless a rate law reads <c>time</c>.</summary>
+    public bool IsAutonomous => !_network.TimeDependence.Any;
 
     /// <summary>True when δ is part of the state.</summary>
     public bool WithMeanCorrection { get; }
@@ -110,6 +110,7 @@ internal sealed class ExpansionSystem : IOdeSystem
     /// <inheritdoc/>
     public void Derivative(double t, double[] y, double[] dydt)
     {
+        _parameters[_network.TimeSlot] = t;
         Array.Copy(y, _phi, _s);
         var rateEquations = _network.RateEquations;
         rateEquations.Rates(_phi, _constants, _parameters, _rates);

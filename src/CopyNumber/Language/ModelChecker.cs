@@ -314,8 +314,12 @@ internal sealed class ModelChecker
         {
             case "size":
                 return;
+            case "time" when place == Place.RateLaw:
+                return;
             case "time":
-                _bag.Report(at, "laws and conditions must not depend on time explicitly; use a change line 'x = ...  at time T' to change a value at a given time");
+                _bag.Report(at, place == Place.MassConstant
+                    ? "a mass-action constant may not depend on 'time'; write a rate law, as in 'rate k * (1 + sin(w * time)) * A'"
+                    : $"{Describe(place)} may not depend on 'time'; only rate laws may (use a change line 'x = ...  at time T' to change a value at a given time)");
                 return;
             case "replicate":
                 _bag.Report(at, "expressions may not use 'replicate': every replicate runs the same model (use a change line for changes over time)");

@@ -34,7 +34,17 @@ public static class ModelSupport
     /// cannot take <paramref name="network"/>: the simulators' problems and every trigger; empty when they can.
     /// </summary>
     public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network) =>
-        [.. TriggerProblems(network), .. SimulationProblems(network)];
+        [.. TriggerProblems(network), .. TimeProblems(network, "the master equation"), .. SimulationProblems(network)];
+
+    /// <summary>
+    /// Why <paramref name="method"/>, a method that keeps propensities fixed between events, cannot take
+    /// <paramref name="network"/>: its laws that read <c>time</c>; empty when none does. The direct method
+    /// (exact, by thinning: <c>Stochastic/ThinnedDirectMethod.cs</c>), tau-leaping and the rate equations take them.
+    /// </summary>
+    public static IReadOnlyList<Diagnostic> TimeProblems(ReactionNetwork network, string method) =>
+        network.TimeDependence.Reactions.Take(1).Select(j => At(network, new SourcePosition(1, 1),
+            $"reaction '{network.Reactions[j].Name}' has a rate law that reads time, which {method} does not carry out; " +
+            "the direct method (exact, by thinning) and tau-leaping do")).ToList();
 
     /// <summary>
     /// Why the rate equations, the linear noise approximation and the corrected mean cannot integrate

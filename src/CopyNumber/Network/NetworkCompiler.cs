@@ -79,6 +79,8 @@ public static class NetworkCompiler
                 kinetics.Select(k => k!.StateRate).ToArray(),
                 kinetics.Select(k => k!.Derivatives).ToArray());
             var dependencies = new DependencyGraph(stoichiometry, kinetics.Select(k => k!.SpeciesRead).ToArray());
+            var timeDependence = TimeDependence.Compile(
+                columns.Select(c => c.Law == LawKind.Rate ? _scope.Expand(c.LawExpression) : null).ToArray(), _scope);
             var reactions = columns
                 .Select(c => new Reaction(c.Name, c.Reactants, c.Products, c.Law, ExpressionText.Format(c.LawExpression)))
                 .ToArray();
@@ -101,7 +103,8 @@ public static class NetworkCompiler
                 triggers.Select(t => t!).ToArray(),
                 new ModelUnits(model.TimeUnit, model.SizeUnit),
                 held,
-                model.Species.Select(s => s.Position).ToArray());
+                model.Species.Select(s => s.Position).ToArray(),
+                timeDependence);
             return new CompileOutcome(network, []);
         }
 

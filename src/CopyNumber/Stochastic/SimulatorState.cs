@@ -29,7 +29,7 @@ internal sealed class SimulatorState
             throw new ArgumentException("the network's parameter names and values disagree in number", nameof(network));
         ModelSupport.RequireSimulation(network);
         Counts = new long[species];
-        Parameters = new double[network.Parameters.Count];
+        Parameters = network.ParameterValuesWithTime();
         Constants = new double[reactions];
         Terms = new PropensityTerm[reactions];
         Switches = new TransitionCounter(network);
@@ -47,6 +47,10 @@ internal sealed class SimulatorState
     }
 
     public ReactionNetwork Network => _network;
+
+    /// <summary>Sets the time that laws reading <c>time</c> see (the parameter array's time slot).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void SetTime(double time) => Parameters[_network.TimeSlot] = time;
     public long[] Counts { get; }
     public double[] Parameters { get; }
     public double[] Constants { get; }
@@ -67,7 +71,7 @@ internal sealed class SimulatorState
     public void Reset()
     {
         for (var i = 0; i < Counts.Length; i++) Counts[i] = _network.InitialCounts[i];
-        for (var p = 0; p < Parameters.Length; p++) Parameters[p] = _network.InitialParameterValues[p];
+        for (var p = 0; p < _network.TimeSlot; p++) Parameters[p] = _network.InitialParameterValues[p];
         RefreshConstants();
     }
 
