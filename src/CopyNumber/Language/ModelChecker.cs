@@ -13,7 +13,7 @@ internal sealed class ModelChecker
     private sealed record Declared(Kind Kind, int Order, SourcePosition Position);
 
     /// <summary>Where an expression stands, which decides the names it may use.</summary>
-    private enum Place { Parameter, MassConstant, RateLaw, ScheduleTime, ScheduleValue, Readout, Condition }
+    private enum Place { Parameter, MassConstant, RateLaw, ScheduleTime, ScheduleValue, Readout, Condition, BurstSize }
 
     /// <summary>Names that can never be declared.</summary>
     public static readonly IReadOnlySet<string> Reserved = new HashSet<string>(StringComparer.Ordinal) { "time", "replicate", "size" };
@@ -130,6 +130,7 @@ internal sealed class ModelChecker
         {
             CheckSide(reaction.Reactants);
             CheckSide(reaction.Products);
+            CheckBursts(reaction);
             var forwardOk = CheckNames(reaction.Forward, PlaceOf(reaction.Law), 0, reaction.Name);
             var reverseOk = reaction.Reverse is null || CheckNames(reaction.Reverse, PlaceOf(reaction.BackLaw), 0, reaction.Name);
             var which = reaction.Reversible ? "forward " : "";
@@ -148,6 +149,24 @@ internal sealed class ModelChecker
             _bag.Report(SpanOf(constant), $"the {what} is {ConstantEvaluator.DescribeNonFinite(value)}");
         else if (value < 0)
             _bag.Report(SpanOf(constant), $"the {what} is negative ({value:G6} with the initial parameter values)");
+    }
+
+    // A burst's mean is a constant like a mass-action constant: positive and finite, no species, no time.
+    private void CheckBursts(ReactionDecl reaction)
+    {
+        foreach (var term in reaction.Products.Terms)
+        {
+            if (term.BurstMean is not { } mean) continue;
+            if (reaction.Reversible)
+                _bag.Report(term.Position, $"reaction '{reaction.Name}' makes a burst and cannot be reversible; write the reverse direction as a reaction of its own");
+            if (reaction.Reactants.Terms.Any(r => r.Species == term.Species))
+                _bag.Report(term.Position, $"'{term.Species}' is both consumed and made in a burst by reaction '{reaction.Name}'; a burst makes a species the reaction does not consume");
+            if (_model.Species.Any(s => s.Name == term.Species && s.Fixed))
+                _bag.Report(term.Position, $"'{term.Species}' is held, so no reaction changes it; it cannot be made in a burst");
+            if (!CheckNames(mean, Place.BurstSize, 0, reaction.Name) || Evaluate(mean) is not { } value) continue;
+            if (!(value > 0) || !double.IsFinite(value))
+                _bag.Report(SpanOf(mean), $"the mean burst size of '{term.Species}' in reaction '{reaction.Name}' must be a positive finite number, found {value:G6}");
+        }
     }
 
     private void CheckSide(ReactionSide side)
@@ -336,6 +355,9 @@ internal sealed class ModelChecker
             case (Kind.Species, Place.Parameter):
                 _bag.Report(at, $"parameter '{owner}' may not depend on species '{name}'; a parameter is a constant (use a rate law or a readout for expressions of species)");
                 break;
+            case (Kind.Species, Place.BurstSize):
+                _bag.Report(at, $"a mean burst size may not depend on species '{name}'; it is a number, parameter or 'size'");
+                break;
             case (Kind.Species, Place.MassConstant):
                 _bag.Report(at, $"mass-action constant may not depend on species '{name}'; write a rate law instead");
                 break;
@@ -365,6 +387,7 @@ internal sealed class ModelChecker
         Place.ScheduleTime => "a change time",
         Place.ScheduleValue => "a change value",
         Place.Condition => "a condition",
+        Place.BurstSize => "a mean burst size",
         _ => "a readout",
     };
 

@@ -54,8 +54,12 @@ public sealed record LogicExpr(bool Conjunction, Expr Left, Expr Right, SourcePo
 /// <summary><c>not operand</c>: 1 when the operand is 0, else 0.</summary>
 public sealed record NotExpr(Expr Operand, SourcePosition Position) : Expr(Position);
 
-/// <summary>One term of a reaction side: <c>[n] species</c>.</summary>
-public sealed record SpeciesTerm(long Coefficient, string Species, SourcePosition Position);
+/// <summary>
+/// One term of a reaction side: <c>[n] species</c>, or a burst <c>burst(b) species</c> (products only):
+/// a geometric number of copies on 0, 1, 2, … with mean b per firing (<paramref name="BurstMean"/>, an
+/// expression of numbers, parameters and <c>size</c>; <paramref name="Coefficient"/> is then 1).
+/// </summary>
+public sealed record SpeciesTerm(long Coefficient, string Species, SourcePosition Position, Expr? BurstMean = null);
 
 /// <summary>One side of a reaction arrow; an empty list is the empty side written <c>0</c>.</summary>
 public sealed record ReactionSide(IReadOnlyList<SpeciesTerm> Terms, SourcePosition Position);

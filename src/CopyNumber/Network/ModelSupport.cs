@@ -34,7 +34,13 @@ public static class ModelSupport
     /// cannot take <paramref name="network"/>: the simulators' problems and every trigger; empty when they can.
     /// </summary>
     public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network) =>
-        [.. TriggerProblems(network), .. TimeProblems(network, "the master equation"), .. SimulationProblems(network)];
+        [.. TriggerProblems(network), .. TimeProblems(network, "the master equation"), .. BurstProblems(network), .. SimulationProblems(network)];
+
+    // A geometric burst jumps to infinitely many states at once; the projection's generator has no row for that.
+    private static List<Diagnostic> BurstProblems(ReactionNetwork network) =>
+        network.Bursts.All.Take(1).Select(b => At(network, new SourcePosition(1, 1),
+            $"reaction '{network.Reactions[b.Reaction].Name}' makes a burst of random size, which the master equation does not carry out; " +
+            "the stochastic simulators, the rate equations and the linear noise approximation do")).ToList();
 
     /// <summary>
     /// Why <paramref name="method"/>, a method that keeps propensities fixed between events, cannot take

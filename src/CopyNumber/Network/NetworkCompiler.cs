@@ -30,7 +30,8 @@ public static class NetworkCompiler
         (int Species, long Coefficient)[] Reactants,
         (int Species, long Coefficient)[] Products,
         LawKind Law,
-        Expr LawExpression);
+        Expr LawExpression,
+        (int Species, Expr Mean)[]? Bursts = null);
 
     /// <summary>The kinetics of one column, in the shapes Propensities and RateEquations take.</summary>
     private sealed record ColumnKinetics(
@@ -73,11 +74,14 @@ public static class NetworkCompiler
                 columns.Select(c => (IReadOnlyList<(int, long)>)c.Reactants).ToArray(),
                 kinetics.Select(k => k!.MassConstant).ToArray(),
                 kinetics.Select(k => k!.CountRate).ToArray());
+            var bursts = new BurstProducts(columns.Length, columns.SelectMany((c, j) => (c.Bursts ?? []).Select(b =>
+                new BurstProducts.Burst(j, b.Species, ExpressionCompiler.CompileStateLaw(_scope.Expand(b.Mean), _scope)))));
             var rateEquations = new RateEquations(
                 stoichiometry,
                 propensities,
                 kinetics.Select(k => k!.StateRate).ToArray(),
-                kinetics.Select(k => k!.Derivatives).ToArray());
+                kinetics.Select(k => k!.Derivatives).ToArray(),
+                bursts);
             var dependencies = new DependencyGraph(stoichiometry, kinetics.Select(k => k!.SpeciesRead).ToArray());
             var timeDependence = TimeDependence.Compile(
                 columns.Select(c => c.Law == LawKind.Rate ? _scope.Expand(c.LawExpression) : null).ToArray(), _scope);
@@ -104,7 +108,8 @@ public static class NetworkCompiler
                 new ModelUnits(model.TimeUnit, model.SizeUnit),
                 held,
                 model.Species.Select(s => s.Position).ToArray(),
-                timeDependence);
+                timeDependence,
+                bursts);
             return new CompileOutcome(network, []);
         }
 
@@ -213,7 +218,8 @@ public static class NetworkCompiler
                 var products = Side(line.Products);
                 if (!line.Reversible)
                 {
-                    columns.Add(new Column(line.Name, line.Position, reactants, products, line.Law, line.Forward));
+                    columns.Add(new Column(line.Name, line.Position, reactants, products, line.Law, line.Forward,
+                        line.Products.Terms.Where(t => t.BurstMean is not null).Select(t => (_scope.SpeciesIndex(t.Species), t.BurstMean!)).ToArray()));
                     continue;
                 }
                 if (line.Reverse is null)

@@ -30,7 +30,8 @@ public sealed class ReactionNetwork
         ModelUnits? units = null,
         IReadOnlyList<bool>? held = null,
         IReadOnlyList<Language.SourcePosition>? speciesPositions = null,
-        TimeDependence? timeDependence = null)
+        TimeDependence? timeDependence = null,
+        BurstProducts? bursts = null)
     {
         Name = name;
         SourceFile = sourceFile;
@@ -52,7 +53,11 @@ public sealed class ReactionNetwork
         Held = held?.ToArray() ?? new bool[Species.Count];
         SpeciesPositions = speciesPositions?.ToArray() ?? [];
         TimeDependence = timeDependence ?? TimeDependence.None(Reactions.Count);
+        Bursts = bursts ?? BurstProducts.None(Reactions.Count);
     }
+
+    /// <summary>Products made in bursts of random size (none unless a reaction has a <c>burst(b)</c> product).</summary>
+    public BurstProducts Bursts { get; }
 
     /// <summary>Which rate laws read <c>time</c> (none unless some law does).</summary>
     public TimeDependence TimeDependence { get; }

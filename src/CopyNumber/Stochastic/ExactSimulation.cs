@@ -30,6 +30,7 @@ internal abstract class ExactSimulation : IStochasticSimulator
     public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
     {
         State.StartReplicate(_schedule, _recorder, grid, observer);
+        State.SeedBursts(ref rng);
         var time = 0.0;
         var events = 0L;
         Begin(ref rng, time);

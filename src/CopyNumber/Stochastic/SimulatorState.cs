@@ -3,6 +3,7 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using CopyNumber.Kinetics;
 using CopyNumber.Network;
+using CopyNumber.Randomness;
 
 namespace CopyNumber.Stochastic;
 
@@ -33,6 +34,8 @@ internal sealed class SimulatorState
         Constants = new double[reactions];
         Terms = new PropensityTerm[reactions];
         Switches = new TransitionCounter(network);
+        _burstMeans = new double[network.Bursts.All.Count];
+        _burstLogRatio = new double[_burstMeans.Length];
         Triggers = new TriggerWatch(network);
         for (var j = 0; j < reactions; j++)
         {
@@ -89,10 +92,47 @@ internal sealed class SimulatorState
         recorder.Start(grid, observer, Parameters);
     }
 
+    /// <summary>
+    /// The stream the geometric burst sizes are drawn from, seeded from the replicate's own stream at its
+    /// start (<see cref="SeedBursts"/>), so the simulators' event loops keep their generator in registers.
+    /// </summary>
+    private Xoshiro256StarStar _burstStream;
+    private readonly double[] _burstMeans;
+    private readonly double[] _burstLogRatio;
+
+    /// <summary>Seeds the burst stream from one draw of the replicate's stream; does nothing (draws nothing) without bursts.</summary>
+    public void SeedBursts(ref Xoshiro256StarStar rng)
+    {
+        if (_burstMeans.Length > 0) _burstStream = new Xoshiro256StarStar(rng.NextUInt64());
+    }
+
+    /// <summary>
+    /// Adds the rest of reaction <paramref name="reaction"/>'s bursts to the counts after its firing, whose
+    /// N column already added 1 copy per burst: B − 1 more, B geometric (<see cref="BurstProducts"/>).
+    /// </summary>
+    public void FireBursts(int reaction, double time) => AddBursts(reaction, 1, Counts, time);
+
+    /// <summary>Adds the rest of <paramref name="firings"/> firings' bursts to <paramref name="counts"/> (tau-leaping's trial counts).</summary>
+    public void AddBursts(int reaction, long firings, long[] counts, double time)
+    {
+        var (start, end) = _network.Bursts.Of(reaction);
+        for (var k = start; k < end; k++)
+        {
+            var species = _network.Bursts.All[k].Species;
+            for (var f = 0L; f < firings; f++)
+            {
+                var extra = GeometricSampler.Sample(ref _burstStream, _burstLogRatio[k]) - 1;
+                if (extra > FiringProgram.CountLimit - counts[species]) ThrowCountOverflow(reaction, species, extra + 1, time);
+                counts[species] += extra;
+            }
+        }
+    }
+
     /// <summary>Recomputes c_j from the current parameters; call after a parameter changes.</summary>
     public void RefreshConstants()
     {
         _propensities.ComputeConstants(Parameters, Constants);
+        if (_burstMeans.Length > 0) RefreshBursts();
         // The version moves only when a constant really changed, so the reset at every replicate's start
         // does not make the simulators recopy the constants of a large network each time.
         var changed = false;
@@ -103,6 +143,19 @@ internal sealed class SimulatorState
             changed = true;
         }
         if (changed) ConstantsVersion++;
+    }
+
+    private void RefreshBursts()
+    {
+        _network.Bursts.Means(Parameters, _burstMeans);
+        for (var k = 0; k < _burstMeans.Length; k++)
+        {
+            if (!(_burstMeans[k] >= 0) || !double.IsFinite(_burstMeans[k]))
+                throw new SimulationFailureException(
+                    $"the mean burst size of '{_network.Species[_network.Bursts.All[k].Species]}' in reaction '{_network.Reactions[_network.Bursts.All[k].Reaction].Name}' " +
+                    $"is {_burstMeans[k].ToString("G6", System.Globalization.CultureInfo.InvariantCulture)} with the parameters in force; it must be a finite number, zero or more", 0);
+            _burstLogRatio[k] = GeometricSampler.LogRatio(_burstMeans[k]);
+        }
     }
 
     /// <summary>The general mass-action product or a rate law, kept out of line so the common forms stay small.</summary>

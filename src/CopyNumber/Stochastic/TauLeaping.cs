@@ -38,6 +38,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     private readonly DirectMethod<TSelection> _exact;
     private readonly ThinnedDirectMethod? _thinned;   // the exact steps when a law reads time
     private readonly TimeDependence _time;
+    private readonly BurstProducts _bursts;
     private readonly ScheduleCursor _schedule;
     private readonly GridRecorder _recorder = new();
     private readonly CriticalReactions _critical;
@@ -64,9 +65,11 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
         _effects = new ReactionEffects(network, includeFired: false);
         _exact = new DirectMethod<TSelection>(_state, _effects, options.MaxEvents);
         _time = network.TimeDependence;
+        _bursts = network.Bursts;
         if (_time.Any) _thinned = new ThinnedDirectMethod(_state, _effects, options.MaxEvents);
         _schedule = new ScheduleCursor(network);
         _critical = new CriticalReactions(_effects, options.CriticalThreshold);
+        _critical.MarkBursty(network.Bursts);
         _triggerGuard = new TriggerLeapGuard(network);
         _stepSize = new LeapStepSize(network, _effects, options.Epsilon);
         _jacobian = new PropensityJacobian(_state, _effects);
@@ -90,6 +93,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     {
         var counts = _state.Counts;
         _state.StartReplicate(_schedule, _recorder, grid, observer);
+        _state.SeedBursts(ref rng);
         var t = 0.0;
         var events = 0L;
         var steps = 0L;
@@ -178,6 +182,10 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             var overdrawn = false;
             for (var j = 0; j < _firings.Length; j++)
                 if (_firings[j] != 0) overdrawn |= !ApplyWithinLimit(j, _firings[j], t);
+            // Bursty reactions are always critical (CriticalReactions), so they fire only here, once at most.
+            if (_bursts.Any)
+                for (var j = 0; j < _firings.Length; j++)
+                    if (_firings[j] > 0 && _bursts.Makes(j)) _state.AddBursts(j, _firings[j], _trial, t);
             if (overdrawn || AnyNegative(_trial))
             {
                 tauPrime = tau / 2;
