@@ -107,12 +107,38 @@ internal sealed class ModelChecker
         }
     }
 
+    // The coefficient of variation: a constant of earlier parameters, ≥ 0; a uniform law must stay positive.
+    private void CheckVariation(ParameterDecl parameter, ParameterVariation varies, int order)
+    {
+        if (!CheckNames(varies.Cv, Place.Parameter, order, parameter.Name) || Evaluate(varies.Cv) is not { } cv) return;
+        if (!(cv >= 0) || !double.IsFinite(cv))
+            _bag.Report(SpanOf(varies.Cv), $"the coefficient of variation of '{parameter.Name}' must be a finite number, zero or more, found {cv:G6}");
+        else if (varies.Law == "uniform" && cv > 1 / Math.Sqrt(3))
+            _bag.Report(SpanOf(varies.Cv), $"a uniform law with mean m and coefficient of variation {cv:G6} reaches below 0 (its support is m·(1 ± √3·cv)); the largest is 1/√3 ≈ 0.577");
+    }
+
+    private static IEnumerable<string> ExpressionNames(Expr expr) => expr switch
+    {
+        NameExpr name => [name.Name],
+        NegateExpr negate => ExpressionNames(negate.Operand),
+        BinaryExpr binary => ExpressionNames(binary.Left).Concat(ExpressionNames(binary.Right)),
+        CallExpr call => call.Arguments.SelectMany(ExpressionNames),
+        CompareExpr compare => ExpressionNames(compare.Left).Concat(ExpressionNames(compare.Right)),
+        LogicExpr logic => ExpressionNames(logic.Left).Concat(ExpressionNames(logic.Right)),
+        NotExpr not => ExpressionNames(not.Operand),
+        _ => [],
+    };
+
     private void CheckParameters()
     {
         for (var i = 0; i < _model.Parameters.Count; i++)
         {
             var parameter = _model.Parameters[i];
             var usable = CheckNames(parameter.Value, Place.Parameter, i, parameter.Name);
+            foreach (var used in ExpressionNames(parameter.Value))
+                if (_model.Parameters.Take(i).FirstOrDefault(p => p.Name == used && p.Varies is not null) is { } varying)
+                    _bag.Report(SpanOf(parameter.Value), $"parameter '{parameter.Name}' uses '{varying.Name}', which varies per replicate; a parameter derived from it would not follow its draws (write the expression in the laws instead)");
+            if (parameter.Varies is { } varies) CheckVariation(parameter, varies, i);
             if (!usable || _names.GetValueOrDefault(parameter.Name) is not { Kind: Kind.Parameter } declared || declared.Order != i) continue;
             if (Evaluate(parameter.Value) is not { } value) continue;
             if (!double.IsFinite(value))

@@ -121,7 +121,20 @@ public sealed record SpeciesDecl(string Name, long InitialCount, SourcePosition 
 }
 
 /// <summary>A parameter defined by an expression of numbers, earlier parameters and <c>size</c>.</summary>
-public sealed record ParameterDecl(string Name, Expr Value, SourcePosition Position);
+public sealed record ParameterDecl(string Name, Expr Value, SourcePosition Position, ParameterVariation? Varies = null);
+
+/// <summary>
+/// <c>k = 6  varies gamma cv 0.3</c>: the parameter is drawn per replicate (per draw of a nested design) from
+/// the named law with mean the parameter's value and coefficient of variation <paramref name="Cv"/>.
+/// </summary>
+/// <param name="Law">One of <see cref="VariationLaws"/>.</param>
+/// <param name="Cv">The coefficient of variation, an expression of numbers, earlier parameters and size.</param>
+/// <param name="Position">Where the law's name stands.</param>
+public sealed record ParameterVariation(string Law, Expr Cv, SourcePosition Position)
+{
+    /// <summary>The laws a parameter may vary by: lognormal, gamma, uniform, and normal truncated to positive values.</summary>
+    public static IReadOnlyList<string> VariationLaws { get; } = ["lognormal", "gamma", "uniform", "normal"];
+}
 
 /// <summary>What a schedule line does to its target.</summary>
 public enum ScheduleOperation

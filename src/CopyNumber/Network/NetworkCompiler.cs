@@ -48,6 +48,7 @@ public static class NetworkCompiler
         private double[] _parameterValues = [];
         private readonly HashSet<string> _brokenParameters = [];
         private readonly Dictionary<string, StateLaw> _constantLaws = [];
+        private readonly List<ParameterVariability.Varying> _varying = [];
 
         public CompileOutcome Run()
         {
@@ -109,7 +110,8 @@ public static class NetworkCompiler
                 held,
                 model.Species.Select(s => s.Position).ToArray(),
                 timeDependence,
-                bursts);
+                bursts,
+                _varying.Count > 0 ? new ParameterVariability(_varying) : null);
             return new CompileOutcome(network, []);
         }
 
@@ -185,6 +187,14 @@ public static class NetworkCompiler
                     continue;
                 }
                 values[p] = value;
+                if (parameter.Varies is { } varies && double.IsFinite(value))
+                {
+                    var cv = double.NaN;
+                    if (Guard(() => cv = Evaluate(varies.Cv, ValueOf, "a coefficient of variation", laterParameterIndex: defined)))
+                        _varying.Add(new ParameterVariability.Varying(p, varies.Law, value, cv));
+                    if (varies.Law is "lognormal" or "gamma" && !(value > 0))
+                        Report(parameter.Position, $"parameter '{parameter.Name}' varies by a {varies.Law} law, whose values are positive, so its mean must be positive, not {Describe(value)}");
+                }
                 if (double.IsFinite(value)) continue;
                 if (!ReadsBrokenParameter(parameter.Value))
                     Report(parameter.Position, $"parameter '{parameter.Name}' evaluates to {Describe(value)}");

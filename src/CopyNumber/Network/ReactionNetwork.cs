@@ -31,7 +31,8 @@ public sealed class ReactionNetwork
         IReadOnlyList<bool>? held = null,
         IReadOnlyList<Language.SourcePosition>? speciesPositions = null,
         TimeDependence? timeDependence = null,
-        BurstProducts? bursts = null)
+        BurstProducts? bursts = null,
+        ParameterVariability? variability = null)
     {
         Name = name;
         SourceFile = sourceFile;
@@ -54,7 +55,11 @@ public sealed class ReactionNetwork
         SpeciesPositions = speciesPositions?.ToArray() ?? [];
         TimeDependence = timeDependence ?? TimeDependence.None(Reactions.Count);
         Bursts = bursts ?? BurstProducts.None(Reactions.Count);
+        Variability = variability ?? ParameterVariability.None;
     }
+
+    /// <summary>Parameters drawn per replicate group from a named law (none unless a parameter line says <c>varies</c>).</summary>
+    public ParameterVariability Variability { get; }
 
     /// <summary>Products made in bursts of random size (none unless a reaction has a <c>burst(b)</c> product).</summary>
     public BurstProducts Bursts { get; }

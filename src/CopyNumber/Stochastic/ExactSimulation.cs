@@ -27,6 +27,8 @@ internal abstract class ExactSimulation : IStochasticSimulator
 
     protected SimulatorState State { get; }
 
+    public void StartFrom(double[]? parameters) => State.StartParameters = parameters;
+
     public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
     {
         State.StartReplicate(_schedule, _recorder, grid, observer);

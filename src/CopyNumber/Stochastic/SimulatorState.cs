@@ -70,11 +70,15 @@ internal sealed class SimulatorState
     /// <summary>Changes whenever recomputing <see cref="Constants"/> changed one (and at the first computation), so copies know when to follow.</summary>
     public int ConstantsVersion { get; private set; }
 
+    /// <summary>The parameter values a replicate starts from instead of the network's (a draw of extrinsic variability); null for the network's.</summary>
+    public double[]? StartParameters { get; set; }
+
     /// <summary>Back to the network's initial counts and parameter values, constants recomputed.</summary>
     public void Reset()
     {
         for (var i = 0; i < Counts.Length; i++) Counts[i] = _network.InitialCounts[i];
-        for (var p = 0; p < _network.TimeSlot; p++) Parameters[p] = _network.InitialParameterValues[p];
+        if (StartParameters is { } start) Array.Copy(start, Parameters, _network.TimeSlot);
+        else for (var p = 0; p < _network.TimeSlot; p++) Parameters[p] = _network.InitialParameterValues[p];
         RefreshConstants();
     }
 

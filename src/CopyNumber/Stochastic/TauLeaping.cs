@@ -89,6 +89,8 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     /// <summary>Leaps taken with the explicit formula since this simulator was made.</summary>
     internal long ExplicitLeaps { get; private set; }
 
+    public void StartFrom(double[]? parameters) => _state.StartParameters = parameters;
+
     public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
     {
         var counts = _state.Counts;
