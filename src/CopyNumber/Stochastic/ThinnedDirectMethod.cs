@@ -39,6 +39,8 @@ internal sealed class ThinnedDirectMethod : ExactSimulation
     private RunawayGuard _guard = new(RunawayGuard.EventBound);
     private double _steady;
     private long _sinceResum;
+    private double _timedAt = double.NaN;  // the time of the last TimedTotal at the current state (NaN: none)
+    private double _timedSum;
 
     public ThinnedDirectMethod(ReactionNetwork network, SimulatorOptions options)
         : this(new SimulatorState(network), new ReactionEffects(network, includeFired: false), options.MaxEvents)
@@ -71,6 +73,7 @@ internal sealed class ThinnedDirectMethod : ExactSimulation
     {
         _program.RefreshConstants(State);
         State.SetTime(time);
+        _timedAt = double.NaN;
         _steady = 0.0;
         for (var j = 0; j < _propensity.Length; j++)
         {
@@ -131,6 +134,7 @@ internal sealed class ThinnedDirectMethod : ExactSimulation
             if (RunawayGuard.Due(fired, maxEvents) && _guard.Exceeded(total, t, horizon, out var projected, out var growth))
                 state.ThrowRunaway(t, horizon, total, projected, _guard.Bound, growth, _propensity);
             recorder.RecordBefore(t, counts);
+            _timedAt = double.NaN; // the state changes
             var j = Select(point);
             ref var header = ref Unsafe.Add(ref header0, j);
             _program.Fire(ref header, j, ref count0, state, _effects, t);
@@ -160,9 +164,11 @@ internal sealed class ThinnedDirectMethod : ExactSimulation
         return Finish(end, ref time, horizon, recorder, counts);
     }
 
-    // Σ a_j(t) over the laws that read time, stored for the selection; the time slot is left at t.
+    // Σ a_j(t) over the laws that read time, stored for the selection; the time slot is left at t. A rejected
+    // candidate leaves the state and the clock where the next window starts, so its sum is reused there.
     private double TimedTotal(double t)
     {
+        if (t == _timedAt) return _timedSum;
         State.SetTime(t);
         var sum = 0.0;
         foreach (var j in _timed)
@@ -171,6 +177,8 @@ internal sealed class ThinnedDirectMethod : ExactSimulation
             _propensity[j] = a;
             sum += a;
         }
+        _timedAt = t;
+        _timedSum = sum;
         return sum;
     }
 
