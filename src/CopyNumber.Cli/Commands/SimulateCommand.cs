@@ -175,6 +175,25 @@ internal static class SimulateCommand
         }
         // The heading says the time the rows are for, in the model's declared unit (manifest: time_unit).
         var unit = outcome.Manifest.Extra.TryGetValue(ManifestFields.TimeUnit, out var declared) && declared?.ToString() is { Length: > 0 } text ? " " + text : "";
-        return $"at t = {Numbers.Format(result.Grid[last], 6)}{unit}:\n{table}";
+        return $"at t = {Numbers.Format(result.Grid[last], 6)}{unit}:\n{table}{RenderNoise(result, last)}";
+    }
+
+    /// <summary>
+    /// The law-of-total-variance split at the final time when some parameter varies: each part's squared CV
+    /// (variance over the squared mean) ± its standard error (docs/methods.md, "Extrinsic variability").
+    /// </summary>
+    private static string RenderNoise(EnsembleResult result, int last)
+    {
+        if (result.Noise is not { } noise) return "";
+        var table = new TextTable("quantity", "intrinsic CV²", "± s.e.", "extrinsic CV²", "± s.e.");
+        for (var q = 0; q < noise.Quantities.Count; q++)
+        {
+            var mean = NoiseDecomposition.MeanOf(result, last, q);
+            var square = mean * mean;
+            var (intrinsic, extrinsic) = (noise.Intrinsic(last, q), noise.Extrinsic(last, q));
+            table.Add(noise.Quantities[q].Name, Numbers.Format(intrinsic.Mean / square, 4), Numbers.Format(intrinsic.StandardError / square, 2),
+                Numbers.Format(extrinsic.Mean / square, 4), Numbers.Format(extrinsic.StandardError / square, 2));
+        }
+        return $"\nnoise by source ({noise.ReplicatesPerDraw} replicates per draw of the varying parameters; noise.parquet):\n{table}";
     }
 }

@@ -42,6 +42,12 @@ internal static class SummaryFiles
         MomentsTable.Write(moments, result, deterministic, provenance);
         files.Add(moments);
         files.AddRange(WriteState(folder, result, provenance));
+        if (result.Noise is not null)
+        {
+            var path = Path.Combine(folder, RunFiles.Noise);
+            NoiseTable.Write(path, result, provenance);
+            files.Add(path);
+        }
         if (validation is not null)
         {
             var path = Path.Combine(folder, RunFiles.Validation);

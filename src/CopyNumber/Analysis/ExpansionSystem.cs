@@ -33,7 +33,7 @@ internal sealed class ExpansionSystem : IOdeSystem
         _s = network.Species.Count;
         _packed = _s * (_s + 1) / 2;
         var m = network.Reactions.Count;
-        _parameters = network.InitialParameterValues.ToArray();
+        _parameters = network.ParameterValuesWithTime();
         _constants = new double[m];
         _rates = new double[m];
         _phi = new double[_s];
@@ -57,8 +57,8 @@ internal sealed class ExpansionSystem : IOdeSystem
     /// <inheritdoc/>
     public int Dimension { get; }
 
-    /// <summary>Always true: the laws read the state and the parameters only.</summary>
-    public bool IsAutonomous => true;
+    /// <summary>True unless a rate law reads <c>time</c>.</summary>
+    public bool IsAutonomous => !_network.TimeDependence.Any;
 
     /// <summary>True when δ is part of the state.</summary>
     public bool WithMeanCorrection { get; }
@@ -110,6 +110,7 @@ internal sealed class ExpansionSystem : IOdeSystem
     /// <inheritdoc/>
     public void Derivative(double t, double[] y, double[] dydt)
     {
+        _parameters[_network.TimeSlot] = t;
         Array.Copy(y, _phi, _s);
         var rateEquations = _network.RateEquations;
         rateEquations.Rates(_phi, _constants, _parameters, _rates);
@@ -129,6 +130,7 @@ internal sealed class ExpansionSystem : IOdeSystem
                 for (var f = e; f < species.Length; f++)
                     dydt[Packed(species[e], species[f])] += change[e] * change[f] * noise;
         }
+        AddBursts(dydt);
         var p = _s;
         for (var i = 0; i < _s; i++)
             for (var j = i; j < _s; j++, p++)
@@ -157,6 +159,32 @@ internal sealed class ExpansionSystem : IOdeSystem
             var change = _n.Changes(r);
             for (var e = 0; e < species.Length; e++) dydt[offset + species[e]] += change[e] * source;
         }
+        foreach (var burst in _network.Bursts.All)
+            dydt[offset + burst.Species] += (burst.Mean([], _parameters) - 1) * (_excess[burst.Reaction] + _curvature[burst.Reaction]);
+    }
+
+    /// <summary>
+    /// The bursts' share of the drift and the noise. A burst's jump is ν + (B − 1)·e_i, ν the N column (which
+    /// holds +1 for the burst) and B geometric of mean b (<see cref="BurstProducts"/>): the drift gains
+    /// (b − 1)·v, and E[jump·jumpᵀ] = ννᵀ + (b − 1)(ν·e_iᵀ + e_i·νᵀ) + E[(B − 1)²]·e_i·e_iᵀ with
+    /// E[(B − 1)²] = b(1 + b) + (b − 1)², the second moment the linear noise approximation needs.
+    /// </summary>
+    private void AddBursts(double[] dydt)
+    {
+        foreach (var burst in _network.Bursts.All)
+        {
+            var b = burst.Mean([], _parameters);
+            var v = _rates[burst.Reaction];
+            var i = burst.Species;
+            dydt[i] += (b - 1) * v;
+            var noise = Math.Max(v, 0.0);
+            if (noise == 0) continue;
+            var species = _n.ChangedSpecies(burst.Reaction);
+            var change = _n.Changes(burst.Reaction);
+            for (var e = 0; e < species.Length; e++)
+                dydt[Packed(species[e], i)] += (species[e] == i ? 2 : 1) * (b - 1) * change[e] * noise;
+            dydt[Packed(i, i)] += (b * (1 + b) + (b - 1) * (b - 1)) * noise;
+        }
     }
 
     // J_a = N·∂a/∂x from the gradient of the last expansion.
@@ -170,6 +198,11 @@ internal sealed class ExpansionSystem : IOdeSystem
             for (var e = 0; e < species.Length; e++)
                 for (var k = 0; k < _s; k++)
                     _meanJacobian[species[e], k] += change[e] * _gradient[r, k];
+        }
+        foreach (var burst in _network.Bursts.All)
+        {
+            var extra = burst.Mean([], _parameters) - 1;
+            for (var k = 0; k < _s; k++) _meanJacobian[burst.Species, k] += extra * _gradient[burst.Reaction, k];
         }
     }
 

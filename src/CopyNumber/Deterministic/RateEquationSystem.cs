@@ -21,7 +21,7 @@ public sealed class RateEquationSystem : IOdeSystem
     {
         ArgumentNullException.ThrowIfNull(network);
         _network = network;
-        _parameters = network.InitialParameterValues.ToArray();
+        _parameters = network.ParameterValuesWithTime();
         _constants = new double[network.RateEquations.ReactionCount];
         _rates = new double[network.RateEquations.ReactionCount];
         network.Propensities.ComputeConstants(_parameters, _constants);
@@ -30,11 +30,11 @@ public sealed class RateEquationSystem : IOdeSystem
     /// <inheritdoc/>
     public int Dimension => _network.RateEquations.SpeciesCount;
 
-    /// <summary>Always true: the rate laws read the state and the parameters only.</summary>
-    public bool IsAutonomous => true;
+    /// <summary>True unless a rate law reads <c>time</c>.</summary>
+    public bool IsAutonomous => !_network.TimeDependence.Any;
 
     /// <summary>The parameter values in force, indexed like <see cref="ReactionNetwork.Parameters"/>; change them with <see cref="SetParameter"/>.</summary>
-    public IReadOnlyList<double> ParameterValues => _parameters;
+    public IReadOnlyList<double> ParameterValues => new ArraySegment<double>(_parameters, 0, _network.TimeSlot);
 
     /// <summary>The array the laws read as parameters (for evaluating readouts and schedule values); do not write to it.</summary>
     internal double[] ParameterArray => _parameters;
@@ -47,13 +47,19 @@ public sealed class RateEquationSystem : IOdeSystem
     }
 
     /// <inheritdoc/>
-    public void Derivative(double t, double[] y, double[] dydt) =>
+    public void Derivative(double t, double[] y, double[] dydt)
+    {
+        _parameters[_network.TimeSlot] = t;
         _network.RateEquations.Derivative(y, _constants, _parameters, _rates, dydt);
+    }
 
     /// <inheritdoc/>
-    public void Jacobian(double t, double[] y, double[,] jacobian) =>
+    public void Jacobian(double t, double[] y, double[,] jacobian)
+    {
+        _parameters[_network.TimeSlot] = t;
         _network.RateEquations.Jacobian(y, _constants, _parameters,
             _rateJacobian ??= new double[_network.RateEquations.ReactionCount, _network.RateEquations.SpeciesCount], jacobian);
+    }
 
     /// <summary>The species name.</summary>
     public string ComponentName(int index) => $"species {_network.Species[index]}";

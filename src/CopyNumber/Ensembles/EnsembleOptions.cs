@@ -33,6 +33,17 @@ public sealed record EnsembleOptions
     /// </summary>
     public int BlockSize { get; init; } = DefaultBlockSize;
 
+    /// <summary>
+    /// g, replicates that share one draw of the parameters that vary (<see cref="Network.ParameterVariability"/>):
+    /// replicates d·g … d·g + g − 1 share draw d. Used only when some parameter varies; then it must be at
+    /// least 2 and divide <see cref="BlockSize"/> at most half (so a group never straddles a block or a shard,
+    /// and groups pair inside a block for <see cref="NoiseDecomposition"/>).
+    /// </summary>
+    public int ReplicatesPerDraw { get; init; } = DefaultReplicatesPerDraw;
+
+    /// <summary>The nested design's default group size.</summary>
+    public const int DefaultReplicatesPerDraw = 8;
+
     /// <summary>The block size runs use unless told otherwise.</summary>
     public const int DefaultBlockSize = 64;
 

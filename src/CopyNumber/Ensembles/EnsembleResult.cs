@@ -53,6 +53,12 @@ public sealed class EnsembleResult
     /// <summary>Recording times.</summary>
     public TimeGrid Grid { get; }
 
+    /// <summary>
+    /// Intrinsic and extrinsic parts of each quantity's variance, when some parameter varies and the run
+    /// covered its blocks in one process (null otherwise: a shard or a resumed run does not carry the pairs).
+    /// </summary>
+    public NoiseDecomposition? Noise { get; init; }
+
     /// <summary>All reported quantities: species, then readouts.</summary>
     public IReadOnlyList<Quantity> Quantities { get; }
 

@@ -64,6 +64,11 @@ public static class EnsembleRunner
         var toRun = end - first - skip.Count(b => b >= first && b < end);
 
         var tree = new MomentTree(totalBlocks, grid.Count * realQuantities);
+        var varies = network.Variability.Any;
+        if (varies && (options.ReplicatesPerDraw < 2 || options.BlockSize % (2 * options.ReplicatesPerDraw) != 0))
+            throw new ArgumentOutOfRangeException(nameof(options),
+                $"{options.ReplicatesPerDraw} replicates per draw: a draw's group must hold at least 2 replicates and twice the group must divide the block of {options.BlockSize}");
+        var noiseTree = varies ? new MomentTree(totalBlocks, NoiseDecomposition.TreeCells(grid.Count, quantities.Count)) : null;
         var sequencer = new BlockSequencer(grid.Count, countQuantities, realQuantities, options.BlockSize, paths, options.PathReplicates, first, Runs, options.Threads);
         var workers = new Worker[(int)Math.Clamp(toRun, 1, options.Threads)];
         var position = first - 1;
@@ -85,11 +90,16 @@ public static class EnsembleRunner
             }
             // The result holds the blocks run here; skipped blocks are someone else's (an earlier run's).
             var finished = workers.SelectMany(w => w.FinishedBlocks).Order().ToArray();
+            NoiseDecomposition? noise = null;
+            if (noiseTree is not null && skip.Count == 0 && options.Shard.Count == 1)
+                lock (noiseTree)
+                    noise = new NoiseDecomposition(options.ReplicatesPerDraw, grid.Count,
+                        [.. quantities.Where(q => q.IsCount), .. quantities.Where(q => !q.IsCount)], noiseTree.Summarise());
             return new EnsembleResult(
                 grid, quantities, histograms, moments,
                 workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
                 finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed,
-                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()));
+                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray())) { Noise = noise };
         }
 
         // A checkpoint is taken between blocks with every worker held, so it is one consistent state;
@@ -145,6 +155,12 @@ public static class EnsembleRunner
                         lock (tree) leaf = tree.RentLeaf();
                         BlockMoments(block, grid.Count, realQuantities, leaf);
                     }
+                    MomentAccumulator[]? noiseLeaf = null;
+                    if (noiseTree is not null)
+                    {
+                        lock (noiseTree) noiseLeaf = noiseTree.RentLeaf();
+                        NoiseDecomposition.AddBlock(block, options.ReplicatesPerDraw, quantities.Count, noiseLeaf);
+                    }
                     lock (worker)
                     {
                         // Finishing a block is one step with respect to abandonment: histograms, moments,
@@ -152,6 +168,7 @@ public static class EnsembleRunner
                         if (worker.Abandoned) break;
                         worker.Accumulate(block, index);
                         if (leaf is not null) lock (tree) tree.AddBlock(index, leaf);
+                        if (noiseLeaf is not null) lock (noiseTree!) noiseTree.AddBlock(index, noiseLeaf);
                         sequencer.Submit(block);
                     }
                     monitor.AddBlock(index);
@@ -246,12 +263,28 @@ public static class EnsembleRunner
             var runaway = Math.Min(options.Simulator.RunawayEvents, RunawayGuard.BoundFor(options.Replicates));
             _simulator = SimulatorFactory.Create(options.Method, network, options.Simulator with { RunawayEvents = runaway });
             _observer = new BlockObserver(network, cancel);
+            _network = network;
+            if (network.Variability.Any) _drawn = new double[network.Parameters.Count];
             _monitor = monitor;
             _grid = options.Grid;
             Cancel = cancel;
             Switching = new SwitchingAccumulator(network, options.Grid.Until);
             Histograms = new CountHistogram[options.Grid.Count * countQuantities];
             for (var h = 0; h < Histograms.Length; h++) Histograms[h] = new CountHistogram();
+        }
+
+        private readonly ReactionNetwork _network;
+        private readonly double[]? _drawn;   // the current draw's parameter values, when some parameter varies
+        private long _draw = -1;
+
+        // Draw d's parameters, from the stream keyed to d alone, for the replicates of its group.
+        private void UseDraw(long draw, ulong seed)
+        {
+            if (draw == _draw) return;
+            for (var p = 0; p < _drawn!.Length; p++) _drawn[p] = _network.InitialParameterValues[p];
+            _network.Variability.Draw(seed, draw, _drawn);
+            _simulator.StartFrom(_drawn);
+            _draw = draw;
         }
 
         public CancellationToken Cancel { get; }
@@ -282,6 +315,7 @@ public static class EnsembleRunner
             {
                 if (Cancel.IsCancellationRequested) return false;
                 var replicate = block.FirstReplicate + slot;
+                if (_drawn is not null) UseDraw(replicate / options.ReplicatesPerDraw, options.Seed);
                 var rng = ReplicateStreams.For(options.Seed, replicate);
                 _observer.Begin(block, slot);
                 ReplicateResult result;

@@ -135,6 +135,7 @@ public static class ExpressionCompiler
             var parameter = scope.ParameterIndex(name.Name);
             if (parameter >= 0) return Expression.ArrayIndex(parameters, Expression.Constant(parameter));
             if (name.Name == ExpressionScope.SizeName) return Expression.Constant(scope.Size);
+            if (name.Name == ExpressionScope.TimeName) return Expression.ArrayIndex(parameters, Expression.Constant(scope.TimeSlot));
             throw new ModelException(name.Position, $"'{name.Name}' is not a species, a parameter or size");
         }
 

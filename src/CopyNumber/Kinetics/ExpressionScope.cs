@@ -12,6 +12,9 @@ public sealed class ExpressionScope
     /// <summary>The reserved name of the system size Ω.</summary>
     public const string SizeName = "size";
 
+    /// <summary>The reserved name of the model time t, which only rate laws may read.</summary>
+    public const string TimeName = "time";
+
     private readonly Dictionary<string, int> _species;
     private readonly Dictionary<string, int> _parameters;
     private readonly Dictionary<string, Expr> _readouts;
@@ -29,10 +32,17 @@ public sealed class ExpressionScope
         _parameters = Indexed(parameters);
         _readouts = readouts?.ToDictionary() ?? new Dictionary<string, Expr>();
         Size = size;
+        TimeSlot = parameters.Count;
     }
 
     /// <summary>The value of <c>size</c>.</summary>
     public double Size { get; }
+
+    /// <summary>
+    /// Where compiled laws read <c>time</c>: the parameter array's slot after the declared parameters
+    /// (<see cref="Network.ReactionNetwork.TimeSlot"/>), which whoever evaluates a law that reads time sets first.
+    /// </summary>
+    public int TimeSlot { get; }
 
     /// <summary>The index of a species, or −1.</summary>
     public int SpeciesIndex(string name) => _species.GetValueOrDefault(name, -1);

@@ -21,6 +21,8 @@ internal static class LawFunctions
         ["log"] = (1, 1, Of<Func<double, double>>(Math.Log)),
         ["sqrt"] = (1, 1, Of<Func<double, double>>(Math.Sqrt)),
         ["abs"] = (1, 1, Of<Func<double, double>>(Math.Abs)),
+        ["sin"] = (1, 1, Of<Func<double, double>>(Math.Sin)),
+        ["cos"] = (1, 1, Of<Func<double, double>>(Math.Cos)),
         ["pow"] = (2, 2, Of<Func<double, double, double>>(Power)),
         ["min"] = (2, int.MaxValue, Of<Func<double, double, double>>(Math.Min)),
         ["max"] = (2, int.MaxValue, Of<Func<double, double, double>>(Math.Max)),

@@ -13,18 +13,22 @@ public sealed class RateEquations
     private readonly StateLaw?[] _rateLaws;
     private readonly (int Species, StateLaw Derivative)[][] _rateLawDerivatives;
     private readonly (int Species, long Order)[][] _reactants;
+    private readonly Network.BurstProducts.Burst[] _bursts;
 
     /// <summary>Creates the rate equations; used by the network compiler.</summary>
     /// <param name="stoichiometry">N.</param>
     /// <param name="propensities">Supplies the mass-action constants c_j and reactant lists.</param>
     /// <param name="rateLaws">Per reaction, the rate law on a real state; null for mass action.</param>
     /// <param name="rateLawDerivatives">Per reaction, ∂v_j/∂x_i for each species i its rate law reads; empty for mass action.</param>
+    /// <param name="bursts">Products made in bursts (N holds +1 for each; the rest of the mean, b − 1, is added here); null for none.</param>
     public RateEquations(
         Network.Stoichiometry stoichiometry,
         Propensities propensities,
         IReadOnlyList<StateLaw?> rateLaws,
-        IReadOnlyList<IReadOnlyList<(int Species, StateLaw Derivative)>> rateLawDerivatives)
+        IReadOnlyList<IReadOnlyList<(int Species, StateLaw Derivative)>> rateLawDerivatives,
+        Network.BurstProducts? bursts = null)
     {
+        _bursts = bursts is null ? [] : [.. bursts.All];
         _n = stoichiometry;
         _propensities = propensities;
         _rateLaws = rateLaws.ToArray();
@@ -63,6 +67,8 @@ public sealed class RateEquations
             var change = _n.Changes(j);
             for (var e = 0; e < species.Length; e++) dxdt[species[e]] += change[e] * v[j];
         }
+        // A burst of mean b: N holds +1, so b − 1 more copies per event on average.
+        foreach (var burst in _bursts) dxdt[burst.Species] += (burst.Mean([], parameters) - 1) * v[burst.Reaction];
     }
 
     /// <summary>∂v_j/∂x_i, reactions × species, exact.</summary>
@@ -101,6 +107,11 @@ public sealed class RateEquations
             for (var e = 0; e < species.Length; e++)
                 for (var k = 0; k < SpeciesCount; k++)
                     jacobian[species[e], k] += change[e] * dvdx[j, k];
+        }
+        foreach (var burst in _bursts)
+        {
+            var extra = burst.Mean([], parameters) - 1;
+            for (var k = 0; k < SpeciesCount; k++) jacobian[burst.Species, k] += extra * dvdx[burst.Reaction, k];
         }
     }
 

@@ -108,6 +108,8 @@ public static class SymbolicDerivative
                 case "log": return Div(D(args[0]), args[0]);
                 case "sqrt": return Div(D(args[0]), Mul(Number(2, c), c));
                 case "abs": return Mul(Sign(args[0], c), D(args[0]));
+                case "sin": return Mul(new CallExpr("cos", [args[0]], c.Position), D(args[0]));
+                case "cos": return Neg(Mul(new CallExpr("sin", [args[0]], c.Position), D(args[0])));
                 case LawFunctions.SignFunction: return Number(0, c);
                 case BuiltinFunctions.Choose:
                 {

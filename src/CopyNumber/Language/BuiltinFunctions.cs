@@ -4,7 +4,8 @@ namespace CopyNumber.Language;
 /// The functions a model expression may call, with their number of arguments and their meaning.
 /// Hill functions follow the usual regulatory forms (Alon, An Introduction to Systems Biology, 2007,
 /// ch. 2; quoted from memory): activation x^n/(K^n + x^n), repression K^n/(K^n + x^n); <c>mm</c> is the
-/// Michaelis–Menten saturation x/(K + x).
+/// Michaelis–Menten saturation x/(K + x). <c>sin</c> and <c>cos</c> take radians (for periodic
+/// inputs in rate laws that read <c>time</c>).
 /// </summary>
 public static class BuiltinFunctions
 {
@@ -18,6 +19,8 @@ public static class BuiltinFunctions
         ["min"] = 2,
         ["max"] = 2,
         ["abs"] = 1,
+        ["sin"] = 1,
+        ["cos"] = 1,
         ["hill_act"] = 3,
         ["hill_rep"] = 3,
         ["mm"] = 2,
@@ -40,6 +43,8 @@ public static class BuiltinFunctions
         ["min"] = "min(a, b)",
         ["max"] = "max(a, b)",
         ["abs"] = "abs(x)",
+        ["sin"] = "sin(x)",
+        ["cos"] = "cos(x)",
         ["hill_act"] = "hill_act(x, K, n)",
         ["hill_rep"] = "hill_rep(x, K, n)",
         ["mm"] = "mm(x, K)",
@@ -66,6 +71,8 @@ public static class BuiltinFunctions
             "min" => Math.Min(arguments[0], arguments[1]),
             "max" => Math.Max(arguments[0], arguments[1]),
             "abs" => Math.Abs(arguments[0]),
+            "sin" => Math.Sin(arguments[0]),
+            "cos" => Math.Cos(arguments[0]),
             "hill_act" => HillActivation(arguments[0], arguments[1], arguments[2]),
             "hill_rep" => HillRepression(arguments[0], arguments[1], arguments[2]),
             Choose => arguments[0] != 0 ? arguments[1] : arguments[2],

@@ -349,6 +349,8 @@ internal sealed class LineParser
             if (term is null) return null;
             if (indexOf.TryGetValue(term.Species, out var earlier))
             {
+                if (term.BurstMean is not null || terms[earlier].BurstMean is not null)
+                    return Fail<ReactionSide>(term.Position, $"'{term.Species}' stands twice in the {role} and once in a burst; a burst's species stands alone on its side");
                 var merged = terms[earlier].Coefficient + term.Coefficient;
                 if (merged > MaxCoefficient)
                     return Fail<ReactionSide>(term.Position, $"stoichiometric coefficient of '{term.Species}' is larger than {MaxCoefficient}");
@@ -368,6 +370,7 @@ internal sealed class LineParser
     private SpeciesTerm? ParseTerm(string role)
     {
         var start = Peek();
+        if (start.IsWord(BurstWord) && Peek(1).Kind == TokenKind.LeftParen) return ParseBurst(role);
         long coefficient = 1;
         if (start.Kind == TokenKind.Number)
         {
@@ -385,5 +388,27 @@ internal sealed class LineParser
             return Fail<SpeciesTerm>(name.Position, Unexpected(name, $"a species in the {role}"));
         Next();
         return new SpeciesTerm(coefficient, name.Text, name.Position);
+    }
+
+    /// <summary>The word that opens a burst term, <c>burst(b) species</c>; a keyword only when followed by '('.</summary>
+    public const string BurstWord = "burst";
+
+    // burst ( mean ) species: products only, no coefficient.
+    private SpeciesTerm? ParseBurst(string role)
+    {
+        var start = Next();
+        if (role != "products")
+            return Fail<SpeciesTerm>(start.Position, "a burst makes products: write it after the arrow, as in '0 -> burst(b) mrna'");
+        Next(); // '('
+        var mean = ParseExpression("the mean burst size");
+        if (mean is null) return null;
+        if (Peek().Kind != TokenKind.RightParen)
+            return Fail<SpeciesTerm>(Peek().Position, Unexpected(Peek(), "')' after the mean burst size"));
+        Next();
+        var name = Peek();
+        if (name.Kind != TokenKind.Identifier)
+            return Fail<SpeciesTerm>(name.Position, Unexpected(name, "a species after 'burst(...)'"));
+        Next();
+        return new SpeciesTerm(1, name.Text, name.Position, mean.Value.Expr);
     }
 }

@@ -13,7 +13,7 @@ internal sealed class ModelChecker
     private sealed record Declared(Kind Kind, int Order, SourcePosition Position);
 
     /// <summary>Where an expression stands, which decides the names it may use.</summary>
-    private enum Place { Parameter, MassConstant, RateLaw, ScheduleTime, ScheduleValue, Readout, Condition }
+    private enum Place { Parameter, MassConstant, RateLaw, ScheduleTime, ScheduleValue, Readout, Condition, BurstSize }
 
     /// <summary>Names that can never be declared.</summary>
     public static readonly IReadOnlySet<string> Reserved = new HashSet<string>(StringComparer.Ordinal) { "time", "replicate", "size" };
@@ -107,12 +107,38 @@ internal sealed class ModelChecker
         }
     }
 
+    // The coefficient of variation: a constant of earlier parameters, ≥ 0; a uniform law must stay positive.
+    private void CheckVariation(ParameterDecl parameter, ParameterVariation varies, int order)
+    {
+        if (!CheckNames(varies.Cv, Place.Parameter, order, parameter.Name) || Evaluate(varies.Cv) is not { } cv) return;
+        if (!(cv >= 0) || !double.IsFinite(cv))
+            _bag.Report(SpanOf(varies.Cv), $"the coefficient of variation of '{parameter.Name}' must be a finite number, zero or more, found {cv:G6}");
+        else if (varies.Law == "uniform" && cv > 1 / Math.Sqrt(3))
+            _bag.Report(SpanOf(varies.Cv), $"a uniform law with mean m and coefficient of variation {cv:G6} reaches below 0 (its support is m·(1 ± √3·cv)); the largest is 1/√3 ≈ 0.577");
+    }
+
+    private static IEnumerable<string> ExpressionNames(Expr expr) => expr switch
+    {
+        NameExpr name => [name.Name],
+        NegateExpr negate => ExpressionNames(negate.Operand),
+        BinaryExpr binary => ExpressionNames(binary.Left).Concat(ExpressionNames(binary.Right)),
+        CallExpr call => call.Arguments.SelectMany(ExpressionNames),
+        CompareExpr compare => ExpressionNames(compare.Left).Concat(ExpressionNames(compare.Right)),
+        LogicExpr logic => ExpressionNames(logic.Left).Concat(ExpressionNames(logic.Right)),
+        NotExpr not => ExpressionNames(not.Operand),
+        _ => [],
+    };
+
     private void CheckParameters()
     {
         for (var i = 0; i < _model.Parameters.Count; i++)
         {
             var parameter = _model.Parameters[i];
             var usable = CheckNames(parameter.Value, Place.Parameter, i, parameter.Name);
+            foreach (var used in ExpressionNames(parameter.Value))
+                if (_model.Parameters.Take(i).FirstOrDefault(p => p.Name == used && p.Varies is not null) is { } varying)
+                    _bag.Report(SpanOf(parameter.Value), $"parameter '{parameter.Name}' uses '{varying.Name}', which varies per replicate; a parameter derived from it would not follow its draws (write the expression in the laws instead)");
+            if (parameter.Varies is { } varies) CheckVariation(parameter, varies, i);
             if (!usable || _names.GetValueOrDefault(parameter.Name) is not { Kind: Kind.Parameter } declared || declared.Order != i) continue;
             if (Evaluate(parameter.Value) is not { } value) continue;
             if (!double.IsFinite(value))
@@ -130,6 +156,7 @@ internal sealed class ModelChecker
         {
             CheckSide(reaction.Reactants);
             CheckSide(reaction.Products);
+            CheckBursts(reaction);
             var forwardOk = CheckNames(reaction.Forward, PlaceOf(reaction.Law), 0, reaction.Name);
             var reverseOk = reaction.Reverse is null || CheckNames(reaction.Reverse, PlaceOf(reaction.BackLaw), 0, reaction.Name);
             var which = reaction.Reversible ? "forward " : "";
@@ -148,6 +175,24 @@ internal sealed class ModelChecker
             _bag.Report(SpanOf(constant), $"the {what} is {ConstantEvaluator.DescribeNonFinite(value)}");
         else if (value < 0)
             _bag.Report(SpanOf(constant), $"the {what} is negative ({value:G6} with the initial parameter values)");
+    }
+
+    // A burst's mean is a constant like a mass-action constant: positive and finite, no species, no time.
+    private void CheckBursts(ReactionDecl reaction)
+    {
+        foreach (var term in reaction.Products.Terms)
+        {
+            if (term.BurstMean is not { } mean) continue;
+            if (reaction.Reversible)
+                _bag.Report(term.Position, $"reaction '{reaction.Name}' makes a burst and cannot be reversible; write the reverse direction as a reaction of its own");
+            if (reaction.Reactants.Terms.Any(r => r.Species == term.Species))
+                _bag.Report(term.Position, $"'{term.Species}' is both consumed and made in a burst by reaction '{reaction.Name}'; a burst makes a species the reaction does not consume");
+            if (_model.Species.Any(s => s.Name == term.Species && s.Fixed))
+                _bag.Report(term.Position, $"'{term.Species}' is held, so no reaction changes it; it cannot be made in a burst");
+            if (!CheckNames(mean, Place.BurstSize, 0, reaction.Name) || Evaluate(mean) is not { } value) continue;
+            if (!(value > 0) || !double.IsFinite(value))
+                _bag.Report(SpanOf(mean), $"the mean burst size of '{term.Species}' in reaction '{reaction.Name}' must be a positive finite number, found {value:G6}");
+        }
     }
 
     private void CheckSide(ReactionSide side)
@@ -314,8 +359,12 @@ internal sealed class ModelChecker
         {
             case "size":
                 return;
+            case "time" when place == Place.RateLaw:
+                return;
             case "time":
-                _bag.Report(at, "laws and conditions must not depend on time explicitly; use a change line 'x = ...  at time T' to change a value at a given time");
+                _bag.Report(at, place == Place.MassConstant
+                    ? "a mass-action constant may not depend on 'time'; write a rate law, as in 'rate k * (1 + sin(w * time)) * A'"
+                    : $"{Describe(place)} may not depend on 'time'; only rate laws may (use a change line 'x = ...  at time T' to change a value at a given time)");
                 return;
             case "replicate":
                 _bag.Report(at, "expressions may not use 'replicate': every replicate runs the same model (use a change line for changes over time)");
@@ -331,6 +380,9 @@ internal sealed class ModelChecker
         {
             case (Kind.Species, Place.Parameter):
                 _bag.Report(at, $"parameter '{owner}' may not depend on species '{name}'; a parameter is a constant (use a rate law or a readout for expressions of species)");
+                break;
+            case (Kind.Species, Place.BurstSize):
+                _bag.Report(at, $"a mean burst size may not depend on species '{name}'; it is a number, parameter or 'size'");
                 break;
             case (Kind.Species, Place.MassConstant):
                 _bag.Report(at, $"mass-action constant may not depend on species '{name}'; write a rate law instead");
@@ -361,6 +413,7 @@ internal sealed class ModelChecker
         Place.ScheduleTime => "a change time",
         Place.ScheduleValue => "a change value",
         Place.Condition => "a condition",
+        Place.BurstSize => "a mean burst size",
         _ => "a readout",
     };
 

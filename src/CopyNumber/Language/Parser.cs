@@ -150,7 +150,7 @@ internal static class ModelParser
                 if (ParseSpecies(line) is { } species) model.Species.Add(species);
                 break;
             case Section.Parameters:
-                if (ParseNamedExpression(line, "parameter", model) is { } parameter) model.Parameters.Add(new ParameterDecl(parameter.Name, parameter.Value, parameter.Position));
+                if (ParseNamedExpression(line, "parameter", model) is { } parameter) model.Parameters.Add(new ParameterDecl(parameter.Name, parameter.Value, parameter.Position, parameter.Varies));
                 break;
             case Section.Readouts:
                 if (ParseNamedExpression(line, "readout", model) is { } readout) model.Readouts.Add(new ReadoutDecl(readout.Name, readout.Value, readout.Position));
@@ -301,10 +301,16 @@ internal static class ModelParser
             : new SpeciesDecl(name.Text, (long)Math.Round(count.Number, MidpointRounding.AwayFromZero), name.Position, held, count.Number);
     }
 
-    private static (string Name, Expr Value, SourcePosition Position)? ParseNamedExpression(LineParser line, string what, ParsedModel model)
+    private static (string Name, Expr Value, SourcePosition Position, ParameterVariation? Varies)? ParseNamedExpression(LineParser line, string what, ParsedModel model)
     {
         if (ParseNameAndEquals(line, what, "as in 'x = ...'", "") is not { } name) return null;
         if (line.ParseExpression($"the value of {what} '{name.Text}'") is not { } value) return null;
+        ParameterVariation? varies = null;
+        if (what == "parameter" && line.Peek().IsWord(VariesWord))
+        {
+            if (ParseVariation(line, name.Text) is not { } variation) return null;
+            varies = variation;
+        }
         if (line.Peek().IsWord("at") || line.Peek().IsWord("every") || line.Peek().IsWord("whenever"))
         {
             line.Fail(line.Peek().Position, $"a change of '{name.Text}' at a time or on a condition is a change line; put it under the 'changes' header");
@@ -312,7 +318,31 @@ internal static class ModelParser
         }
         if (!line.ExpectEnd($"the value of {what} '{name.Text}'")) return null;
         model.Spans[value.Expr] = value.Span;
-        return (name.Text, value.Expr, name.Position);
+        return (name.Text, value.Expr, name.Position, varies);
+    }
+
+    /// <summary>The word after a parameter's value that makes it vary per replicate.</summary>
+    public const string VariesWord = "varies";
+
+    // "varies <law> cv <expression>" after a parameter's value.
+    private static ParameterVariation? ParseVariation(LineParser line, string parameter)
+    {
+        line.Next();
+        var law = line.Peek();
+        if (law.Kind != TokenKind.Identifier || !ParameterVariation.VariationLaws.Contains(law.Text))
+        {
+            line.Fail(law.Position, $"expected a law after 'varies' ({string.Join(", ", ParameterVariation.VariationLaws)}), as in '{parameter} = 6  varies gamma cv 0.3'; found {law.Describe()}");
+            return null;
+        }
+        line.Next();
+        if (!line.Peek().IsWord("cv"))
+        {
+            line.Fail(line.Peek().Position, $"expected 'cv' and the coefficient of variation after '{law.Text}', as in '{parameter} = 6  varies {law.Text} cv 0.3'");
+            return null;
+        }
+        line.Next();
+        if (line.ParseExpression($"the coefficient of variation of '{parameter}'") is not { } cv) return null;
+        return new ParameterVariation(law.Text, cv.Expr, law.Position);
     }
 
     // "name =" at the start of a declaration; returns the name token.

@@ -54,8 +54,12 @@ public sealed record LogicExpr(bool Conjunction, Expr Left, Expr Right, SourcePo
 /// <summary><c>not operand</c>: 1 when the operand is 0, else 0.</summary>
 public sealed record NotExpr(Expr Operand, SourcePosition Position) : Expr(Position);
 
-/// <summary>One term of a reaction side: <c>[n] species</c>.</summary>
-public sealed record SpeciesTerm(long Coefficient, string Species, SourcePosition Position);
+/// <summary>
+/// One term of a reaction side: <c>[n] species</c>, or a burst <c>burst(b) species</c> (products only):
+/// a geometric number of copies on 0, 1, 2, … with mean b per firing (<paramref name="BurstMean"/>, an
+/// expression of numbers, parameters and <c>size</c>; <paramref name="Coefficient"/> is then 1).
+/// </summary>
+public sealed record SpeciesTerm(long Coefficient, string Species, SourcePosition Position, Expr? BurstMean = null);
 
 /// <summary>One side of a reaction arrow; an empty list is the empty side written <c>0</c>.</summary>
 public sealed record ReactionSide(IReadOnlyList<SpeciesTerm> Terms, SourcePosition Position);
@@ -117,7 +121,20 @@ public sealed record SpeciesDecl(string Name, long InitialCount, SourcePosition 
 }
 
 /// <summary>A parameter defined by an expression of numbers, earlier parameters and <c>size</c>.</summary>
-public sealed record ParameterDecl(string Name, Expr Value, SourcePosition Position);
+public sealed record ParameterDecl(string Name, Expr Value, SourcePosition Position, ParameterVariation? Varies = null);
+
+/// <summary>
+/// <c>k = 6  varies gamma cv 0.3</c>: the parameter is drawn per replicate (per draw of a nested design) from
+/// the named law with mean the parameter's value and coefficient of variation <paramref name="Cv"/>.
+/// </summary>
+/// <param name="Law">One of <see cref="VariationLaws"/>.</param>
+/// <param name="Cv">The coefficient of variation, an expression of numbers, earlier parameters and size.</param>
+/// <param name="Position">Where the law's name stands.</param>
+public sealed record ParameterVariation(string Law, Expr Cv, SourcePosition Position)
+{
+    /// <summary>The laws a parameter may vary by: lognormal, gamma, uniform, and normal truncated to positive values.</summary>
+    public static IReadOnlyList<string> VariationLaws { get; } = ["lognormal", "gamma", "uniform", "normal"];
+}
 
 /// <summary>What a schedule line does to its target.</summary>
 public enum ScheduleOperation

@@ -58,7 +58,7 @@ public sealed class FiniteStateProjection
         _network = network;
         _options = options;
         _parallel = new ParallelOptions { MaxDegreeOfParallelism = options.Threads > 0 ? options.Threads : Environment.ProcessorCount };
-        _parameters = network.InitialParameterValues.ToArray();
+        _parameters = network.ParameterValuesWithTime();
         _constants = new double[network.Reactions.Count];
         network.Propensities.ComputeConstants(_parameters, _constants);
         _counts = new long[network.Species.Count];

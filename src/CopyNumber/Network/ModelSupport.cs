@@ -34,7 +34,23 @@ public static class ModelSupport
     /// cannot take <paramref name="network"/>: the simulators' problems and every trigger; empty when they can.
     /// </summary>
     public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network) =>
-        [.. TriggerProblems(network), .. SimulationProblems(network)];
+        [.. TriggerProblems(network), .. TimeProblems(network, "the master equation"), .. BurstProblems(network), .. SimulationProblems(network)];
+
+    // A geometric burst jumps to infinitely many states at once; the projection's generator has no row for that.
+    private static List<Diagnostic> BurstProblems(ReactionNetwork network) =>
+        network.Bursts.All.Take(1).Select(b => At(network, new SourcePosition(1, 1),
+            $"reaction '{network.Reactions[b.Reaction].Name}' makes a burst of random size, which the master equation does not carry out; " +
+            "the stochastic simulators, the rate equations and the linear noise approximation do")).ToList();
+
+    /// <summary>
+    /// Why <paramref name="method"/>, a method that keeps propensities fixed between events, cannot take
+    /// <paramref name="network"/>: its laws that read <c>time</c>; empty when none does. The direct method
+    /// (exact, by thinning: <c>Stochastic/ThinnedDirectMethod.cs</c>), tau-leaping and the rate equations take them.
+    /// </summary>
+    public static IReadOnlyList<Diagnostic> TimeProblems(ReactionNetwork network, string method) =>
+        network.TimeDependence.Reactions.Take(1).Select(j => At(network, new SourcePosition(1, 1),
+            $"reaction '{network.Reactions[j].Name}' has a rate law that reads time, which {method} does not carry out; " +
+            "the direct method (exact, by thinning) and tau-leaping do")).ToList();
 
     /// <summary>
     /// Why the rate equations, the linear noise approximation and the corrected mean cannot integrate

@@ -30,7 +30,8 @@ public static class NetworkCompiler
         (int Species, long Coefficient)[] Reactants,
         (int Species, long Coefficient)[] Products,
         LawKind Law,
-        Expr LawExpression);
+        Expr LawExpression,
+        (int Species, Expr Mean)[]? Bursts = null);
 
     /// <summary>The kinetics of one column, in the shapes Propensities and RateEquations take.</summary>
     private sealed record ColumnKinetics(
@@ -47,6 +48,7 @@ public static class NetworkCompiler
         private double[] _parameterValues = [];
         private readonly HashSet<string> _brokenParameters = [];
         private readonly Dictionary<string, StateLaw> _constantLaws = [];
+        private readonly List<ParameterVariability.Varying> _varying = [];
 
         public CompileOutcome Run()
         {
@@ -73,12 +75,17 @@ public static class NetworkCompiler
                 columns.Select(c => (IReadOnlyList<(int, long)>)c.Reactants).ToArray(),
                 kinetics.Select(k => k!.MassConstant).ToArray(),
                 kinetics.Select(k => k!.CountRate).ToArray());
+            var bursts = new BurstProducts(columns.Length, columns.SelectMany((c, j) => (c.Bursts ?? []).Select(b =>
+                new BurstProducts.Burst(j, b.Species, ExpressionCompiler.CompileStateLaw(_scope.Expand(b.Mean), _scope)))));
             var rateEquations = new RateEquations(
                 stoichiometry,
                 propensities,
                 kinetics.Select(k => k!.StateRate).ToArray(),
-                kinetics.Select(k => k!.Derivatives).ToArray());
+                kinetics.Select(k => k!.Derivatives).ToArray(),
+                bursts);
             var dependencies = new DependencyGraph(stoichiometry, kinetics.Select(k => k!.SpeciesRead).ToArray());
+            var timeDependence = TimeDependence.Compile(
+                columns.Select(c => c.Law == LawKind.Rate ? _scope.Expand(c.LawExpression) : null).ToArray(), _scope);
             var reactions = columns
                 .Select(c => new Reaction(c.Name, c.Reactants, c.Products, c.Law, ExpressionText.Format(c.LawExpression)))
                 .ToArray();
@@ -101,7 +108,10 @@ public static class NetworkCompiler
                 triggers.Select(t => t!).ToArray(),
                 new ModelUnits(model.TimeUnit, model.SizeUnit),
                 held,
-                model.Species.Select(s => s.Position).ToArray());
+                model.Species.Select(s => s.Position).ToArray(),
+                timeDependence,
+                bursts,
+                _varying.Count > 0 ? new ParameterVariability(_varying) : null);
             return new CompileOutcome(network, []);
         }
 
@@ -177,6 +187,14 @@ public static class NetworkCompiler
                     continue;
                 }
                 values[p] = value;
+                if (parameter.Varies is { } varies && double.IsFinite(value))
+                {
+                    var cv = double.NaN;
+                    if (Guard(() => cv = Evaluate(varies.Cv, ValueOf, "a coefficient of variation", laterParameterIndex: defined)))
+                        _varying.Add(new ParameterVariability.Varying(p, varies.Law, value, cv));
+                    if (varies.Law is "lognormal" or "gamma" && !(value > 0))
+                        Report(parameter.Position, $"parameter '{parameter.Name}' varies by a {varies.Law} law, whose values are positive, so its mean must be positive, not {Describe(value)}");
+                }
                 if (double.IsFinite(value)) continue;
                 if (!ReadsBrokenParameter(parameter.Value))
                     Report(parameter.Position, $"parameter '{parameter.Name}' evaluates to {Describe(value)}");
@@ -210,7 +228,8 @@ public static class NetworkCompiler
                 var products = Side(line.Products);
                 if (!line.Reversible)
                 {
-                    columns.Add(new Column(line.Name, line.Position, reactants, products, line.Law, line.Forward));
+                    columns.Add(new Column(line.Name, line.Position, reactants, products, line.Law, line.Forward,
+                        line.Products.Terms.Where(t => t.BurstMean is not null).Select(t => (_scope.SpeciesIndex(t.Species), t.BurstMean!)).ToArray()));
                     continue;
                 }
                 if (line.Reverse is null)

@@ -29,7 +29,10 @@ public sealed class ReactionNetwork
         IReadOnlyList<StateTrigger>? triggers = null,
         ModelUnits? units = null,
         IReadOnlyList<bool>? held = null,
-        IReadOnlyList<Language.SourcePosition>? speciesPositions = null)
+        IReadOnlyList<Language.SourcePosition>? speciesPositions = null,
+        TimeDependence? timeDependence = null,
+        BurstProducts? bursts = null,
+        ParameterVariability? variability = null)
     {
         Name = name;
         SourceFile = sourceFile;
@@ -50,7 +53,29 @@ public sealed class ReactionNetwork
         Units = units ?? ModelUnits.None;
         Held = held?.ToArray() ?? new bool[Species.Count];
         SpeciesPositions = speciesPositions?.ToArray() ?? [];
+        TimeDependence = timeDependence ?? TimeDependence.None(Reactions.Count);
+        Bursts = bursts ?? BurstProducts.None(Reactions.Count);
+        Variability = variability ?? ParameterVariability.None;
     }
+
+    /// <summary>Parameters drawn per replicate group from a named law (none unless a parameter line says <c>varies</c>).</summary>
+    public ParameterVariability Variability { get; }
+
+    /// <summary>Products made in bursts of random size (none unless a reaction has a <c>burst(b)</c> product).</summary>
+    public BurstProducts Bursts { get; }
+
+    /// <summary>Which rate laws read <c>time</c> (none unless some law does).</summary>
+    public TimeDependence TimeDependence { get; }
+
+    /// <summary>
+    /// The slot of a parameter array, after the declared parameters, from which compiled laws read
+    /// <c>time</c>; arrays handed to laws have <see cref="Parameters"/>.Count + 1 entries
+    /// (<see cref="ParameterValuesWithTime"/>).
+    /// </summary>
+    public int TimeSlot => Parameters.Count;
+
+    /// <summary>A fresh parameter array for compiled laws: the initial values, then the time slot set to <paramref name="time"/>.</summary>
+    public double[] ParameterValuesWithTime(double time = 0.0) => [.. InitialParameterValues, time];
 
     /// <summary>
     /// Initial amounts as declared: equal to <see cref="InitialCounts"/> except where a species starts at a

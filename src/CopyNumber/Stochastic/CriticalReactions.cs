@@ -16,6 +16,7 @@ internal sealed class CriticalReactions
     private readonly int[] _species;
     private readonly long[] _consumed;
     private readonly int _threshold;
+    private readonly bool[] _bursty;
 
     public CriticalReactions(ReactionEffects effects, int threshold)
     {
@@ -38,6 +39,16 @@ internal sealed class CriticalReactions
         _species = species.ToArray();
         _consumed = consumed.ToArray();
         IsCritical = new bool[reactions];
+        _bursty = new bool[reactions];
+    }
+
+    /// <summary>
+    /// Reactions that make bursts are always critical (ours): the leap condition bounds the change of a leap
+    /// from N's fixed entries, which a burst's random size escapes, so they fire one event at a time.
+    /// </summary>
+    public void MarkBursty(Network.BurstProducts bursts)
+    {
+        for (var j = 0; j < _bursty.Length; j++) _bursty[j] = bursts.Makes(j);
     }
 
     /// <summary>Per reaction, whether the last <see cref="Classify"/> found it critical.</summary>
@@ -49,7 +60,7 @@ internal sealed class CriticalReactions
         var total = 0.0;
         for (var j = 0; j < IsCritical.Length; j++)
         {
-            var critical = propensities[j] > 0.0 && FiringsLeft(j, counts) < _threshold;
+            var critical = propensities[j] > 0.0 && (_bursty[j] || FiringsLeft(j, counts) < _threshold);
             IsCritical[j] = critical;
             if (critical) total += propensities[j];
         }

@@ -27,9 +27,12 @@ internal abstract class ExactSimulation : IStochasticSimulator
 
     protected SimulatorState State { get; }
 
+    public void StartFrom(double[]? parameters) => State.StartParameters = parameters;
+
     public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
     {
         State.StartReplicate(_schedule, _recorder, grid, observer);
+        State.SeedBursts(ref rng);
         var time = 0.0;
         var events = 0L;
         Begin(ref rng, time);

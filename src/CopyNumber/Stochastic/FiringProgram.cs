@@ -66,7 +66,8 @@ internal sealed class FiringProgram
                 ChangeEnd = effects.ChangeStart[j + 1],
                 UpdateStart = effects.DependentStart[j],
                 UpdateEnd = effects.DependentStart[j + 1],
-                OutOfLine = effects.MayMakeNegative[j] || effects.IsBroad[j],
+                OutOfLine = effects.MayMakeNegative[j] || effects.IsBroad[j] || state.Network.Bursts.Makes(j),
+                MakesBurst = state.Network.Bursts.Makes(j),
                 CheckConsumption = effects.MayMakeNegative[j],
                 CountsSwitch = state.Switches.TwoState.ChangedBy(j),
                 ChecksTriggers = state.Triggers.WatchedBy(j),
@@ -192,6 +193,7 @@ internal sealed class FiringProgram
     [MethodImpl(MethodImplOptions.NoInlining)]
     private void FireOutOfLine(ref Header header, int reaction, SimulatorState state, ReactionEffects effects, double time)
     {
+        if (header.MakesBurst) state.FireBursts(reaction, time);
         if (header.CheckConsumption) effects.CheckFiring(reaction, state, time);
         if (header.Broad) CollectBroad(ref header, reaction);
     }
@@ -215,6 +217,8 @@ internal sealed class FiringProgram
         public bool ChecksTriggers;
         /// <summary>The update range is set at each firing by <see cref="CollectBroad"/>.</summary>
         public bool Broad;
+        /// <summary>The reaction makes a burst of random size (<see cref="SimulatorState.FireBursts"/>).</summary>
+        public bool MakesBurst;
     }
 
     /// <summary>Count of <see cref="Species"/> += <see cref="Amount"/>, allowed while the count is ≤ <see cref="Headroom"/>.</summary>

@@ -20,4 +20,11 @@ public interface IStochasticSimulator
     /// schedule value was not finite. The message names the reaction or species, the time and the state.
     /// </exception>
     ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer);
+
+    /// <summary>
+    /// The parameter values the following replicates start from, indexed like the network's parameters
+    /// (a draw of <see cref="ParameterVariability"/>); null for the network's own initial values. The array
+    /// is read at each replicate's start, not copied.
+    /// </summary>
+    void StartFrom(double[]? parameters);
 }

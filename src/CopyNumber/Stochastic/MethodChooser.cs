@@ -54,7 +54,7 @@ public static class MethodChooser
     {
         ArgumentNullException.ThrowIfNull(network);
         var m = network.Stoichiometry.ReactionCount;
-        if (m > LargeNetwork)
+        if (m > LargeNetwork && !network.TimeDependence.Any)
             return (SimulationMethod.CompositionRejection,
                 $"auto: {Count(m)} reactions (more than {Count(LargeNetwork)}), so composition-rejection, whose cost per event hardly grows with the network");
         var reactions = $"{Count(m)} reaction{(m == 1 ? "" : "s")}";

@@ -21,8 +21,12 @@ public static class SimulatorFactory
         ArgumentNullException.ThrowIfNull(options);
         options.Validate();
         var large = network.Stoichiometry.ReactionCount > LinearSelectionLimit;
+        if (network.TimeDependence.Any && method is SimulationMethod.NextReaction or SimulationMethod.CompositionRejection)
+            throw new UnsupportedModelException(ModelSupport.TimeProblems(network,
+                method == SimulationMethod.NextReaction ? "the next reaction method" : "composition-rejection"));
         return method switch
         {
+            SimulationMethod.Direct when network.TimeDependence.Any => new ThinnedDirectMethod(network, options),
             SimulationMethod.Direct when large => new DirectMethod<SumTreeSelection>(network, options),
             SimulationMethod.Direct => new DirectMethod<LinearSelection>(network, options),
             SimulationMethod.NextReaction => new NextReactionMethod(network, options),

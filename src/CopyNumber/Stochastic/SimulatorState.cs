@@ -3,6 +3,7 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using CopyNumber.Kinetics;
 using CopyNumber.Network;
+using CopyNumber.Randomness;
 
 namespace CopyNumber.Stochastic;
 
@@ -29,10 +30,12 @@ internal sealed class SimulatorState
             throw new ArgumentException("the network's parameter names and values disagree in number", nameof(network));
         ModelSupport.RequireSimulation(network);
         Counts = new long[species];
-        Parameters = new double[network.Parameters.Count];
+        Parameters = network.ParameterValuesWithTime();
         Constants = new double[reactions];
         Terms = new PropensityTerm[reactions];
         Switches = new TransitionCounter(network);
+        _burstMeans = new double[network.Bursts.All.Count];
+        _burstLogRatio = new double[_burstMeans.Length];
         Triggers = new TriggerWatch(network);
         for (var j = 0; j < reactions; j++)
         {
@@ -47,6 +50,10 @@ internal sealed class SimulatorState
     }
 
     public ReactionNetwork Network => _network;
+
+    /// <summary>Sets the time that laws reading <c>time</c> see (the parameter array's time slot).</summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    public void SetTime(double time) => Parameters[_network.TimeSlot] = time;
     public long[] Counts { get; }
     public double[] Parameters { get; }
     public double[] Constants { get; }
@@ -63,11 +70,15 @@ internal sealed class SimulatorState
     /// <summary>Changes whenever recomputing <see cref="Constants"/> changed one (and at the first computation), so copies know when to follow.</summary>
     public int ConstantsVersion { get; private set; }
 
+    /// <summary>The parameter values a replicate starts from instead of the network's (a draw of extrinsic variability); null for the network's.</summary>
+    public double[]? StartParameters { get; set; }
+
     /// <summary>Back to the network's initial counts and parameter values, constants recomputed.</summary>
     public void Reset()
     {
         for (var i = 0; i < Counts.Length; i++) Counts[i] = _network.InitialCounts[i];
-        for (var p = 0; p < Parameters.Length; p++) Parameters[p] = _network.InitialParameterValues[p];
+        if (StartParameters is { } start) Array.Copy(start, Parameters, _network.TimeSlot);
+        else for (var p = 0; p < _network.TimeSlot; p++) Parameters[p] = _network.InitialParameterValues[p];
         RefreshConstants();
     }
 
@@ -85,10 +96,47 @@ internal sealed class SimulatorState
         recorder.Start(grid, observer, Parameters);
     }
 
+    /// <summary>
+    /// The stream the geometric burst sizes are drawn from, seeded from the replicate's own stream at its
+    /// start (<see cref="SeedBursts"/>), so the simulators' event loops keep their generator in registers.
+    /// </summary>
+    private Xoshiro256StarStar _burstStream;
+    private readonly double[] _burstMeans;
+    private readonly double[] _burstLogRatio;
+
+    /// <summary>Seeds the burst stream from one draw of the replicate's stream; does nothing (draws nothing) without bursts.</summary>
+    public void SeedBursts(ref Xoshiro256StarStar rng)
+    {
+        if (_burstMeans.Length > 0) _burstStream = new Xoshiro256StarStar(rng.NextUInt64());
+    }
+
+    /// <summary>
+    /// Adds the rest of reaction <paramref name="reaction"/>'s bursts to the counts after its firing, whose
+    /// N column already added 1 copy per burst: B − 1 more, B geometric (<see cref="BurstProducts"/>).
+    /// </summary>
+    public void FireBursts(int reaction, double time) => AddBursts(reaction, 1, Counts, time);
+
+    /// <summary>Adds the rest of <paramref name="firings"/> firings' bursts to <paramref name="counts"/> (tau-leaping's trial counts).</summary>
+    public void AddBursts(int reaction, long firings, long[] counts, double time)
+    {
+        var (start, end) = _network.Bursts.Of(reaction);
+        for (var k = start; k < end; k++)
+        {
+            var species = _network.Bursts.All[k].Species;
+            for (var f = 0L; f < firings; f++)
+            {
+                var extra = GeometricSampler.Sample(ref _burstStream, _burstLogRatio[k]) - 1;
+                if (extra > FiringProgram.CountLimit - counts[species]) ThrowCountOverflow(reaction, species, extra + 1, time);
+                counts[species] += extra;
+            }
+        }
+    }
+
     /// <summary>Recomputes c_j from the current parameters; call after a parameter changes.</summary>
     public void RefreshConstants()
     {
         _propensities.ComputeConstants(Parameters, Constants);
+        if (_burstMeans.Length > 0) RefreshBursts();
         // The version moves only when a constant really changed, so the reset at every replicate's start
         // does not make the simulators recopy the constants of a large network each time.
         var changed = false;
@@ -99,6 +147,19 @@ internal sealed class SimulatorState
             changed = true;
         }
         if (changed) ConstantsVersion++;
+    }
+
+    private void RefreshBursts()
+    {
+        _network.Bursts.Means(Parameters, _burstMeans);
+        for (var k = 0; k < _burstMeans.Length; k++)
+        {
+            if (!(_burstMeans[k] >= 0) || !double.IsFinite(_burstMeans[k]))
+                throw new SimulationFailureException(
+                    $"the mean burst size of '{_network.Species[_network.Bursts.All[k].Species]}' in reaction '{_network.Reactions[_network.Bursts.All[k].Reaction].Name}' " +
+                    $"is {_burstMeans[k].ToString("G6", System.Globalization.CultureInfo.InvariantCulture)} with the parameters in force; it must be a finite number, zero or more", 0);
+            _burstLogRatio[k] = GeometricSampler.LogRatio(_burstMeans[k]);
+        }
     }
 
     /// <summary>The general mass-action product or a rate law, kept out of line so the common forms stay small.</summary>

@@ -36,6 +36,8 @@ public class SymbolicDerivativeTests
     [InlineData("x^n", "n * x^(n - 1)")]
     [InlineData("k^x", "k^x * log(k)")]
     [InlineData("abs(x)", "sign(x)")]
+    [InlineData("sin(x)", "cos(x)")]
+    [InlineData("cos(x)", "-sin(x)")]
     public void Simple_derivatives_print_in_simplified_form(string expression, string derivative) =>
         Assert.Equal(derivative, D(expression));
 
@@ -44,6 +46,7 @@ public class SymbolicDerivativeTests
         "hill_act(x, K, 2)", "hill_act(x, K, n)", "hill_rep(x, K, 3)", "hill_rep(x, K, n)", "mm(x, K)",
         "pow(x, 2.5) + pow(2, x)", "x^x", "exp(-k*x)*log(x + y)", "sqrt(x*y)/(1 + x)",
         "min(x, y) + max(2*x, K)", "min(x, 2*y, K*x)", "abs(y - x^2)", "k*x*y/(K + x)^2", "x^-1.5",
+        "sin(k*x)*cos(y) + cos(x/2)",
     };
 
     [Theory]

@@ -13,7 +13,7 @@ public sealed class BuiltinFunctionsTests
         var expected = new Dictionary<string, int>
         {
             ["exp"] = 1, ["log"] = 1, ["sqrt"] = 1, ["pow"] = 2, ["min"] = 2, ["max"] = 2, ["abs"] = 1,
-            ["hill_act"] = 3, ["hill_rep"] = 3, ["mm"] = 2, ["choose"] = 3,
+            ["sin"] = 1, ["cos"] = 1, ["hill_act"] = 3, ["hill_rep"] = 3, ["mm"] = 2, ["choose"] = 3,
         };
         Assert.Equal(expected.OrderBy(p => p.Key), BuiltinFunctions.Arity.OrderBy(p => p.Key));
         Assert.Equal(expected.Keys.Order(), BuiltinFunctions.Signature.Keys.Order());
@@ -44,6 +44,8 @@ public sealed class BuiltinFunctionsTests
         Assert.Equal(-1.0, BuiltinFunctions.Apply("min", [-1, 2]));
         Assert.Equal(2.0, BuiltinFunctions.Apply("max", [-1, 2]));
         Assert.Equal(1.5, BuiltinFunctions.Apply("abs", [-1.5]));
+        Assert.Equal(1.0, BuiltinFunctions.Apply("sin", [Math.PI / 2]), 15); // radians
+        Assert.Equal(-1.0, BuiltinFunctions.Apply("cos", [Math.PI]), 15);
         Assert.Throws<ArgumentException>(() => BuiltinFunctions.Apply("mm", [1]));
     }
 }

@@ -174,10 +174,11 @@ public sealed class DiagnosticTests
         AssertSingleError(Model(parameters: "k = 0.5\n  " + speciesLine), line, column, words);
 
     [Fact]
-    public void TimeAndReplicateMayNotAppearInExpressions()
+    public void TimeMayAppearOnlyInRateLawsAndReplicateNowhere()
     {
-        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer rate k * time"), 7, 37,
-            "must not depend on time explicitly", "at time T");
+        AssertSingleError(Model(reactions: "bind: 2 protein -> dimer mass k * time"), 7, 37,
+            "mass-action constant may not depend on 'time'", "write a rate law");
+        AssertSingleError(Model(parameters: "k = 2 * time"), 5, 11, "a parameter may not depend on 'time'", "at time T");
         AssertSingleError(Model(parameters: "k = replicate"), 5, 7, "'replicate'", "change line");
     }
 
@@ -280,7 +281,7 @@ public sealed class DiagnosticTests
     [InlineData("protein = 1  whenever protein >", 34, "the condition is incomplete")]
     [InlineData("protein = 1  whenever protien > 3", 25, "unknown name 'protien'", "did you mean 'protein'?")]
     [InlineData("protein = 1  whenever total > 3", 25, "readout 'total' cannot be used in a condition")]
-    [InlineData("protein = 1  whenever time > 3", 25, "must not depend on time explicitly")]
+    [InlineData("protein = 1  whenever time > 3", 25, "a condition may not depend on 'time'; only rate laws may")]
     [InlineData("protein = 1  whenever 1 < protein < 3", 37, "comparisons do not chain")]
     [InlineData("protein = 1  whenever protein ! 3", 33, "write 'not' to negate a condition", "'!='")]
     [InlineData("protein = 1  whenever protein > 3 && dimer < 2", 37, "write 'and' and 'or'")]

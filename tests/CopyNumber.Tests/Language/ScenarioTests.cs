@@ -18,7 +18,7 @@ public sealed class ScenarioTests
     public void EveryScenarioParsesAndSaysItsValuesAreIllustrative()
     {
         var files = ScenarioFiles();
-        Assert.Equal(["inducer_pulse.cnet", "promoter_switch.cnet", "repressor_dimer.cnet", "ring_oscillator.cnet", "toggle_pair.cnet"],
+        Assert.Equal(["bursty_gene_cells.cnet", "inducer_pulse.cnet", "promoter_switch.cnet", "repressor_dimer.cnet", "ring_oscillator.cnet", "toggle_pair.cnet"],
             files.Select(Path.GetFileName));
         foreach (var file in files)
         {
@@ -27,6 +27,24 @@ public sealed class ScenarioTests
             Assert.Contains("illustrative", header);
             Assert.Contains("not measured", header);
         }
+    }
+
+    [Fact]
+    public void BurstyGeneCellsHasTheMeansItsHeaderStates()
+    {
+        // Without the inducer cycle (depth 0) and at the mean burst frequency the network is first order, so
+        // the mean equations are exact: <on> = k_on/(k_on + k_off), <m> = k_burst·<on>·b/d_m (mean burst size
+        // b; Friedman, Cai & Xie 2006), <p> = k_tl·<m>/d_p.
+        var model = Load("bursty_gene_cells.cnet");
+        var values = ParameterValues(model);
+        var burst = model.Reactions.Single(r => r.Name == "transcribe").Products.Terms.Single(t => t.BurstMean is not null);
+        Assert.Equal("mrna", burst.Species);
+        Assert.Equal("gamma", model.Parameters.Single(p => p.Name == "k_burst").Varies!.Law);
+        var onFraction = values["k_on"] / (values["k_on"] + values["k_off"]);
+        var meanMrna = Constant(model, "transcribe") * onFraction * values["b_mrna"] / Constant(model, "mrna_decay");
+        Assert.Equal(0.5, onFraction, 12);
+        Assert.Equal(32, meanMrna, 9);
+        Assert.Equal(320, Constant(model, "translate") * meanMrna / Constant(model, "prot_decay"), 9);
     }
 
     [Fact]
