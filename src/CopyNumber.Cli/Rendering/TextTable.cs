@@ -2,9 +2,16 @@ using System.Text;
 
 namespace CopyNumber.Cli.Rendering;
 
-/// <summary>A plain-text table: a header row, a rule, then rows; numbers right-aligned, text left-aligned.</summary>
+/// <summary>
+/// A plain-text table: a header row, a rule, then rows; numbers right-aligned, text left-aligned. Each row stays one
+/// line (scripts grep them); the rule under a text last column stops at <see cref="LongestRule"/> characters, so one
+/// long sentence (a verdict's reason) does not draw hundreds of dashes.
+/// </summary>
 internal sealed class TextTable(params string[] headers)
 {
+    /// <summary>The longest rule drawn under a text last column.</summary>
+    public const int LongestRule = 100;
+
     private readonly List<string[]> _rows = [];
 
     public TextTable Add(params string[] cells)
@@ -35,7 +42,8 @@ internal sealed class TextTable(params string[] headers)
             text.Append('\n');
         }
         Line(headers);
-        text.Append(string.Join("  ", widths.Select(w => new string('-', w)))).Append('\n');
+        var last = columns - 1;
+        text.Append(string.Join("  ", widths.Select((w, c) => new string('-', c == last && !rightAligned[c] ? Math.Min(w, Math.Max(LongestRule, headers[c].Length)) : w)))).Append('\n');
         foreach (var row in _rows) Line(row);
         return text.ToString();
     }
