@@ -131,6 +131,8 @@ internal sealed class MathMlReader(IReadOnlyDictionary<string, (IReadOnlyList<st
                 var degree = Qualifier("degree", 2);
                 return SbmlMath.Apply("^", args[0], SbmlMath.Apply("/", new MathNumber(1), degree));
             case "exp": return SbmlMath.Apply("exp", Need(1));
+            case "sin": return SbmlMath.Apply("sin", Need(1));
+            case "cos": return SbmlMath.Apply("cos", Need(1));
             case "ln": return SbmlMath.Apply("log", Need(1));
             case "log":
                 Need(1);

@@ -63,6 +63,8 @@ internal static class MathMlWriter
             "^" => Apply("power", Numbers()),
             "sqrt" => Apply("root", Numbers()),
             "exp" => Apply("exp", Numbers()),
+            "sin" => Apply("sin", Numbers()),
+            "cos" => Apply("cos", Numbers()),
             "log" => Apply("ln", Numbers()),
             "abs" => Apply("abs", Numbers()),
             "min" => Apply("min", Numbers()),

@@ -53,17 +53,6 @@ internal sealed class SbmlExport(LoadedModel model)
         _refusals.Add(new Diagnostic(SbmlImporter.IsSbmlPath(_syntax.File) ? $"{_syntax.File} (as imported)" : _syntax.File, at, message,
             at.Line >= 1 && at.Line <= _lines.Length ? _lines[at.Line - 1] : ""));
 
-    /// <summary>
-    /// Refuses a construct of the language that SBML core could carry but whose SBML form our own import does not read
-    /// back yet (time in laws and the trigonometric functions): the round trip is the export's check, so an export
-    /// that could not make it is refused. Returns a placeholder so that the rest of the model is still checked.
-    /// </summary>
-    private SbmlMath RefuseUnmapped(SourcePosition at, string what)
-    {
-        Refuse(at, $"{what} is not exported yet: SBML import does not read it back, and an export is only written when importing it gives the same network");
-        return SbmlMath.Number(0);
-    }
-
     /// <summary>Bursts of random size and parameters that vary per cell have no form in SBML core; refused where they are written.</summary>
     private void RefuseCellFeatures()
     {
@@ -107,7 +96,7 @@ internal sealed class SbmlExport(LoadedModel model)
     {
         NumberExpr n => SbmlMath.Number(n.Value),
         NameExpr n when n.Name == "size" => new MathName(_compartment),
-        NameExpr n when n.Name == "time" => RefuseUnmapped(n.Position, "a law that reads 'time'"),
+        NameExpr n when n.Name == "time" => new MathTime(),
         NameExpr n => new MathName(_ids[n.Name]),
         NegateExpr n => SbmlMath.Apply("-", ToMath(n.Operand)),
         BinaryExpr b => SbmlMath.Apply(b.Operator.ToString(), ToMath(b.Left), ToMath(b.Right)),
@@ -122,7 +111,6 @@ internal sealed class SbmlExport(LoadedModel model)
         }, ToMath(c.Left), ToMath(c.Right)),
         LogicExpr l => SbmlMath.Apply(l.Conjunction ? "and" : "or", ToMath(l.Left), ToMath(l.Right)),
         NotExpr n => SbmlMath.Apply("not", ToMath(n.Operand)),
-        CallExpr c when c.Function is "sin" or "cos" => RefuseUnmapped(c.Position, $"'{c.Function}'"),
         CallExpr c => Call(c.Function, c.Arguments.Select(ToMath).ToArray()),
         _ => throw new InvalidOperationException(e.GetType().Name),
     };

@@ -55,6 +55,8 @@ internal abstract record SbmlMath
             "/" => Arg(0) / Arg(1),
             "^" => Math.Pow(Arg(0), Arg(1)),
             "exp" => Math.Exp(Arg(0)),
+            "sin" => Math.Sin(Arg(0)),
+            "cos" => Math.Cos(Arg(0)),
             "log" => Math.Log(Arg(0)),
             "abs" => Math.Abs(Arg(0)),
             "min" => Math.Min(Arg(0), Arg(1)),

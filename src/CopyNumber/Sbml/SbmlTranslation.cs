@@ -268,10 +268,13 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
         throw new SbmlRefusal(where, $"'{id}' is not a species, compartment or parameter the network language can read (a reaction's id in math is not supported)");
     }
 
+    private bool _lawMayReadTime;
+
     private SbmlMath ToCnet(SbmlMath math, XElement where) => math.Substitute(node => node switch
     {
         MathName n => Symbol(n.Name, where),
-        MathTime => throw new SbmlRefusal(where, $"{SbmlRefusal.Describe(where)} uses time: the network language's laws, rules and conditions do not depend on time explicitly (only a trigger 'time >= T' is read, as a change at time T)"),
+        MathTime when _lawMayReadTime => null,
+        MathTime => throw new SbmlRefusal(where, $"{SbmlRefusal.Describe(where)} uses time: of the network language's expressions only rate laws may read time (a trigger 'time >= T' is read as a change at time T)"),
         _ => null,
     });
 
@@ -337,7 +340,11 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
         var products = Side(reaction, "listOfProducts");
         if (AnnotatedMassAction(reaction, law) is { } constant)
             return $"  {(Reserved.Contains(id) ? id + "_sbml" : id)}: {SideText(reactants)} -> {SideText(products)}  mass {constant.ToCnet()}\n";
-        var rate = ToCnet(MathOf(law), law);
+        // A kinetic law may read time (the engine simulates it exactly by thinning; docs/methods.md); nothing else may.
+        _lawMayReadTime = true;
+        SbmlMath rate;
+        try { rate = ToCnet(MathOf(law), law); }
+        finally { _lawMayReadTime = false; }
         if (F != 1) rate = SbmlMath.Apply("*", new MathNumber(F), rate);
         var name0 = Reserved.Contains(id) ? id + "_sbml" : id;
         var line = $"  {name0}: {SideText(reactants)} -> {SideText(products)}  ";
@@ -399,7 +406,7 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
             var speciesFactors = factors.OfType<MathName>().Where(n => species.Contains(n.Name)).Select(n => n.Name).ToList();
             var rest = factors.Where(f => !(f is MathName n && species.Contains(n.Name))).ToList();
             if (speciesFactors.Count == reactants.Count && speciesFactors.Order().SequenceEqual(reactants.Select(r => r.Name).Order())
-                && rest.All(f => !f.Names().Any(species.Contains)))
+                && rest.All(f => !f.Names().Any(species.Contains) && !f.Nodes().OfType<MathTime>().Any())) // a mass-action constant may not read time
             {
                 SbmlMath constant = rest.Count == 0 ? new MathNumber(1) : rest.Skip(1).Aggregate(rest[0], (a, b) => SbmlMath.Apply("*", a, b));
                 // a = k·Ω^(1−m)·∏x (docs/network-language.md, Mass action), so k = c·Ω^(m−1).

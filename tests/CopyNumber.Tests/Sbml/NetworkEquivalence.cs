@@ -73,6 +73,9 @@ internal static class NetworkEquivalence
             var (countsA, countsB) = Permuted(a.Species.Count, sp, _ => (long)(random.Next(8) == 0 ? random.Next(0, 2000) : random.Next(0, 40)));
             var (paramsA, paramsB) = Permuted(a.Parameters.Count, pp, p => a.InitialParameterValues[p] == 0 ? 3 * random.NextDouble() : a.InitialParameterValues[p] * (0.5 + 1.5 * random.NextDouble()));
             var (stateA, stateB) = Permuted(a.Species.Count, sp, _ => 40 * random.NextDouble());
+            // Laws that read time find it in the slot after the parameters (ReactionNetwork.TimeSlot): the same random time for both.
+            var time = 50 * random.NextDouble();
+            (paramsA, paramsB) = ([.. paramsA, time], [.. paramsB, time]);
             var constantsA = new double[a.Reactions.Count];
             var constantsB = new double[b.Reactions.Count];
             a.Propensities.ComputeConstants(paramsA, constantsA);
@@ -169,7 +172,7 @@ internal static class NetworkEquivalence
             var instantEnds = c == a.Count - 1 || (!double.IsNaN(a[c].Time) && a[c + 1].Time != a[c].Time);
             if (!instantEnds) continue;
             for (var i = 0; i < ca.Length; i++) Assert.True(ca[i] == cb[sp[i]], $"after change {c} ({a[c].TargetName}): species {i} is {ca[i]} before, {cb[sp[i]]} after");
-            for (var p = 0; p < pa.Length; p++) Close(pa[p], pb[pp[p]], $"after change {c} ({a[c].TargetName}): parameter {p}");
+            for (var p = 0; p < pp.Length; p++) Close(pa[p], pb[pp[p]], $"after change {c} ({a[c].TargetName}): parameter {p}");
         }
     }
 
