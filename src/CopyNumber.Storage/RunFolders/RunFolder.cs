@@ -103,6 +103,9 @@ public sealed class RunFolder
         var manifest = RunManifest.Read(System.IO.Path.Combine(folder, RunFiles.Manifest));
         var warnings = new List<string>();
         FileChecksums.VerifyRunFolder(manifest, AtomicFile.FullPath(folder), warnings);
+        if (manifest.Arguments.TryGetValue(ManifestFields.ShardArgument, out var shardText) && CopyNumber.Ensembles.Shard.TryParse(shardText, out var shard, out _) && !shard.IsWhole)
+            warnings.Add($"'{folder}' holds shard {shard} of a run: {manifest.ReplicatesFinished} of the run's {manifest.ReplicatesRequested} replicates, "
+                + "so everything below describes that part only; combine the shards with 'copynumber merge' and contrast the merged folder for the whole run");
         using var moments = ParquetTableReader.Open(System.IO.Path.Combine(folder, RunFiles.Moments));
         if (!moments.Metadata.TryGetValue(Provenance.ModelTextKey, out var modelText))
             throw new RunFolderException($"'{folder}/{RunFiles.Moments}' carries no model text in its metadata, so it was not written by copynumber's simulate or exact", folder);
