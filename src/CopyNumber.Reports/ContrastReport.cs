@@ -31,6 +31,7 @@ public static class ContrastReport
         else if (contrast.ExpansionFailure is not null)
             cautions.Add($"The linear noise approximation could not be computed ({contrast.ExpansionFailure}); its bands and variance ratios are missing.");
         if (contrast.ExpansionStop is { } stop) cautions.Add(stop);
+        if (run.PartOfRun is { } part) cautions.Insert(0, part);
 
         var verdictRows = contrast.Quantities
             .SelectMany(q => q.Verdicts.Select(v => (IReadOnlyList<string>)[q.Name, v.Label, v.Sentence]))

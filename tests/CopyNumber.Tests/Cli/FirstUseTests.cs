@@ -103,6 +103,8 @@ public sealed class FirstUseTests
         Assert.Equal(0, contrast.ExitCode);
         // 256 replicates are 4 blocks of 64 (DEVELOPERS.md); shard 1/2 holds the first 2 blocks, 128 replicates.
         Assert.Contains("holds shard 1/2 of a run: 128 of the run's 256 replicates", contrast.Error);
+        // The report says it too, first among its cautions, for a reader who never saw the console.
+        Assert.Contains("holds shard 1/2 of a run: 128 of the run's 256 replicates", File.ReadAllText(Path.Combine(shard, "report.md")));
 
         var whole = scratch.File("whole");
         Assert.Equal(0, CliRun.Of("simulate", model, "--until", "2", "--every", "1", "--replicates", "256", "--seed", "5", "--out", whole).ExitCode);
