@@ -31,6 +31,7 @@ public static class ContrastReport
         else if (contrast.ExpansionFailure is not null)
             cautions.Add($"The linear noise approximation could not be computed ({contrast.ExpansionFailure}); its bands and variance ratios are missing.");
         if (contrast.ExpansionStop is { } stop) cautions.Add(stop);
+        if (run.PartOfRun is { } part) cautions.Insert(0, part);
 
         var verdictRows = contrast.Quantities
             .SelectMany(q => q.Verdicts.Select(v => (IReadOnlyList<string>)[q.Name, v.Label, v.Sentence]))
@@ -58,18 +59,15 @@ public static class ContrastReport
             var figures = new List<ReportFigure>();
             var lnaColumn = contrast.Expansion?.ColumnIndex(q.Name) ?? -1;
             double[]? lnaLower = null, lnaUpper = null;
+            var lnaClipped = false;
             if (lnaColumn >= 0)
-            {
-                var variance = contrast.Expansion!.VarianceColumn(lnaColumn);
-                var centre = contrast.Expansion.RateEquationColumn(lnaColumn);
-                lnaLower = centre.Zip(variance, (m, v) => m - 2 * Math.Sqrt(Math.Max(v, 0))).ToArray();
-                lnaUpper = centre.Zip(variance, (m, v) => m + 2 * Math.Sqrt(Math.Max(v, 0))).ToArray();
-            }
+                (lnaLower, lnaUpper, lnaClipped) = LnaBand.Of(contrast.Expansion!.RateEquationColumn(lnaColumn), contrast.Expansion.VarianceColumn(lnaColumn),
+                    isSpecies: contrast.Network.Species.Contains(q.Name));
             var safe = SafeName(q.Name);
             var band = new BandSeries(q.Name, times, series.Mean, series.Quantile05, series.Quantile95, series.Deterministic,
                 lnaLower, lnaUpper, run.SamplePaths(q.Name, 5)) { TimeUnit = timeUnit };
             figures.Add(new ReportFigure($"{safe}-mean.png",
-                $"{q.Name}: ensemble mean with its 5–95% band, the rate equations{(lnaColumn >= 0 ? " and the LNA ±2σ band" : "")}.", Figures.MeanWithBands(band)));
+                $"{q.Name}: ensemble mean with its 5–95% band, the rate equations{(lnaColumn >= 0 ? " and the LNA ±2σ band" : "")}.{(lnaClipped ? LnaBand.ClippedNote : "")}", Figures.MeanWithBands(band)));
 
             var snapshots = chosenTimes
                 .Select(k => (k, run.Distribution(q.Name, k)))

@@ -7,11 +7,18 @@ namespace CopyNumber.Reports;
 /// perceptually uniform and ordered in lightness, so it reads correctly in grey and under colour-vision
 /// deficiency (Smith &amp; van der Walt 2015, "A better default colormap for Matplotlib", SciPy 2015;
 /// Nuñez, Anderton &amp; Renslow 2018, PLoS ONE 13:e0199239; both quoted from memory).
+/// The colour is scaled per time: each column is divided by its own largest probability, so the most likely count
+/// at every time takes the top colour and a second mode shows as a second ridge. A single scale for the whole map
+/// is set by its largest cell, usually the point mass at t = 0, which leaves every later time near-black (issue 16).
+/// The colour bar says so; the absolute probabilities are in distributions.parquet.
 /// </summary>
 internal static class HeatmapFigure
 {
     /// <summary>An uneven time grid is resampled onto at most this many equal columns.</summary>
     private const int MaxColumns = 2000;
+
+    /// <summary>The colour bar's label: which scale the colours are on.</summary>
+    internal const string PerTimeScaleLabel = "probability ÷ largest at that time";
 
     public static byte[] Render(DistributionHeatmap h, int width, int height)
     {
@@ -26,27 +33,31 @@ internal static class HeatmapFigure
         int counts = (int)(h.MaxCount - h.MinCount + 1);
         // ScottPlot draws row 0 at the top; the map is built with the largest count in row 0.
         var cells = new double[counts, columnOf.Length];
-        double highest = 0;
         bool anyFinite = false;
         for (int c = 0; c < columnOf.Length; c++)
+        {
+            int row = usable[columnOf[c]];
+            double highest = 0;
+            for (int k = 0; k < counts; k++)
+                if (double.IsFinite(h.Probability[row, k])) highest = Math.Max(highest, h.Probability[row, k]);
             for (int k = 0; k < counts; k++)
             {
-                double p = h.Probability[usable[columnOf[c]], k];
-                cells[counts - 1 - k, c] = p;
-                if (!double.IsFinite(p)) continue;
-                anyFinite = true;
-                highest = Math.Max(highest, p);
+                double p = h.Probability[row, k];
+                // A time with no probability anywhere stays at 0 rather than 0/0.
+                cells[counts - 1 - k, c] = double.IsFinite(p) && highest > 0 ? p / highest : p;
+                anyFinite |= double.IsFinite(p);
             }
+        }
 
         if (anyFinite)
         {
             var map = plot.Add.Heatmap(AtLeastTwoByTwo(cells));
             map.Colormap = new ScottPlot.Colormaps.Viridis();
             map.NaNCellColor = Colors.Transparent;
-            map.ManualRange = new ScottPlot.Range(0, highest > 0 ? highest : 1);
+            map.ManualRange = new ScottPlot.Range(0, 1);
             map.Extent = new CoordinateRect(left, right, h.MinCount - 0.5, h.MaxCount + 0.5);
             var bar = plot.Add.ColorBar(map);
-            bar.Label = "probability";
+            bar.Label = PerTimeScaleLabel;
             bar.LabelStyle.FontSize = FigureLook.AxisLabelSize;
             bar.LabelStyle.Bold = false;
             bar.Axis.TickLabelStyle.FontSize = FigureLook.TickLabelSize;

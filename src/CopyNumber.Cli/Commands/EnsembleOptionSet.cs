@@ -32,17 +32,17 @@ internal sealed class EnsembleOptionSet
     /// <param name="withShard">Whether the command takes --shard (a sweep does not).</param>
     public EnsembleOptionSet(string replicatesText, bool withShard)
     {
-        _replicates = new("--replicates") { Description = replicatesText };
+        _replicates = CountOption.Create("--replicates", replicatesText);
         _method = new("--method") { Description = "auto (chosen from the network's size and copy numbers; the reason is printed), direct (Gillespie's direct method), next-reaction (Gibson-Bruck), tau-leap (adaptive tau-leaping with a validation sample) or composition-rejection (for large networks).", DefaultValueFactory = _ => "auto" };
         _method.AcceptOnlyFromAmong([.. MethodChoice.Names]);
         _epsilon = new("--epsilon") { Description = "Tau-leaping error control: the largest relative change of any propensity in one leap, in (0, 1).", DefaultValueFactory = _ => RunSpecification.DefaultEpsilon };
         _seed = new("--seed") { Description = "Run seed; without it one is drawn and recorded in manifest.json." };
         _threads = new("--threads") { Description = "Worker threads (default: all cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
         _paths = new("--paths") { Description = "Also write paths.parquet for the first N replicates, or 'all'." };
-        _maxEvents = new("--max-events") { Description = "Stop a replicate after this many events; such replicates are counted and reported." };
+        _maxEvents = CountOption.Create("--max-events", "Stop a replicate after this many events; such replicates are counted and reported.");
         _maxWall = new("--max-wall") { Description = "Stop after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
         if (withShard) _shard = new("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
-        _validationReplicates = new("--validation-replicates") { Description = "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md)." };
+        _validationReplicates = CountOption.Create("--validation-replicates", "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md).");
     }
 
     public void AddTo(Command command)

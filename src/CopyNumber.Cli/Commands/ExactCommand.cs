@@ -19,7 +19,7 @@ internal static class ExactCommand
         var model = ModelArgument.Create();
         var grid = new GridOptions();
         var tolerance = new Option<double>("--tolerance") { Description = "Largest probability allowed outside the projection at any grid time (projection and time stepping together).", DefaultValueFactory = _ => 1e-6 };
-        var maxStates = new Option<long?>("--max-states") { Description = "Largest projection allowed (default: what fits in half the available memory)." };
+        var maxStates = CountOption.Create("--max-states", "Largest projection allowed (default: what fits in half the available memory).");
         var stationary = new Option<bool>("--stationary") { Description = "Also solve for the stationary law on the final projection (stationary.parquet)." };
         var threads = new Option<int>("--threads") { Description = "Threads for the sparse products (default: all cores).", DefaultValueFactory = _ => 0 };
         var joint = new Option<string?>("--joint") { Description = "Two species, as A,B: also write their joint law at every grid time (joint.parquet)." };

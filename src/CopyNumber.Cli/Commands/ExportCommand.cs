@@ -23,10 +23,7 @@ internal static class ExportCommand
         command.SetAction(parsed =>
         {
             var destination = parsed.GetValue(output);
-            if (destination is not null && Directory.Exists(destination))
-                throw new UserInputException($"--out '{destination}' is a directory; give a file name such as model.xml");
-            if (destination is not null && File.Exists(destination) && !parsed.GetValue(force))
-                throw new UserInputException($"--out '{destination}' exists; give --force to replace it");
+            OutputFile.Check(destination, parsed.GetValue(force), "model.xml");
             var loaded = ModelArgument.Load(parsed.GetValue(model)!);
             var exported = SbmlExporter.Export(loaded);
             if (!exported.Succeeded) throw new ModelInputException(exported.Diagnostics);

@@ -129,12 +129,15 @@ internal static class SimulateCommand
         writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {Paths.Shown(folder)}");
         if (result.ReplicatesStoppedEarly > 0)
             error.WriteLine($"warning: {result.ReplicatesStoppedEarly} replicates reached --max-events before the final time; they count at the times they reached and are missing from later ones (manifest: replicates_stopped_early)");
-        var partial = $"summaries cover the {result.ReplicatesFinished} replicates finished and are marked partial; continue with --resume {Paths.Shown(folder)}";
+        var covered = $"summaries cover the {result.ReplicatesFinished} replicates finished and are marked partial";
+        var partial = $"{covered}; continue with --resume {Paths.Shown(folder)}";
         switch (outcome.StopReason)
         {
             case StopReason.Failed:
+                // A replicate's random stream is fixed by the seed, so resuming would fail at the same replicate
+                // (EnsembleFailureException): the model has to change, and --resume is not offered.
                 error.WriteLine($"error: {outcome.Failure}");
-                error.WriteLine($"the run stopped; {partial}");
+                error.WriteLine($"the run stopped; {covered}; the failure repeats with the same seed, so correct the model and start a new run");
                 return ExitCodes.RunFailed;
             case StopReason.WallLimit:
                 error.WriteLine($"warning: stopped at --max-wall; {partial}");

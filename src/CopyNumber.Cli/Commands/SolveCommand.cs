@@ -16,22 +16,27 @@ internal static class SolveCommand
         var model = ModelArgument.Create();
         var grid = new GridOptions();
         var output = new Option<string?>("--out") { Description = "Write the solution to this Parquet file." };
+        var force = new Option<bool>("--force") { Description = "Replace the --out file when it exists." };
         var solver = new Option<string>("--solver") { Description = "auto (default: explicit, switching to stiff when needed), explicit (Dormand-Prince 5(4)) or stiff (Rosenbrock).", DefaultValueFactory = _ => "auto" };
         solver.AcceptOnlyFromAmong("auto", "explicit", "stiff");
         var rtol = new Option<double>("--rtol") { Description = "Relative error tolerance per step.", DefaultValueFactory = _ => 1e-6 };
         var atol = new Option<double>("--atol") { Description = "Absolute error tolerance per step, in copies.", DefaultValueFactory = _ => 1e-9 };
+        var signed = new Option<bool>("--signed-rates") { Description = "Accept rate laws that go below zero, as the net law of a reversible reaction imported from SBML as one column; without it solve stops there, as simulate does." };
 
         var command = new Command("solve", "Integrate the deterministic rate equations dx/dt = N v from the initial counts.");
         command.Arguments.Add(model);
         grid.AddTo(command);
         command.Options.Add(output);
+        command.Options.Add(force);
         command.Options.Add(solver);
         command.Options.Add(rtol);
         command.Options.Add(atol);
+        command.Options.Add(signed);
         command.SetAction(parsed =>
         {
             var timeGrid = grid.Read(parsed);
-            var options = ReadSolverOptions(parsed.GetValue(solver)!, parsed.GetValue(rtol), parsed.GetValue(atol));
+            var options = ReadSolverOptions(parsed.GetValue(solver)!, parsed.GetValue(rtol), parsed.GetValue(atol)) with { RefuseNegativeRates = !parsed.GetValue(signed) };
+            OutputFile.Check(parsed.GetValue(output), parsed.GetValue(force), "solution.parquet");
             var loaded = ModelArgument.Load(parsed.GetValue(model)!);
             var solution = RateEquationSolver.Solve(loaded.Network, timeGrid, options);
             var writer = parsed.InvocationConfiguration.Output;

@@ -5,10 +5,14 @@ namespace CopyNumber.Storage;
 
 /// <summary>
 /// Chooses and creates the folder one run writes into, so that a run never mixes its files with an
-/// earlier run's. The default name is <c>&lt;model&gt;-&lt;yyyyMMdd-HHmmss&gt;</c> under the current directory.
+/// earlier run's. The default folder is <c>runs/&lt;model&gt;-&lt;yyyyMMdd-HHmmss&gt;</c> under the current directory.
 /// </summary>
 public static class OutputFolder
 {
+    /// <summary>The folder, under the current directory, that holds the runs given no output folder: one place to
+    /// list, archive or ignore (the repository's .gitignore names it), instead of run folders among the user's files.</summary>
+    public const string DefaultParent = "runs";
+
     /// <summary>Longest suffix tried when the default name is already taken (<c>-2</c> … <c>-99</c>).</summary>
     private const int MaxSuffix = 99;
 
@@ -19,7 +23,7 @@ public static class OutputFolder
     /// </summary>
     /// <param name="requested">
     /// The folder the user named, relative to the current directory or absolute; <c>null</c> or blank
-    /// for the default name. A named folder may exist if it is empty; if it holds anything it is refused
+    /// for the default folder <c>runs/&lt;default name&gt;</c>. A named folder may exist if it is empty; if it holds anything it is refused
     /// unless <paramref name="force"/> is set, in which case the files of the earlier run are removed first
     /// (<see cref="FolderContents.ClearForNewRun"/>; a folder holding files we did not write is refused).
     /// </param>
@@ -72,7 +76,7 @@ public static class OutputFolder
         for (var attempt = 1; attempt <= MaxSuffix; attempt++)
         {
             var name = attempt == 1 ? baseName : $"{baseName}-{attempt.ToString(CultureInfo.InvariantCulture)}";
-            var full = AtomicFile.FullPath(Path.Combine(baseDirectory, name));
+            var full = AtomicFile.FullPath(Path.Combine(baseDirectory, DefaultParent, name));
             if (HoldsAnything(full) || File.Exists(Path.Combine(full, RunFiles.Claim))) continue;
             FolderClaim claim;
             try
@@ -86,7 +90,7 @@ public static class OutputFolder
             if (!HoldsAnything(full)) return claim;
             claim.Dispose();
         }
-        var first = AtomicFile.FullPath(Path.Combine(baseDirectory, baseName));
+        var first = AtomicFile.FullPath(Path.Combine(baseDirectory, DefaultParent, baseName));
         throw new OutputException($"The output folder '{first}' and its numbered variants up to -{MaxSuffix} all exist already; name an output folder explicitly.", first, refused: true);
     }
 

@@ -63,6 +63,9 @@ public sealed class RunFolder
     /// <summary>What the reader should know (e.g. that the folder was written without checksums).</summary>
     public IReadOnlyList<string> Warnings { get; private init; } = [];
 
+    /// <summary>For one shard of a run: a sentence saying which part of the run it holds (also among <see cref="Warnings"/>); null for a whole run.</summary>
+    public string? PartOfRun { get; private init; }
+
     /// <summary>True when paths.parquet exists.</summary>
     public bool HasPaths => _paths is not null;
 
@@ -103,6 +106,13 @@ public sealed class RunFolder
         var manifest = RunManifest.Read(System.IO.Path.Combine(folder, RunFiles.Manifest));
         var warnings = new List<string>();
         FileChecksums.VerifyRunFolder(manifest, AtomicFile.FullPath(folder), warnings);
+        string? partOfRun = null;
+        if (manifest.Arguments.TryGetValue(ManifestFields.ShardArgument, out var shardText) && CopyNumber.Ensembles.Shard.TryParse(shardText, out var shard, out _) && !shard.IsWhole)
+        {
+            partOfRun = $"This folder holds shard {shard} of a run: {manifest.ReplicatesFinished} of the run's {manifest.ReplicatesRequested} replicates, "
+                + "so its contrast describes that part only; combine the shards with 'copynumber merge' and contrast the merged folder for the whole run.";
+            warnings.Add(partOfRun);
+        }
         using var moments = ParquetTableReader.Open(System.IO.Path.Combine(folder, RunFiles.Moments));
         if (!moments.Metadata.TryGetValue(Provenance.ModelTextKey, out var modelText))
             throw new RunFolderException($"'{folder}/{RunFiles.Moments}' carries no model text in its metadata, so it was not written by copynumber's simulate or exact", folder);
@@ -170,6 +180,6 @@ public sealed class RunFolder
             var speciesColumns = table.ColumnNames.Where(c => c is not ("replicate" or "time")).ToDictionary(c => c, c => table.Longs(c));
             paths = new PathColumns(table.Longs("replicate"), table.Doubles("time"), speciesColumns);
         }
-        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths) { Warnings = warnings };
+        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths) { Warnings = warnings, PartOfRun = partOfRun };
     }
 }

@@ -46,6 +46,12 @@ public static class RateEquationSolver
 
         void Record(int point, double[] x)
         {
+            // Checked at every grid time when asked, as the simulators check each propensity they compute (one message for both).
+            var rate = 0.0;
+            var bad = options.RefuseNegativeRates ? system.UnusableRate(x, out rate) : -1;
+            if (bad >= 0)
+                throw new SolverFailureException(grid[point], componentName: null,
+                    Kinetics.UnusableRate.Describe(network.Reactions[bad].Name, "rate", rate, grid[point], State(network, x)));
             for (var i = 0; i < speciesCount; i++) values[point, i] = x[i];
             for (var r = 0; r < readouts.Count; r++) values[point, speciesCount + r] = readouts[r].OnState(x, parameters);
         }
@@ -55,6 +61,11 @@ public static class RateEquationSolver
 
         return new DeterministicSolution(grid, columns, speciesCount, values, run.Statistics);
     }
+
+    /// <summary>The first species as name=value, as the simulators' failure messages show them.</summary>
+    private static string State(ReactionNetwork network, double[] x) =>
+        string.Join(", ", Enumerable.Range(0, Math.Min(x.Length, 12)).Select(i => $"{network.Species[i]}={x[i].ToString("G6", System.Globalization.CultureInfo.InvariantCulture)}"))
+        + (x.Length > 12 ? $", … ({x.Length - 12} more)" : "");
 
     private static void Apply(ScheduledChange change, double[] state, RateEquationSystem system, double time)
     {

@@ -14,7 +14,8 @@ public sealed class RateEquationSystem : IOdeSystem
     private readonly double[] _parameters;
     private readonly double[] _constants;
     private readonly double[] _rates;
-    private double[,]? _rateJacobian;   // reactions × species, made at the first Jacobian: only stiff steps need it
+    private double[,]? _rateJacobian;
+    private double[]? _clipped;         // the state with negative round-off set to 0, for UnusableRate   // reactions × species, made at the first Jacobian: only stiff steps need it
 
     /// <summary>Creates the system with the network's initial parameter values.</summary>
     public RateEquationSystem(ReactionNetwork network)
@@ -59,6 +60,26 @@ public sealed class RateEquationSystem : IOdeSystem
         _parameters[_network.TimeSlot] = t;
         _network.RateEquations.Jacobian(y, _constants, _parameters,
             _rateJacobian ??= new double[_network.RateEquations.ReactionCount, _network.RateEquations.SpeciesCount], jacobian);
+    }
+
+    /// <summary>
+    /// The first reaction whose rate law gives a negative, NaN or infinite value at <paramref name="y"/>, or -1.
+    /// The laws are read at the state with negative counts set to 0, so round-off just below zero (states are not
+    /// clipped) is never blamed on a law: only a law that is negative for a non-negative state is reported.
+    /// </summary>
+    internal int UnusableRate(double[] y, out double value)
+    {
+        var clipped = _clipped ??= new double[y.Length];
+        for (var i = 0; i < y.Length; i++) clipped[i] = Math.Max(y[i], 0);
+        _network.RateEquations.Rates(clipped, _constants, _parameters, _rates);
+        for (var j = 0; j < _rates.Length; j++)
+            if (!Kinetics.UnusableRate.IsUsable(_rates[j]))
+            {
+                value = _rates[j];
+                return j;
+            }
+        value = 0;
+        return -1;
     }
 
     /// <summary>The species name.</summary>

@@ -32,6 +32,14 @@ public sealed record SolverOptions(
     /// </summary>
     public CancellationToken Cancel { get; init; }
 
+    /// <summary>
+    /// Stop with <see cref="SolverFailureException"/> when a rate law is negative (or not finite) at a grid time, with
+    /// the simulators' message for a negative propensity (<c>copynumber solve</c> sets it). Off by default: the rate
+    /// equations have a meaning for a net law that changes sign, such as an SBML reversible reaction imported as one
+    /// column (docs/sbml.md), which the SBML Test Suite's semantic cases use.
+    /// </summary>
+    public bool RefuseNegativeRates { get; init; }
+
     /// <summary>Null when the options are usable, otherwise a message saying what is wrong.</summary>
     public string? Check()
     {

@@ -80,8 +80,12 @@ public sealed record NetworkDescription(
         };
     }
 
-    /// <summary>The description as indented JSON.</summary>
-    public string ToJson() => JsonSerializer.Serialize(this, new JsonSerializerOptions { WriteIndented = true });
+    /// <summary>The description as indented JSON, with reactions written as in the model (<c>A -&gt; 0</c>, not
+    /// <c>A -\u003E 0</c>): the default encoder escapes '&gt;' and non-ASCII letters for HTML pages, which this text
+    /// never enters; JSON itself needs only quotes, backslashes and control characters escaped.</summary>
+    public string ToJson() => JsonSerializer.Serialize(this, JsonText);
+
+    private static readonly JsonSerializerOptions JsonText = new() { WriteIndented = true, Encoder = System.Text.Encodings.Web.JavaScriptEncoder.UnsafeRelaxedJsonEscaping };
 }
 
 /// <summary>A species, its initial copy number and whether it is held (no reaction changes it).</summary>

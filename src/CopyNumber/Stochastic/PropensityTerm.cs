@@ -50,5 +50,5 @@ internal struct PropensityTerm
 
     /// <summary>True for a finite value ≥ 0 (false for NaN, negatives and infinities).</summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public static bool IsUsable(double propensity) => propensity >= 0.0 && propensity <= double.MaxValue;
+    public static bool IsUsable(double propensity) => Kinetics.UnusableRate.IsUsable(propensity);
 }

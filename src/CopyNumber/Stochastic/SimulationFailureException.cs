@@ -22,8 +22,7 @@ public sealed class SimulationFailureException : CopyNumberException
     public double Time { get; }
 
     internal static SimulationFailureException BadPropensity(ReactionNetwork network, int reaction, double value, double time, long[] counts) =>
-        new($"reaction '{network.Reactions[reaction].Name}' has propensity {Number(value)} at time {Number(time)}; " +
-            $"a propensity must be a finite number of at least 0 (state: {State(network, counts)})", time);
+        new(Kinetics.UnusableRate.Describe(network.Reactions[reaction].Name, "propensity", value, time, State(network, counts)), time);
 
     internal static SimulationFailureException FiringMadeNegative(ReactionNetwork network, int reaction, int species, double time, long[] counts) =>
         new($"reaction '{network.Reactions[reaction].Name}' fired at time {Number(time)} and made species '{network.Species[species]}' negative; " +

@@ -51,6 +51,19 @@ public class InspectTests
     }
 
     [Fact]
+    public void Json_output_writes_reaction_arrows_as_they_are_typed()
+    {
+        // Issue 16: the reactions read "g_off -\u003E g_on" in the raw text. JSON (RFC 8259, common practice)
+        // requires escaping only quotes, backslashes and control characters, so '>' stays as typed.
+        var run = CliRun.Of("inspect", CliRun.Scenario("promoter_switch.cnet"), "--json");
+        Assert.Equal(0, run.ExitCode);
+        Assert.DoesNotContain("\\u003E", run.Output, StringComparison.OrdinalIgnoreCase);
+        Assert.Contains("g_off -> g_on", run.Output);
+        using var json = JsonDocument.Parse(run.Output);
+        Assert.Contains(json.RootElement.GetProperty("reactions").EnumerateArray(), r => r.ToString().Contains("g_off -> g_on", StringComparison.Ordinal));
+    }
+
+    [Fact]
     public void A_model_with_errors_gives_exit_code_2_with_located_messages_and_no_stack_trace()
     {
         var path = Path.Combine(Path.GetTempPath(), $"copynumber-bad-{Guid.NewGuid():N}.cnet");

@@ -179,6 +179,46 @@ public sealed class FigureTests
         AssertPng(Figures.Heatmap(new DistributionHeatmap("A", uneven, 10, 14, q)), 900, 500);
     }
 
+    /// <summary>
+    /// Issue 16: a point mass at t = 0 followed by a bimodal law (two equal modes at 8 and 32 copies, each a
+    /// discretised normal of s.d. 2, so each peak cell holds about 0.5 / (2·√(2π)) ≈ 0.1). On one scale for the
+    /// whole map the ridges sit at a tenth of the top and are near-black; per time they take the top colour.
+    /// Checked by pixel statistics along the count axis: an image column well after t = 0 crosses exactly two
+    /// separate runs of the top colour, one per mode, with the lower one below the upper one.
+    /// </summary>
+    [Fact]
+    public void HeatmapShowsABimodalLawAsTwoBrightRidgesAfterAPointMassAtTheStart()
+    {
+        double[] t = Enumerable.Range(0, 21).Select(i => (double)i).ToArray();
+        const int maxCount = 40;
+        var p = new double[t.Length, maxCount + 1];
+        p[0, 20] = 1.0;
+        for (int i = 1; i < t.Length; i++)
+        {
+            double total = 0;
+            for (int k = 0; k <= maxCount; k++)
+                total += p[i, k] = Math.Exp(-(k - 8) * (k - 8) / 8.0) + Math.Exp(-(k - 32) * (k - 32) / 8.0);
+            for (int k = 0; k <= maxCount; k++) p[i, k] /= total;
+        }
+        var image = AssertPng(Figures.Heatmap(new DistributionHeatmap("U", t, 0, maxCount, p)), 900, 500);
+
+        foreach (var x in new[] { 300, 450, 600 })
+        {
+            var runs = new List<(int Start, int End)>();
+            for (int y = 0; y < image.Height; y++)
+            {
+                var (r, g, b) = image.At(x, y);
+                bool top = Math.Abs(r - 0xFD) <= 3 && Math.Abs(g - 0xE7) <= 3 && Math.Abs(b - 0x25) <= 3;
+                if (!top) continue;
+                if (runs.Count > 0 && runs[^1].End == y - 1) runs[^1] = (runs[^1].Start, y);
+                else runs.Add((y, y));
+            }
+            Assert.True(runs.Count == 2, $"column x = {x}: {runs.Count} bright runs ({string.Join(", ", runs)}), expected one per mode");
+            // The modes are 24 of 41 count rows apart: the dark gap between them is far taller than either ridge.
+            Assert.True(runs[1].Start - runs[0].End > 5 * (runs[0].End - runs[0].Start + 1), $"column x = {x}: ridges {runs[0]} and {runs[1]} are not separated");
+        }
+    }
+
     [Fact]
     public void HeatmapOfASingleCellFillsTheMapAndAnAllNaNMapDrawsNone()
     {

@@ -105,28 +105,55 @@ public class MessageTests
         Assert.Equal(0, CliRun.Of("contrast", folder, "--heatmap", "total", "--at", "5").ExitCode);
     }
 
-    /// <summary>One rule for printed paths: always full, even when the user gave a relative one.</summary>
+    /// <summary>One rule for printed paths (issue 16): relative to the folder the command started in when beneath it,
+    /// full otherwise, whichever way the user spelled the folder.</summary>
     [Fact]
-    public void Every_printed_path_is_a_full_path_even_when_the_folder_was_given_relative()
+    public void Printed_paths_are_relative_to_the_start_folder_beneath_it_and_full_elsewhere()
     {
-        using var scratch = new ScratchFolder();
-        var model = WriteModel(scratch);
-        var relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), scratch.File("run"));
-        Assert.False(Path.IsPathRooted(relative));
-        var simulate = CliRun.Of([.. Simulate(model, 100, 4, "--out", relative)]);
-        Assert.Equal(0, simulate.ExitCode);
-        var contrast = CliRun.Of("contrast", relative);
-        Assert.Equal(0, contrast.ExitCode);
+        var start = Directory.GetCurrentDirectory();
+        using (var beneath = new ScratchFolder(start))
+        {
+            var model = WriteModel(beneath);
+            var relative = Path.GetRelativePath(start, beneath.File("run"));
+            // Spelled in full, shown relative: the rule is about where the folder is, not how it was typed.
+            var (simulate, contrast) = SimulateAndContrast(model, beneath.File("run"));
+            AssertEveryPrintedPathStartsWith(relative, simulate.Output, simulate.Error, contrast.Output);
+            Assert.Contains($"wrote {Path.Combine(relative, ContrastOutputs.TableFile)}", contrast.Output);
+        }
+        using (var elsewhere = new ScratchFolder())
+        {
+            Assert.StartsWith("..", Path.GetRelativePath(start, elsewhere.Path), StringComparison.Ordinal);
+            var model = WriteModel(elsewhere);
+            var (simulate, contrast) = SimulateAndContrast(model, Path.GetRelativePath(start, elsewhere.File("run")));
+            var full = elsewhere.File("run");
+            AssertEveryPrintedPathStartsWith(full, simulate.Output, simulate.Error, contrast.Output);
+            Assert.Contains($"wrote {Path.Combine(full, ContrastOutputs.TableFile)}", contrast.Output);
+        }
+    }
 
-        var full = scratch.File("run");
-        foreach (var printed in new[] { simulate.Output, simulate.Error, contrast.Output })
-            foreach (var line in printed.Split('\n').Where(l => l.Contains("wrote ") || l.Contains(" -> ")))
+    private static (CliRun Simulate, CliRun Contrast) SimulateAndContrast(string model, string folder)
+    {
+        var simulate = CliRun.Of([.. Simulate(model, 100, 4, "--out", folder)]);
+        Assert.Equal(0, simulate.ExitCode);
+        var contrast = CliRun.Of("contrast", folder);
+        Assert.Equal(0, contrast.ExitCode);
+        return (simulate, contrast);
+    }
+
+    private static void AssertEveryPrintedPathStartsWith(string prefix, params string[] printed)
+    {
+        var seen = 0;
+        foreach (var text in printed)
+            foreach (var line in text.Split('\n').Where(l => l.Contains("wrote ") || l.Contains(" -> ")))
             {
                 var paths = line[(line.Contains("wrote ") ? line.IndexOf("wrote ") + 6 : line.IndexOf(" -> ") + 4)..].Trim().Split(", ");
                 foreach (var path in paths)
-                    Assert.True(path.StartsWith(full, StringComparison.Ordinal), $"'{path}' in '{line}' is not the full path under {full}");
+                {
+                    Assert.True(path.StartsWith(prefix, StringComparison.Ordinal), $"'{path}' in '{line}' does not start with {prefix}");
+                    seen++;
+                }
             }
-        Assert.Contains($"wrote {Path.Combine(full, ContrastOutputs.TableFile)}", contrast.Output);
+        Assert.True(seen >= 3, $"only {seen} printed paths found");
     }
 
     private static string Fingerprint(string folder) =>

@@ -2,8 +2,8 @@ using CopyNumber.Storage;
 
 namespace CopyNumber.Tests.Storage;
 
-// The rules checked here are the documented contract of OutputFolder (default name
-// "<model>-<yyyyMMdd-HHmmss>", refusal of a non-empty named folder unless forced); the expected
+// The rules checked here are the documented contract of OutputFolder (default folder
+// "runs/<model>-<yyyyMMdd-HHmmss>", refusal of a non-empty named folder unless forced); the expected
 // names are written out by hand from that format. The current directory is process-wide, so the
 // tests pass an explicit base folder instead of changing it.
 public sealed class OutputFolderTests
@@ -26,7 +26,8 @@ public sealed class OutputFolderTests
     {
         using var scratch = new ScratchFolder();
         var created = OutputFolder.CreateFresh(null, "toggle", Start, force: false, scratch.Path);
-        Assert.Equal(Path.Combine(scratch.Path, "toggle-20240305-070809"), created);
+        // Under runs/ of the base folder (issue 16), never beside the user's own files.
+        Assert.Equal(Path.Combine(scratch.Path, "runs", "toggle-20240305-070809"), created);
         Assert.True(Directory.Exists(created));
 
         // Still empty: the same name is fine again.

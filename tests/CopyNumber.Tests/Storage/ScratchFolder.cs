@@ -3,9 +3,14 @@ namespace CopyNumber.Tests.Storage;
 /// <summary>A fresh empty folder under the system temporary folder, deleted with everything in it on dispose.</summary>
 internal sealed class ScratchFolder : IDisposable
 {
-    public ScratchFolder()
+    public ScratchFolder() : this(System.IO.Path.GetTempPath())
     {
-        Path = System.IO.Path.Combine(System.IO.Path.GetTempPath(), "copynumber-output-tests-" + Guid.NewGuid().ToString("N"));
+    }
+
+    /// <summary>A scratch folder inside <paramref name="parent"/> (e.g. the current directory, for paths printed relative to it).</summary>
+    public ScratchFolder(string parent)
+    {
+        Path = System.IO.Path.Combine(parent, "copynumber-output-tests-" + Guid.NewGuid().ToString("N"));
         Directory.CreateDirectory(Path);
     }
 
