@@ -146,7 +146,6 @@ public sealed class KrylovExponential
             var (longerError, longerExponent) = Estimate(longer, basisUsed, augmented, beta, vNorm, avNorm);
             if (longerError > longer * errorPerTime) break;
             (tau, error, exponent, extended) = (longer, longerError, longerExponent, true);
-            Extensions++;
             for (var i = 0; i < columns; i++) _coefficients[i] = beta * _exponential[i, 0];
         }
         Combine(columns, result, n);
@@ -155,9 +154,6 @@ public sealed class KrylovExponential
             : error > 0 ? Round(Safety * tau * Math.Min(10, Math.Pow(tau * errorPerTime / error, exponent))) : 10 * tau;
         return (tau, error, augmented ? next : double.PositiveInfinity);
     }
-
-    /// <summary>Steps lengthened beyond Sidje's formula with the same basis (see <see cref="Step"/>).</summary>
-    public long Extensions { get; private set; }
 
     /// <summary>
     /// e^{τH} into the scratch exponential and the local error estimate of a step of length <paramref name="tau"/>

@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Text;
 using System.Xml;
 using System.Xml.Linq;
+using CopyNumber.Kinetics;
 using CopyNumber.Language;
 using CopyNumber.Network;
 
@@ -100,15 +101,8 @@ internal sealed class SbmlExport(LoadedModel model)
         NameExpr n => new MathName(_ids[n.Name]),
         NegateExpr n => SbmlMath.Apply("-", ToMath(n.Operand)),
         BinaryExpr b => SbmlMath.Apply(b.Operator.ToString(), ToMath(b.Left), ToMath(b.Right)),
-        CompareExpr c => SbmlMath.Apply(c.Operator switch
-        {
-            Comparison.Less => "<",
-            Comparison.LessOrEqual => "<=",
-            Comparison.Greater => ">",
-            Comparison.GreaterOrEqual => ">=",
-            Comparison.Equal => "==",
-            _ => "!=",
-        }, ToMath(c.Left), ToMath(c.Right)),
+        // SbmlMath names comparisons by the language's own symbols (MathMlWriter maps them to MathML).
+        CompareExpr c => SbmlMath.Apply(ExpressionText.Symbol(c.Operator), ToMath(c.Left), ToMath(c.Right)),
         LogicExpr l => SbmlMath.Apply(l.Conjunction ? "and" : "or", ToMath(l.Left), ToMath(l.Right)),
         NotExpr n => SbmlMath.Apply("not", ToMath(n.Operand)),
         CallExpr c => Call(c.Function, c.Arguments.Select(ToMath).ToArray()),
