@@ -79,10 +79,22 @@ internal static class InspectCommand
         if (d.Schedule.Count > 0)
         {
             text.Append('\n');
-            var schedule = new TextTable("at", "target", "change");
-            foreach (var s in d.Schedule) schedule.Add(Numbers.Format(s.Time, 6), s.Target, s.Operation);
+            var schedule = new TextTable("at", "change", "breaks");
+            foreach (var s in d.Schedule)
+                schedule.Add(When(s), s.Text, s.Breaks.Count == 0 ? "-" : string.Join("; ", s.Breaks));
             text.Append(schedule);
+            if (d.Schedule.Any(s => s.Breaks.Count > 0))
+                text.Append("a change that breaks a conservation law moves its total; the law holds again after it, with the new total\n");
+        }
+        if (d.Triggers.Count > 0)
+        {
+            text.Append("\nchanges when a condition turns true:\n");
+            foreach (var t in d.Triggers) text.Append($"  {t}\n");
         }
         return text.ToString();
     }
+
+    private static string When(ScheduleDescription s) => s.Every is not { } every
+        ? Numbers.Format(s.Time, 6)
+        : $"{Numbers.Format(s.Time, 6)} every {Numbers.Format(every, 6)}" + (s.Until is { } until ? $" until {Numbers.Format(until, 6)}" : "");
 }

@@ -376,7 +376,8 @@ public static class NetworkCompiler
                 target,
                 operation,
                 ExpressionCompiler.CompileCountLaw(value, _scope),
-                ExpressionCompiler.CompileStateLaw(value, _scope));
+                ExpressionCompiler.CompileStateLaw(value, _scope))
+            { Text = $"{target} {Operator(operation)} {ExpressionText.Format(value)}" };
         }
 
         private StateTrigger? CompileTrigger(TriggerDecl trigger)

@@ -25,7 +25,7 @@ public sealed record NetworkDescription(
     [JsonPropertyName("time_unit")]
     public string? TimeUnit { get; init; }
 
-    /// <summary>The state-triggered change lines, as text (no method runs a model that has one yet).</summary>
+    /// <summary>The state-triggered change lines (<c>... whenever CONDITION</c>), as text.</summary>
     [JsonPropertyName("triggers")]
     public IReadOnlyList<string> Triggers { get; init; } = [];
 
@@ -72,13 +72,27 @@ public sealed record NetworkDescription(
                 Language.ScheduleOperation.Set => "set",
                 Language.ScheduleOperation.Add => "add",
                 _ => "subtract",
-            }, s.Every, double.IsPositiveInfinity(s.Until) ? null : s.Until)).ToArray())
+            }, s.Every, double.IsPositiveInfinity(s.Until) ? null : s.Until)
+            {
+                Text = s.Text,
+                Breaks = BrokenLaws(s, structure, network.Species),
+            }).ToArray())
         {
             TimeUnit = network.Units.Time,
             Triggers = network.Triggers.Select(t => t.Text).ToArray(),
             StructureNote = analysable ? null : StoichiometricStructure.TooLargeNote(n),
         };
     }
+
+    /// <summary>
+    /// The conservation laws a timed change can break: a change of a species that a law counts moves that
+    /// law's total, so after it the law holds with another total (or, for a repeating change, with a total
+    /// that steps at each instance). A parameter change breaks none.
+    /// </summary>
+    private static IReadOnlyList<string> BrokenLaws(ScheduledChange change, StoichiometricStructure? structure, IReadOnlyList<string> species) =>
+        change.Target != ScheduleTarget.Species || structure is null
+            ? []
+            : structure.ConservationLaws.Where(l => l.Coefficients[change.TargetIndex] != 0).Select(l => l.Describe(species)).ToArray();
 
     /// <summary>The description as indented JSON, with reactions written as in the model (<c>A -&gt; 0</c>, not
     /// <c>A -\u003E 0</c>): the default encoder escapes '&gt;' and non-ASCII letters for HTML pages, which this text
@@ -125,4 +139,13 @@ public sealed record ScheduleDescription(
     [property: JsonPropertyName("target")] string Target,
     [property: JsonPropertyName("operation")] string Operation,
     [property: JsonPropertyName("every")] double? Every = null,
-    [property: JsonPropertyName("until")] double? Until = null);
+    [property: JsonPropertyName("until")] double? Until = null)
+{
+    /// <summary>The assignment as the model writes it (<c>inducer = 20</c>, <c>protein = protein / 2</c>).</summary>
+    [JsonPropertyName("text")]
+    public string Text { get; init; } = "";
+
+    /// <summary>The conservation laws (as text, with their initial totals) whose total this change moves; empty when none.</summary>
+    [JsonPropertyName("breaks")]
+    public IReadOnlyList<string> Breaks { get; init; } = [];
+}

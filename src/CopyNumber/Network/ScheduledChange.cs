@@ -55,6 +55,9 @@ public sealed record ScheduledChange(
     /// </summary>
     public int Order { get; init; }
 
+    /// <summary>The assignment as the model writes it (<c>protein = protein / 2</c>), for <c>inspect</c> and messages.</summary>
+    public string Text { get; init; } = "";
+
     /// <summary>
     /// The target's new value from its <paramref name="current"/> value and the evaluated expression
     /// <paramref name="value"/>: set, add or subtract. The one implementation of the operations, used on

@@ -64,6 +64,53 @@ public class InspectTests
     }
 
     [Fact]
+    public void Inspect_shows_what_each_timed_change_sets_and_the_conservation_laws_it_breaks()
+    {
+        // Issue 16: the schedule table said only "set". By hand from the model: A + B = 10 is conserved by
+        // the isomerisation, so adding 5 to A moves the law's total (to 15); the parameter change and a
+        // change of C (in no law) break nothing. A repeating change shows its period and last time.
+        var path = Path.Combine(Path.GetTempPath(), $"copynumber-changes-{Guid.NewGuid():N}.cnet");
+        File.WriteAllText(path, """
+            species
+              A = 10
+              B = 0
+              C = 0
+            parameters
+              k = 1
+            reactions
+              flip: A -> B mass k
+              flop: B -> A mass k
+              make: 0 -> C mass k
+            changes
+              A += 5 at time 20
+              k = 2 at time 30
+              C = C / 2 every 10 from 5 until 45
+            """);
+        try
+        {
+            var run = CliRun.Of("inspect", path);
+            Assert.Equal(0, run.ExitCode);
+            var lines = run.Output.Split('\n');
+            var addA = lines.Single(l => l.Contains("A += 5", StringComparison.Ordinal));
+            Assert.Contains("A + B = 10", addA);
+            Assert.Contains("-", lines.Single(l => l.Contains("k = 2", StringComparison.Ordinal)).Split("k = 2")[1]);
+            var halve = lines.Single(l => l.Contains("C = C / 2", StringComparison.Ordinal));
+            Assert.StartsWith("5 every 10 until 45", halve.TrimStart());
+            Assert.DoesNotContain("A + B", halve);
+
+            using var json = JsonDocument.Parse(CliRun.Of("inspect", path, "--json").Output);
+            var schedule = json.RootElement.GetProperty("schedule").EnumerateArray().ToDictionary(c => c.GetProperty("text").GetString()!);
+            Assert.Equal(["A += 5", "C = C / 2", "k = 2"], schedule.Keys.Order(StringComparer.Ordinal));
+            Assert.Equal(["A + B = 10"], schedule["A += 5"].GetProperty("breaks").EnumerateArray().Select(e => e.GetString()));
+            Assert.Equal(0, schedule["k = 2"].GetProperty("breaks").GetArrayLength());
+        }
+        finally
+        {
+            File.Delete(path);
+        }
+    }
+
+    [Fact]
     public void A_model_with_errors_gives_exit_code_2_with_located_messages_and_no_stack_trace()
     {
         var path = Path.Combine(Path.GetTempPath(), $"copynumber-bad-{Guid.NewGuid():N}.cnet");
