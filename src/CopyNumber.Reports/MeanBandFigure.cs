@@ -97,7 +97,7 @@ internal static class MeanBandFigure
     }
 
     /// <summary>A filled band run by run; a run of one time point becomes a thick vertical bar.</summary>
-    private static bool FilledBand(Plot plot, double[] t, double[] lower, double[] upper, Color color, string label)
+    internal static bool FilledBand(Plot plot, double[] t, double[] lower, double[] upper, Color color, string? label)
     {
         var runs = FiniteRuns.Of(t.Length, i => FiniteRuns.Finite(t[i], lower[i], upper[i]));
         bool labelled = false;
@@ -110,7 +110,7 @@ internal static class MeanBandFigure
                 bar.LineWidth = 14;
                 bar.LineColor = color;
                 bar.MarkerSize = 0;
-                if (!labelled) bar.LegendText = label;
+                if (!labelled && label is not null) bar.LegendText = label;
             }
             else
             {
@@ -118,7 +118,7 @@ internal static class MeanBandFigure
                 band.FillColor = color;
                 band.LineWidth = 0;
                 band.MarkerSize = 0;
-                if (!labelled) band.LegendText = label;
+                if (!labelled && label is not null) band.LegendText = label;
             }
             labelled = true;
         }

@@ -66,6 +66,12 @@ public sealed class RunFolder
     /// <summary>For one shard of a run: a sentence saying which part of the run it holds (also among <see cref="Warnings"/>); null for a whole run.</summary>
     public string? PartOfRun { get; private init; }
 
+    /// <summary>
+    /// The intrinsic/extrinsic split of each quantity's variance (<c>noise.parquet</c>), when parameters vary
+    /// per cell; empty otherwise.
+    /// </summary>
+    public IReadOnlyList<StoredNoiseSplit> Noise { get; private init; } = [];
+
     /// <summary>True when paths.parquet exists.</summary>
     public bool HasPaths => _paths is not null;
 
@@ -180,6 +186,14 @@ public sealed class RunFolder
             var speciesColumns = table.ColumnNames.Where(c => c is not ("replicate" or "time")).ToDictionary(c => c, c => table.Longs(c));
             paths = new PathColumns(table.Longs("replicate"), table.Doubles("time"), speciesColumns);
         }
-        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths) { Warnings = warnings, PartOfRun = partOfRun };
+        var noiseFile = System.IO.Path.Combine(folder, RunFiles.Noise);
+        IReadOnlyList<StoredNoiseSplit> noise = [];
+        if (File.Exists(noiseFile))
+        {
+            using var table = ParquetTableReader.Open(noiseFile);
+            tables.Note(RunFiles.Noise, table.Metadata);
+            noise = NoiseTable.Read(table, times);
+        }
+        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths) { Warnings = warnings, PartOfRun = partOfRun, Noise = noise };
     }
 }

@@ -56,4 +56,55 @@ public static class NoiseTable
         writer.WriteRowGroup([time, name, perDraw, pairs, .. values]);
         writer.Complete();
     }
+
+    /// <summary>
+    /// Reads a <c>noise.parquet</c> back, one split per quantity with its values at <paramref name="times"/>
+    /// (NaN where the table has no row).
+    /// </summary>
+    /// <exception cref="RunFolderException">The table holds a time that is not in <paramref name="times"/>.</exception>
+    internal static IReadOnlyList<StoredNoiseSplit> Read(ParquetTableReader table, IReadOnlyList<double> times)
+    {
+        ArgumentNullException.ThrowIfNull(table);
+        var index = times.Select((t, k) => (t, k)).ToDictionary(p => p.t, p => p.k);
+        var time = table.Doubles("time");
+        var name = table.Strings("quantity");
+        var perDraw = table.Longs("replicates_per_draw");
+        string[] valueColumns = ["mean", "intrinsic_variance", "intrinsic_se", "extrinsic_variance", "extrinsic_se"];
+        var values = valueColumns.Select(c => table.Doubles(c)).ToArray();
+        var splits = new Dictionary<string, (long PerDraw, double[][] Columns)>();
+        var order = new List<string>();
+        for (var row = 0; row < time.Length; row++)
+        {
+            if (!index.TryGetValue(time[row], out var k))
+                throw table.Damaged($"{RunFiles.Noise} has time {time[row].ToString("R", System.Globalization.CultureInfo.InvariantCulture)}, which the run's grid does not have");
+            if (!splits.TryGetValue(name[row], out var split))
+            {
+                split = (perDraw[row], valueColumns.Select(_ => Enumerable.Repeat(double.NaN, times.Count).ToArray()).ToArray());
+                splits.Add(name[row], split);
+                order.Add(name[row]);
+            }
+            for (var c = 0; c < valueColumns.Length; c++) split.Columns[c][k] = values[c][row];
+        }
+        return order.Select(n => new StoredNoiseSplit(n, splits[n].PerDraw, splits[n].Columns[0], splits[n].Columns[1], splits[n].Columns[2], splits[n].Columns[3], splits[n].Columns[4])).ToArray();
+    }
 }
+
+/// <summary>
+/// One quantity's variance split as read from <c>noise.parquet</c>, by grid time: the law of total variance
+/// Var = E[Var | cell] + Var[E | cell] (Swain, Elowitz &amp; Siggia 2002), each part with its standard error.
+/// </summary>
+/// <param name="Quantity">Species or readout.</param>
+/// <param name="ReplicatesPerDraw">Replicates that share one parameter draw (one cell).</param>
+/// <param name="Mean">The ensemble mean, copies.</param>
+/// <param name="IntrinsicVariance">The within-cell part, copies².</param>
+/// <param name="IntrinsicStandardError">Its standard error.</param>
+/// <param name="ExtrinsicVariance">The between-cell part, copies² (an unbiased estimate; it may be slightly negative by chance when the part is small).</param>
+/// <param name="ExtrinsicStandardError">Its standard error.</param>
+public sealed record StoredNoiseSplit(
+    string Quantity,
+    long ReplicatesPerDraw,
+    double[] Mean,
+    double[] IntrinsicVariance,
+    double[] IntrinsicStandardError,
+    double[] ExtrinsicVariance,
+    double[] ExtrinsicStandardError);

@@ -17,10 +17,11 @@ namespace CopyNumber.Tests.Ensembles;
 /// </summary>
 public sealed class ExtrinsicVariabilityTests
 {
-    private const double Mean = 20, Cv = 0.5, Death = 1, Until = 4;
+    internal const double Mean = 20, Cv = 0.5, Death = 1, Until = 4;
     private static readonly double Exposure = (1 - Math.Exp(-Death * Until)) / Death;
 
-    private static ReactionNetwork Network() => ModelLoader.LoadText($"""
+    /// <summary>The model as text, shared with the report's check of the same split (Reports/NoiseSectionTests).</summary>
+    internal static readonly string ModelText = $"""
         # immigration with a cell-to-cell varying rate, illustrative
         species
           X = 0
@@ -30,7 +31,9 @@ public sealed class ExtrinsicVariabilityTests
         reactions
           arrive: 0 -> X  mass k
           leave:  X -> 0  mass d
-        """, "extrinsic.cnet").Model!.Network;
+        """;
+
+    private static ReactionNetwork Network() => ModelLoader.LoadText(ModelText, "extrinsic.cnet").Model!.Network;
 
     [Fact]
     public void MarginalLawIsNegativeBinomial()
