@@ -1,3 +1,4 @@
+using CopyNumber.Kinetics;
 using System.Xml.Linq;
 
 namespace CopyNumber.Sbml;
@@ -23,7 +24,7 @@ internal static class MathMlWriter
     /// <summary>A number as SBML and the importer read it back exactly (shortest round-trip form).</summary>
     public static XElement Number(double value)
     {
-        var text = SbmlMath.FormatNumber(value);
+        var text = ExpressionText.Format(value);
         var e = text.IndexOfAny(['E', 'e']);
         if (e < 0) return new XElement(M + "cn", text);
         // MathML's e-notation: mantissa <sep/> exponent (an exponent inside <cn> text is not MathML 2).

@@ -256,7 +256,7 @@ internal sealed class SbmlExport(LoadedModel model)
         return new XElement(Core + "notes", new XElement(Xhtml + "body", paragraphs.Select(p => new XElement(Xhtml + "p", p))));
     }
 
-    private static string Format(double value) => SbmlMath.FormatNumber(value);
+    private static string Format(double value) => ExpressionText.Format(value);
 
     // ---- changes ----
 

@@ -1,5 +1,5 @@
-using System.Globalization;
-using System.Text;
+using CopyNumber.Kinetics;
+using CopyNumber.Language;
 
 namespace CopyNumber.Sbml;
 
@@ -75,94 +75,38 @@ internal abstract record SbmlMath
         };
     }
 
-    /// <summary>The expression in the network language's syntax, with the fewest parentheses its grammar needs.</summary>
-    public string ToCnet()
-    {
-        var text = new StringBuilder();
-        Print(this, 0, text);
-        return text.ToString();
-    }
+    /// <summary>
+    /// The expression in the network language's syntax, printed by the language's one printer
+    /// (<see cref="ExpressionText"/>), so an imported model reads exactly like one written by hand.
+    /// </summary>
+    public string ToCnet() => ExpressionText.Format(ToExpr(this));
 
-    // Binding strength of the language's operators, loosest first (docs/network-language.md, Expressions).
-    private const int Or = 1, And = 2, Not = 3, Compare = 4, Sum = 5, Product = 6, Negation = 7, Power = 8, Primary = 9;
+    private static readonly SourcePosition Nowhere = new(0, 0);
 
-    private static int Strength(SbmlMath m) => m switch
+    private static Expr ToExpr(SbmlMath m) => m switch
     {
-        MathNumber n => n.Value < 0 || double.IsNegative(n.Value) && n.Value == 0 ? Negation : Primary,
+        MathNumber n => new NumberExpr(n.Value, Nowhere),
+        MathName n => new NameExpr(n.Name, Nowhere),
+        MathTime => new NameExpr("time", Nowhere),
         MathApply a => a.Operator switch
         {
-            "or" => Or,
-            "and" => And,
-            "not" => Not,
-            "<" or "<=" or ">" or ">=" or "==" or "!=" => Compare,
-            "+" => Sum,
-            "-" => a.Arguments.Count == 1 ? Negation : Sum,
-            "*" or "/" => Product,
-            "^" => Power,
-            _ => Primary,
+            "+" or "*" or "/" or "^" => new BinaryExpr(a.Operator[0], ToExpr(a.Arguments[0]), ToExpr(a.Arguments[1]), Nowhere),
+            "-" when a.Arguments.Count == 1 => new NegateExpr(ToExpr(a.Arguments[0]), Nowhere),
+            "-" => new BinaryExpr('-', ToExpr(a.Arguments[0]), ToExpr(a.Arguments[1]), Nowhere),
+            "<" => Compare(Comparison.Less, a),
+            "<=" => Compare(Comparison.LessOrEqual, a),
+            ">" => Compare(Comparison.Greater, a),
+            ">=" => Compare(Comparison.GreaterOrEqual, a),
+            "==" => Compare(Comparison.Equal, a),
+            "!=" => Compare(Comparison.NotEqual, a),
+            "and" or "or" => new LogicExpr(a.Operator == "and", ToExpr(a.Arguments[0]), ToExpr(a.Arguments[1]), Nowhere),
+            "not" => new NotExpr(ToExpr(a.Arguments[0]), Nowhere),
+            _ => new CallExpr(a.Operator, a.Arguments.Select(ToExpr).ToArray(), Nowhere),
         },
-        _ => Primary,
+        _ => throw new InvalidOperationException(m.GetType().Name),
     };
 
-    private static void Print(SbmlMath m, int needed, StringBuilder text)
-    {
-        var strength = Strength(m);
-        var wrap = strength < needed;
-        if (wrap) text.Append('(');
-        switch (m)
-        {
-            case MathNumber n:
-                text.Append(FormatNumber(n.Value));
-                break;
-            case MathName n:
-                text.Append(n.Name);
-                break;
-            case MathTime:
-                text.Append("time");
-                break;
-            case MathApply a when strength == Primary:
-                text.Append(a.Operator).Append('(');
-                for (var i = 0; i < a.Arguments.Count; i++)
-                {
-                    if (i > 0) text.Append(", ");
-                    Print(a.Arguments[i], 0, text);
-                }
-                text.Append(')');
-                break;
-            case MathApply a when a.Operator == "not":
-                text.Append("not ");
-                Print(a.Arguments[0], Not, text);
-                break;
-            case MathApply a when a.Operator == "-" && a.Arguments.Count == 1:
-                text.Append('-');
-                Print(a.Arguments[0], Negation, text);
-                break;
-            case MathApply a when a.Operator == "^":
-                Print(a.Arguments[0], Primary, text);
-                text.Append('^');
-                Print(a.Arguments[1], Negation, text);
-                break;
-            case MathApply a when strength == Compare:
-                Print(a.Arguments[0], Sum, text);
-                text.Append(' ').Append(a.Operator).Append(' ');
-                Print(a.Arguments[1], Sum, text);
-                break;
-            case MathApply a:
-                // Left-associative binary operators: the right operand binds one step tighter.
-                Print(a.Arguments[0], strength, text);
-                text.Append(' ').Append(a.Operator).Append(' ');
-                Print(a.Arguments[1], strength + 1, text);
-                break;
-        }
-        if (wrap) text.Append(')');
-    }
-
-    /// <summary>A number as the language reads it back exactly (shortest round-trip form); negative ones with a leading '-'.</summary>
-    public static string FormatNumber(double value)
-    {
-        var text = value.ToString("R", CultureInfo.InvariantCulture);
-        return text.Contains('E') && !text.Contains("E-") && !text.Contains("E+") ? text.Replace("E", "E+") : text;
-    }
+    private static CompareExpr Compare(Comparison op, MathApply a) => new(op, ToExpr(a.Arguments[0]), ToExpr(a.Arguments[1]), Nowhere);
 }
 
 /// <summary>A number.</summary>

@@ -1,3 +1,4 @@
+using CopyNumber.Kinetics;
 using System.Text;
 using System.Xml.Linq;
 using CopyNumber.Language;
@@ -151,7 +152,7 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
 
         var text = new StringBuilder();
         if (_sizeCompartment is not null)
-            text.Append($"size {SbmlMath.FormatNumber(SbmlValue(_sizeCompartment, _compartments[_sizeCompartment].Element))}\n");
+            text.Append($"size {ExpressionText.Format(SbmlValue(_sizeCompartment, _compartments[_sizeCompartment].Element))}\n");
         if (TimeUnit(model) is { } unit) text.Append($"time unit {unit}\n");
         text.Append(SpeciesSection());
         var reactions = ReactionSection(model, out var localParameters);
@@ -291,7 +292,7 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
                 Refuse(new SbmlRefusal(s.Element, $"{SbmlRefusal.Describe(s.Element)} starts at {amount}; amounts must be finite and not negative"));
                 continue;
             }
-            text.Append($"  {_names[s.Id]} = {SbmlMath.FormatNumber(amount)}{(s.Held ? "  held" : "")}");
+            text.Append($"  {_names[s.Id]} = {ExpressionText.Format(amount)}{(s.Held ? "  held" : "")}");
             if (s.Concentration) text.Append($"   # concentration × size of '{s.Compartment}'");
             text.Append('\n');
         }
@@ -302,10 +303,10 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
     {
         var text = new StringBuilder();
         foreach (var c in _compartments.Values.Where(c => c.Id != _sizeCompartment && !_rules.ContainsKey(c.Id)))
-            Guard(() => text.Append($"  {_names[c.Id]} = {SbmlMath.FormatNumber(SbmlValue(c.Id, c.Element))}   # size of compartment '{c.Id}'\n"));
+            Guard(() => text.Append($"  {_names[c.Id]} = {ExpressionText.Format(SbmlValue(c.Id, c.Element))}   # size of compartment '{c.Id}'\n"));
         foreach (var p in _parameters.Values.Where(p => !_rules.ContainsKey(p.Id)))
-            Guard(() => text.Append($"  {_names[p.Id]} = {SbmlMath.FormatNumber(SbmlValue(p.Id, p.Element))}\n"));
-        foreach (var (name, value) in localParameters) text.Append($"  {name} = {SbmlMath.FormatNumber(value)}\n");
+            Guard(() => text.Append($"  {_names[p.Id]} = {ExpressionText.Format(SbmlValue(p.Id, p.Element))}\n"));
+        foreach (var (name, value) in localParameters) text.Append($"  {name} = {ExpressionText.Format(value)}\n");
         return text.Length == 0 ? "" : "\nparameters\n" + text;
     }
 
@@ -455,7 +456,7 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
                 _notes.Add($"event '{Id(e)}' never fires (its trigger time {time} is not after the start)");
                 return "";
             }
-            return $"  {changes}  at time {SbmlMath.FormatNumber(time)}\n";
+            return $"  {changes}  at time {ExpressionText.Format(time)}\n";
         }
         var whenever = ToCnet(condition, trigger);
         var line = $"  {changes}  whenever {whenever.ToCnet()}\n";
@@ -629,7 +630,7 @@ internal sealed class SbmlTranslation(XDocument document, string file, IReadOnly
         text.Append("# Discrete Stochastic Models Test Suite (Evans, Gillespie & Wilkinson 2008); a law that is a constant times\n");
         text.Append("# each reactant once is written 'mass'. Species in concentration are read as amount / compartment size;\n");
         text.Append("# assignment rules are inlined where used and reported as readouts; function definitions are inlined.\n");
-        if (F != 1) text.Append($"# Amounts are molecules: {SbmlMath.FormatNumber(F)} per unit of substance.\n");
+        if (F != 1) text.Append($"# Amounts are molecules: {ExpressionText.Format(F)} per unit of substance.\n");
         foreach (var note in _notes.Distinct()) text.Append($"# {note}.\n");
         return text.ToString();
     }
