@@ -15,6 +15,9 @@ public static class RunFiles
     /// <summary>What <c>contrast</c> adds when the rate equations oscillate or ring: the averaged and LNA spectra, and the per-replicate periods and amplitudes.</summary>
     public const string OscillationSpectrum = "oscillation-spectrum.parquet", OscillationReplicates = "oscillation-replicates.parquet";
 
+    /// <summary>What <c>contrast</c> adds when the schedule cuts the run into more than one phase: the verdicts per phase.</summary>
+    public const string Phases = "phases.parquet";
+
     /// <summary>What a size sweep writes into its folder beside one run folder per size (<see cref="SweepRunPrefix"/><c>&lt;size&gt;</c>) and the two reports.</summary>
     public const string Sweep = "sweep.parquet", SweepRunPrefix = "size-";
 
@@ -44,7 +47,7 @@ public static class RunFiles
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
         Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise,
-        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Claim, Lock,
+        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Claim, Lock,
     };
 
     /// <summary>Whether <paramref name="name"/> is a file name we write into a run folder: one of <see cref="Known"/> or a temporary sibling of one.</summary>
