@@ -34,6 +34,12 @@ public static class ContrastOutputs
         var table = Path.Combine(folder, TableFile);
         ContrastTable.Write(table, contrast.Quantities, metadata);
         var written = new List<string> { table };
+        if (PhasesTable.Applies(contrast.Quantities))
+        {
+            var phases = Path.Combine(folder, RunFiles.Phases);
+            PhasesTable.Write(phases, contrast.Quantities, metadata);
+            written.Add(phases);
+        }
         if (contrast.Oscillation is { Species.Count: > 0 } oscillation)
         {
             var spectrum = Path.Combine(folder, RunFiles.OscillationSpectrum);

@@ -49,6 +49,7 @@ public static class ContrastReport
             []);
 
         var sections = new List<ReportSection> { summary };
+        if (PhaseSection(contrast, thresholds) is { } phases) sections.Add(phases);
         if (ValidationSection.For(run.Manifest, cautions) is { } validation) sections.Add(validation);
         if (ExactCheckSection.For(run.Manifest) is { } exactCheck) sections.Add(exactCheck);
         var chosenTimes = ChooseTimes(times, histogramTimes);
@@ -101,6 +102,22 @@ public static class ContrastReport
                 [new ReportFigure($"{SafeName(heat)}-heatmap.png", $"Probability of each copy number of {heat} over time.", Figures.Heatmap(heatmap))]));
 
         return new Report($"CopyNumber contrast: {Path.GetFileNameWithoutExtension(run.Manifest.ModelFile)}", cautions, sections);
+    }
+
+    // The verdicts per phase of the schedule, when it cuts the run into more than one (docs/methods-analysis.md, section 4).
+    private static ReportSection? PhaseSection(RunContrastResult contrast, ContrastThresholds thresholds)
+    {
+        var rows = contrast.Quantities.SelectMany(q => q.Phases.Select(p => (q, p))).OrderBy(x => x.p.Phase.Index)
+            .SelectMany(x => x.p.Contrast.Verdicts.Select(v => (IReadOnlyList<string>)[x.p.Phase.Index.ToString(CultureInfo.InvariantCulture), x.p.Phase.Span, x.q.Name, v.Label, v.Sentence]))
+            .ToList();
+        if (rows.Count == 0) return null;
+        var count = contrast.Quantities.Max(q => q.Phases.Count);
+        return new ReportSection("Verdicts per phase",
+            [$"The schedule changes the model {count - 1} time{(count == 2 ? "" : "s")} on the grid, so each of the {count} phases between changes is also judged on its own grid times "
+             + $"(a grid time at a change belongs to the phase it starts). Each phase's verdicts are drawn at the false-alarm rate {Percent(thresholds.FalseAlarmRate)} shared out over the phases "
+             + $"({Percent(thresholds.FalseAlarmRate / count)} each), so a verdict fires falsely in some phase with a chance of at most {Percent(thresholds.FalseAlarmRate)} per quantity; numbers in phases.parquet."],
+            [new ReportTable(["phase", "span", "quantity", "verdict", "reason"], rows)],
+            []);
     }
 
     /// <summary>

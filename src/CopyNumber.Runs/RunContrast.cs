@@ -1,5 +1,6 @@
 using CopyNumber.Analysis;
 using CopyNumber.Analysis.Oscillation;
+using CopyNumber.Analysis.Phases;
 using System.Globalization;
 using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Deterministic;
@@ -100,6 +101,8 @@ public static class RunContrast
             }
         }
         var switching = SwitchingJson.Read(manifest, network, grid.Until).Where(x => x.Replicates > 0).ToDictionary(x => x.Species);
+        // The phases between the schedule's changes, cut where the timeline cuts (its coincidence rule): verdicts per phase.
+        var phases = ModelPhase.Of(Timeline.Of(network, grid));
         var contrasts = new List<QuantityContrast>();
         foreach (var series in run.Quantities)
         {
@@ -125,7 +128,7 @@ public static class RunContrast
             if (points.Count > 0 && points[^1].Time == grid.Until && switching.TryGetValue(series.Name, out var switches))
                 points[^1] = points[^1] with { SwitchesPerReplicate = switches.Mean };
             if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name),
-                OscillationOf(oscillation, series.Name, thresholdsInForce)));
+                OscillationOf(oscillation, series.Name, thresholdsInForce), phases));
         }
         return new RunContrastResult(run, network, contrasts, expansion, failure) { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation };
     }

@@ -53,6 +53,12 @@ public sealed record RunSpecification
     /// <summary>A fixed size for a tau-leaping run's validation sample; null for the sizing rule.</summary>
     public long? ValidationReplicates { get; init; }
 
+    /// <summary>
+    /// The species pairs whose covariance is accumulated, as given to <c>--covariance-pairs</c> ("U:V,A:B", "all" or "none");
+    /// null for the default (every pair of a network of at most <see cref="SpeciesPair.AllPairsUpTo"/> species, none beyond).
+    /// </summary>
+    public string? CovariancePairs { get; init; }
+
     /// <summary>Wall-clock limit after which the run stops like an interruption; null for none. Not a setting of the result.</summary>
     public TimeSpan? WallLimit { get; init; }
 
@@ -81,6 +87,7 @@ public sealed record RunSpecification
         if (Size is { } size) arguments[StoredSettings.SizeKey] = Invariant(size);
         // Recorded only when given, so that folders written before the option existed still agree.
         if (ValidationReplicates is { } sample) arguments[StoredSettings.ValidationKey] = Invariant(sample);
+        if (CovariancePairs is { } pairs) arguments[ManifestFields.CovariancePairsArgument] = pairs;
         return arguments;
     }
 
@@ -98,6 +105,7 @@ public sealed record RunSpecification
         Threads = Threads,
         PathReplicates = PathReplicates,
         Shard = Shard,
+        CovariancePairs = CovariancePairs is { } pairs ? SpeciesPair.Parse(pairs, Model.Network) : null,
     };
 
     private static string Invariant(double value) => value.ToString("R", CultureInfo.InvariantCulture);
@@ -148,6 +156,9 @@ public sealed record StoredSettings
     /// <summary>The stored validation sample size.</summary>
     public long? ValidationReplicates { get; init; }
 
+    /// <summary>The stored <c>--covariance-pairs</c> text, or null when the run used the default pairs.</summary>
+    public string? CovariancePairs { get; init; }
+
     /// <summary>Reads the settings a run folder's manifest records.</summary>
     /// <exception cref="RunFolderException">A recorded value does not read.</exception>
     public static StoredSettings Read(StoredRun stored)
@@ -185,6 +196,7 @@ public sealed record StoredSettings
                     : throw new RunFolderException($"The manifest of '{stored.Folder}' records shard '{s}', which is not a valid shard; it was edited or damaged.", stored.Folder))
                 : null,
             ValidationReplicates = Get(ValidationKey, Whole),
+            CovariancePairs = arguments.GetValueOrDefault(ManifestFields.CovariancePairsArgument),
         };
     }
 }

@@ -81,6 +81,16 @@ internal sealed class ContrastOptions
         foreach (var q in contrast.Quantities)
             foreach (var v in q.Verdicts)
                 table.Add(q.Name, v.Label, v.Sentence);
-        return table + $"error bars: {contrast.ErrorSource}\n" + (contrast.ExpansionStop is { } stop ? stop + "\n" : "") + Contrast.Caution + "\n";
+        var phases = "";
+        if (contrast.Quantities.Any(q => q.Phases.Count > 1))
+        {
+            // Each phase between the schedule's changes judged on its own, at the false-alarm rate shared out over the phases.
+            var perPhase = new TextTable("phase", "span", "quantity", "verdict", "reason");
+            foreach (var (q, p) in contrast.Quantities.SelectMany(q => q.Phases.Select(p => (q, p))).OrderBy(x => x.p.Phase.Index))
+                foreach (var v in p.Contrast.Verdicts)
+                    perPhase.Add(p.Phase.Index.ToString(CultureInfo.InvariantCulture), p.Phase.Span, q.Name, v.Label, v.Sentence);
+            phases = "verdicts per phase of the schedule:\n" + perPhase;
+        }
+        return table + phases + $"error bars: {contrast.ErrorSource}\n" + (contrast.ExpansionStop is { } stop ? stop + "\n" : "") + Contrast.Caution + "\n";
     }
 }

@@ -27,6 +27,7 @@ internal sealed class EnsembleOptionSet
     private readonly Option<double?> _maxWall;
     private readonly Option<string?>? _shard;
     private readonly Option<long?> _validationReplicates;
+    private readonly Option<string?> _covariancePairs;
 
     /// <param name="replicatesText">What --replicates means for this command.</param>
     /// <param name="withShard">Whether the command takes --shard (a sweep does not).</param>
@@ -42,12 +43,16 @@ internal sealed class EnsembleOptionSet
         _maxEvents = CountOption.Create("--max-events", "Stop a replicate after this many events; such replicates are counted and reported.");
         _maxWall = new("--max-wall") { Description = "Stop after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
         if (withShard) _shard = new("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
+        _covariancePairs = new("--covariance-pairs")
+        {
+            Description = $"Species pairs whose covariance goes to covariances.parquet at every grid time: NAME:NAME pairs separated by commas, 'all' or 'none' (default: every pair up to {SpeciesPair.AllPairsUpTo} species, none beyond).",
+        };
         _validationReplicates = CountOption.Create("--validation-replicates", "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md).");
     }
 
     public void AddTo(Command command)
     {
-        foreach (var option in new Option?[] { _replicates, _method, _epsilon, _seed, _threads, _paths, _maxEvents, _maxWall, _shard, _validationReplicates })
+        foreach (var option in new Option?[] { _replicates, _method, _epsilon, _seed, _threads, _paths, _maxEvents, _maxWall, _shard, _validationReplicates, _covariancePairs })
             if (option is not null) command.Options.Add(option);
     }
 
@@ -80,6 +85,18 @@ internal sealed class EnsembleOptionSet
         var sample = Given(_validationReplicates, stored?.ValidationReplicates);
         if (sample is < 2) throw new UserInputException($"--validation-replicates must be at least 2 (got {sample})");
         var seed = Given(_seed, stored?.Seed) ?? BitConverter.ToUInt64(RandomNumberGenerator.GetBytes(8));
+        var pairs = parsed.GetResult(_covariancePairs) is { Implicit: false } ? parsed.GetValue(_covariancePairs) : stored?.CovariancePairs;
+        if (pairs is not null)
+        {
+            try
+            {
+                SpeciesPair.Parse(pairs, model.Network);
+            }
+            catch (ArgumentException e)
+            {
+                throw new UserInputException($"--covariance-pairs: {e.Message}");
+            }
+        }
         return new RunSpecification
         {
             Model = model,
@@ -94,6 +111,7 @@ internal sealed class EnsembleOptionSet
             PathReplicates = paths,
             Shard = shard,
             ValidationReplicates = sample,
+            CovariancePairs = pairs,
             WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
             Threads = threads,
         };

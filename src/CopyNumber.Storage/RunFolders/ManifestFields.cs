@@ -81,6 +81,12 @@ public static class ManifestFields
     /// <summary>Argument key of the shard, "i/n" ("1/1" for a whole run).</summary>
     public const string ShardArgument = "shard";
 
+    /// <summary>
+    /// The argument recording the species pairs whose covariance a run accumulates (<c>--covariance-pairs</c>: "U:V,A:B", "all" or
+    /// "none"); absent when not given, and then the default rule applies (<see cref="CopyNumber.Ensembles.SpeciesPair.Default"/>).
+    /// </summary>
+    public const string CovariancePairsArgument = "covariance_pairs";
+
     /// <summary>Argument key of the command that made the folder.</summary>
     public const string CommandArgument = "command";
 }

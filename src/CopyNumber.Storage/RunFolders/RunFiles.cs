@@ -7,13 +7,16 @@ public static class RunFiles
     public const string Moments = "moments.parquet", Distributions = "distributions.parquet",
         Deterministic = "deterministic.parquet", Paths = "paths.parquet", Manifest = "manifest.json",
         ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet",
-        Joint = "joint.parquet", Noise = "noise.parquet";
+        Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet";
 
     /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files).</summary>
     public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
 
     /// <summary>What <c>contrast</c> adds when the rate equations oscillate or ring: the averaged and LNA spectra, and the per-replicate periods and amplitudes.</summary>
     public const string OscillationSpectrum = "oscillation-spectrum.parquet", OscillationReplicates = "oscillation-replicates.parquet";
+
+    /// <summary>What <c>contrast</c> adds when the schedule cuts the run into more than one phase: the verdicts per phase.</summary>
+    public const string Phases = "phases.parquet";
 
     /// <summary>What a size sweep writes into its folder beside one run folder per size (<see cref="SweepRunPrefix"/><c>&lt;size&gt;</c>) and the two reports.</summary>
     public const string Sweep = "sweep.parquet", SweepRunPrefix = "size-";
@@ -28,7 +31,7 @@ public static class RunFiles
     public const string Claim = ".copynumber-claim", Lock = ".copynumber-lock";
 
     /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>
-    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise];
+    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances];
 
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="Paths"/>.</summary>
     internal const string ResumedPaths = "paths-resumed.parquet";
@@ -43,8 +46,8 @@ public static class RunFiles
     /// </summary>
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
-        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise,
-        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Claim, Lock,
+        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances,
+        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Claim, Lock,
     };
 
     /// <summary>Whether <paramref name="name"/> is a file name we write into a run folder: one of <see cref="Known"/> or a temporary sibling of one.</summary>

@@ -235,13 +235,15 @@ public sealed class StoredRun
             CheckCovers(reader, blocks);
             histograms = DistributionsTable.ReadHistograms(reader, Grid, counts);
         }
+        var pairs = CovariancePairs(network);
+        string[] cellNames = [.. reals.Select(q => q.Name), .. pairs.Select(p => SpeciesPair.SumName(network.Species[p.First], network.Species[p.Second]))];
         MomentTree tree;
-        if (reals.Length == 0) tree = new MomentTree(TotalBlocks, 0);
+        if (cellNames.Length == 0) tree = new MomentTree(TotalBlocks, 0);
         else
         {
             using var reader = ParquetTableReader.Open(Path.Combine(_tables, RunFiles.ReadoutState));
             CheckCovers(reader, blocks);
-            tree = ReadoutStateTable.Read(reader, Grid, reals, TotalBlocks);
+            tree = ReadoutStateTable.Read(reader, Grid, cellNames, TotalBlocks);
             var covered = tree.Nodes.SelectMany(n => Range(n.FirstBlock, n.EndBlock)).Order().ToArray();
             if (!covered.SequenceEqual(FinishedBlocks)) throw reader.Damaged("its nodes do not cover exactly the finished blocks");
         }
@@ -251,7 +253,26 @@ public sealed class StoredRun
             Grid, quantities, histograms, tree, Manifest.ReplicatesFinished, Manifest.EventsFired, stoppedEarly,
             finished, BlockSize, Manifest.ReplicatesRequested, Shard,
             !EnsembleResult.Covers(finished, Shard.Blocks(TotalBlocks)), TimeSpan.FromSeconds(Manifest.WallSeconds),
-            SwitchingJson.Read(Manifest, network, Grid.Until));
+            SwitchingJson.Read(Manifest, network, Grid.Until), pairs);
+    }
+
+    /// <summary>
+    /// The species pairs the run accumulated: those its manifest records under <see cref="ManifestFields.CovariancePairsArgument"/>,
+    /// or the default (<see cref="SpeciesPair.Default"/>) when it records none.
+    /// </summary>
+    /// <exception cref="RunFolderException">The recorded pairs do not read against the run's model.</exception>
+    public IReadOnlyList<SpeciesPair> CovariancePairs(ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        if (!Manifest.Arguments.TryGetValue(ManifestFields.CovariancePairsArgument, out var text)) return SpeciesPair.Default(network);
+        try
+        {
+            return SpeciesPair.Parse(text, network);
+        }
+        catch (ArgumentException e)
+        {
+            throw new RunFolderException($"'{Folder}/manifest.json' records the covariance pairs '{text}', which do not read: {e.Message}", Folder);
+        }
     }
 
     private static IEnumerable<long> Range(long first, long end)

@@ -42,6 +42,12 @@ internal static class SummaryFiles
         MomentsTable.Write(moments, result, deterministic, provenance);
         files.Add(moments);
         files.AddRange(WriteState(folder, result, provenance));
+        if (result.Pairs.Count > 0)
+        {
+            var path = Path.Combine(folder, RunFiles.Covariances);
+            CovariancesTable.Write(path, result, provenance);
+            files.Add(path);
+        }
         if (result.Noise is not null)
         {
             var path = Path.Combine(folder, RunFiles.Noise);
@@ -66,7 +72,7 @@ internal static class SummaryFiles
         var distributions = Path.Combine(folder, RunFiles.Distributions);
         DistributionsTable.Write(distributions, result, provenance);
         List<string> files = [distributions];
-        if (result.RealQuantities.Count > 0)
+        if (result.MomentTree.Cells > 0)
         {
             var state = Path.Combine(folder, RunFiles.ReadoutState);
             ReadoutStateTable.Write(state, result, provenance);

@@ -4,8 +4,9 @@ using CopyNumber.Network;
 namespace CopyNumber.Storage;
 
 /// <summary>
-/// <c>readout-state.parquet</c>, written when the model has real-valued readouts: the exact state of
-/// their moment accumulators, one row per (stored node of the <see cref="MomentTree"/>, time, readout).
+/// <c>readout-state.parquet</c>, written when the model has real-valued readouts or species pairs whose covariance is
+/// accumulated: the exact state of their moment accumulators, one row per (stored node of the <see cref="MomentTree"/>,
+/// time, readout or pair sum "U+V", see <see cref="EnsembleResult.TreeCellNames"/>).
 /// Columns: <c>level</c>, <c>node</c> (node (ℓ, i) covers blocks i·2^ℓ up to <c>end_block</c>),
 /// <c>first_block</c>, <c>end_block</c> (one past the last), <c>time</c>, <c>readout</c>, <c>count</c>,
 /// <c>non_finite</c>, <c>mean</c>, <c>squared_deviations</c> (Σ(x − mean)²), <c>min</c>, <c>max</c>.
@@ -28,8 +29,8 @@ public static class ReadoutStateTable
             _ => ColumnType.Int64,
         })).ToArray();
         using var writer = ParquetTableWriter.Create(path, columns, metadata);
-        var reals = result.RealQuantities;
-        var rows = result.Grid.Count * reals.Count;
+        var names = result.TreeCellNames;
+        var rows = result.Grid.Count * names.Count;
         foreach (var node in result.MomentTree.Nodes)
         {
             var level = new long[rows];
@@ -46,16 +47,16 @@ public static class ReadoutStateTable
             var max = new double[rows];
             for (var k = 0; k < result.Grid.Count; k++)
             {
-                for (var q = 0; q < reals.Count; q++)
+                for (var q = 0; q < names.Count; q++)
                 {
-                    var row = k * reals.Count + q;
+                    var row = k * names.Count + q;
                     var state = node.Cells[row].State;
                     level[row] = node.Level;
                     index[row] = node.Index;
                     first[row] = node.FirstBlock;
                     end[row] = node.EndBlock;
                     time[row] = result.Grid[k];
-                    readout[row] = reals[q].Name;
+                    readout[row] = names[q];
                     count[row] = state.Count;
                     nonFinite[row] = state.NonFiniteCount;
                     mean[row] = state.Mean;
@@ -71,11 +72,11 @@ public static class ReadoutStateTable
 
     /// <summary>The moment tree stored in <paramref name="reader"/>'s file, for a run over <paramref name="totalBlocks"/> blocks.</summary>
     /// <exception cref="RunFolderException">The file is incomplete or names a node, time or readout the run does not have.</exception>
-    internal static MomentTree Read(ParquetTableReader reader, TimeGrid grid, IReadOnlyList<Quantity> realQuantities, long totalBlocks)
+    internal static MomentTree Read(ParquetTableReader reader, TimeGrid grid, IReadOnlyList<string> cellNames, long totalBlocks)
     {
-        var tree = new MomentTree(totalBlocks, grid.Count * realQuantities.Count);
+        var tree = new MomentTree(totalBlocks, grid.Count * cellNames.Count);
         var points = StoredCells.GridIndex(grid);
-        var names = StoredCells.NameIndex(realQuantities);
+        var names = cellNames.Select((n, i) => (n, i)).ToDictionary(x => x.n, x => x.i, StringComparer.Ordinal);
         var nodes = new Dictionary<(int Level, long Index), (MomentAccumulator?[] Cells, int Filled)>();
         for (var g = 0; g < reader.RowGroups; g++)
         {
@@ -94,7 +95,7 @@ public static class ReadoutStateTable
                 if (level[row] < 0 || level[row] > tree.Height) throw reader.Damaged($"it holds a node at level {level[row]}, outside a tree over {totalBlocks} blocks");
                 var key = ((int)level[row], index[row]);
                 if (!nodes.TryGetValue(key, out var node)) node = (new MomentAccumulator?[tree.Cells], 0);
-                var cell = StoredCells.Find(points, time[row], reader, "time") * realQuantities.Count + StoredCells.Find(names, readout[row], reader, "readout");
+                var cell = StoredCells.Find(points, time[row], reader, "time") * cellNames.Count + StoredCells.Find(names, readout[row], reader, "readout");
                 if (node.Cells[cell] is not null) throw reader.Damaged($"node ({key.Item1}, {key.Item2}) repeats time {time[row]} of readout '{readout[row]}'");
                 var state = new MomentState(count[row], nonFinite[row], mean[row], squares[row], min[row], max[row]);
                 if (state.Problem() is { } problem) throw reader.Damaged($"node ({key.Item1}, {key.Item2}) at time {time[row]}, readout '{readout[row]}': {problem}");

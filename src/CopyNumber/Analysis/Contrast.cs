@@ -1,4 +1,5 @@
 using System.Globalization;
+using CopyNumber.Analysis.Phases;
 using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Network;
 
@@ -25,9 +26,21 @@ public static partial class Contrast
     /// (e.g. "g_off + g_on = 1"); null to decide from the histograms' support.</param>
     /// <param name="oscillation">The oscillation analysis of this quantity (docs/methods-analysis.md, section 7): on a limit cycle the
     /// mean-shift and noise verdicts give way to the oscillation verdict and extinction is judged against the cycle's trough; null without one.</param>
+    /// <param name="phases">The phases of the run's schedule (<see cref="ModelPhase.Of"/>), indexed into <paramref name="points"/>; with more than one
+    /// phase holding points, each phase is also judged on its own, at the false-alarm rate shared out over the phases
+    /// (<see cref="QuantityContrast.Phases"/>). Null or one phase: no per-phase verdicts.</param>
     /// <exception cref="AnalysisInputException">No points, times not increasing or not finite, a replicate count below 1, or a threshold out of range.</exception>
     public static QuantityContrast Analyze(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds = null, QuantityLattice? lattice = null, string? zeroOneLaw = null,
-        QuantityOscillation? oscillation = null)
+        QuantityOscillation? oscillation = null, IReadOnlyList<ModelPhase>? phases = null)
+    {
+        var contrast = Judge(quantity, points, thresholds, lattice, zeroOneLaw, oscillation, "run");
+        if (phases is not null) contrast.Phases = PerPhase(quantity, points, thresholds ?? ContrastThresholds.Default, lattice, zeroOneLaw, oscillation, phases);
+        return contrast;
+    }
+
+    // The verdicts over one stretch of grid times: the whole run, or one phase of it.
+    private static QuantityContrast Judge(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds? thresholds, QuantityLattice? lattice, string? zeroOneLaw,
+        QuantityOscillation? oscillation, string stretch)
     {
         ArgumentNullException.ThrowIfNull(quantity);
         ArgumentNullException.ThrowIfNull(points);
@@ -76,14 +89,15 @@ public static partial class Contrast
         }
 
         var minimumReplicates = points.Min(p => p.Replicates);
-        var context = new Evidence(quantity, points, thresholds, deviations, resolved, cv, modes, shapes, scale);
+        var context = new Evidence(quantity, points, thresholds, deviations, resolved, cv, modes, shapes, scale, stretch);
         var (window, windowStart) = LateWindow(context);
         var verdicts = new List<QuantityVerdict>();
+        MeanShiftTest? tested = null;
         if (minimumReplicates < thresholds.MinimumReplicates)
             verdicts.Add(TooFewReplicates(context, minimumReplicates));
         else
         {
-            var shift = MeanShiftTest.Run(points, deviations, shapes, thresholds);
+            var shift = tested = MeanShiftTest.Run(points, deviations, shapes, thresholds);
             // Along a limit cycle the mean and the expansions describe dephasing, not the replicates (section 7).
             var onCycle = oscillation is { OnCycle: true };
             if (!onCycle && shift.Verdict(quantity, points, deviations, thresholds) is { } shifted) verdicts.Add(shifted);
@@ -103,6 +117,8 @@ public static partial class Contrast
             Deviations = deviations,
             Resolved = resolved,
             DeviationFromCorrectedMean = fromCorrected,
+            LnaVariance = points.Select(p => p.LnaVariance).ToArray(),
+            CorrectedMean = points.Select(p => p.CorrectedMean).ToArray(),
             VarianceRatio = varianceRatio,
             CoefficientOfVariation = cv,
             FanoFactor = fano,
@@ -113,14 +129,31 @@ public static partial class Contrast
             FinalProbabilityOfZero = points[^1].ProbabilityOfZero,
             MinimumReplicates = minimumReplicates,
             Verdicts = verdicts,
+            MeanShiftTimesJudged = tested?.Eligible.Length ?? 0,
+            MeanShiftTimesFlagged = tested?.Flagged.Length ?? 0,
+            FalseAlarmRate = thresholds.FalseAlarmRate,
         };
+    }
+
+    // Bonferroni over the P phases: each phase's verdicts at α/P, so a verdict fires falsely in some phase of the quantity
+    // with a chance of at most α, the run's own level (docs/methods-analysis.md, section 4).
+    private static IReadOnlyList<PhaseContrast> PerPhase(string quantity, IReadOnlyList<ContrastPoint> points, ContrastThresholds thresholds, QuantityLattice? lattice,
+        string? zeroOneLaw, QuantityOscillation? oscillation, IReadOnlyList<ModelPhase> phases)
+    {
+        var judged = ModelPhase.Within(phases, points.Count);
+        if (judged.Count < 2) return [];
+        var level = thresholds with { FalseAlarmRate = thresholds.FalseAlarmRate / judged.Count };
+        return judged.Select(phase => new PhaseContrast(phase,
+                Judge(quantity, points.Skip(phase.FirstPoint).Take(phase.Points).ToArray(), level, lattice, zeroOneLaw, oscillation, "phase"),
+                level.FalseAlarmRate))
+            .ToArray();
     }
 
     /// <summary>What the verdicts read about one quantity.</summary>
     internal sealed record Evidence(
         string Quantity, IReadOnlyList<ContrastPoint> Points, ContrastThresholds Thresholds,
         MeanDeviation[] Deviations, bool[] Resolved, double[] CoefficientOfVariation, ModeCountResult?[] Modes,
-        SampleShape[] Shapes, NoiseScale Scale);
+        SampleShape[] Shapes, NoiseScale Scale, string Stretch);
 
     private static void Check(string quantity, IReadOnlyList<ContrastPoint> points)
     {

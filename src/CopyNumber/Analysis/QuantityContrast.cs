@@ -32,6 +32,12 @@ public sealed class QuantityContrast
     /// <summary>Per time: ensemble mean − EMRE mean, in copies (NaN without the correction).</summary>
     public IReadOnlyList<double> DeviationFromCorrectedMean { get; internal init; } = [];
 
+    /// <summary>Per time: the linear noise approximation's variance along the rate equations, copies² (NaN when it is not computed).</summary>
+    public IReadOnlyList<double> LnaVariance { get; internal init; } = [];
+
+    /// <summary>Per time: the first-order corrected (EMRE) mean φ + δ, copies (NaN without the correction).</summary>
+    public IReadOnlyList<double> CorrectedMean { get; internal init; } = [];
+
     /// <summary>Per time: ensemble variance / LNA variance (NaN when the LNA variance is missing or not positive).</summary>
     public IReadOnlyList<double> VarianceRatio { get; internal init; } = [];
 
@@ -61,4 +67,19 @@ public sealed class QuantityContrast
 
     /// <summary>The verdicts, in the order of <see cref="VerdictKind"/>; "adequate" only when no other applies.</summary>
     public IReadOnlyList<QuantityVerdict> Verdicts { get; internal init; } = [];
+
+    /// <summary>The grid times on which "mean shifted" was tested (above the floor and near normal); 0 when no verdict was drawn.</summary>
+    public int MeanShiftTimesJudged { get; internal init; }
+
+    /// <summary>The grid times Holm's procedure flagged as beyond the threshold; "mean shifted" fires when this is at least 1.</summary>
+    public int MeanShiftTimesFlagged { get; internal init; }
+
+    /// <summary>The false-alarm rate α at which these verdicts were drawn (per phase: the run's α shared out over the phases).</summary>
+    public double FalseAlarmRate { get; internal init; }
+
+    /// <summary>
+    /// The verdicts per phase of the schedule (docs/methods-analysis.md, section 4), in time order, when the run has more than one
+    /// phase with grid times; empty otherwise. <see cref="Verdicts"/> stay the verdicts over the whole grid.
+    /// </summary>
+    public IReadOnlyList<Phases.PhaseContrast> Phases { get; internal set; } = [];
 }

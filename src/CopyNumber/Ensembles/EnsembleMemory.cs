@@ -9,7 +9,7 @@ namespace CopyNumber.Ensembles;
 /// runtime's own needs come on top.
 /// </summary>
 /// <param name="PerThreadBytes">One worker: its staged block (block size × grid × quantities × 8 bytes), its histograms and its simulator (<paramref name="SimulatorBytes"/>).</param>
-/// <param name="SharedBytes">The merged histograms, the moment tree and blocks waiting for their paths to be written.</param>
+/// <param name="SharedBytes">The merged histograms, the moment tree (real readouts and species pairs' sums) and blocks waiting for their paths to be written.</param>
 /// <param name="Threads">Worker threads the estimate is for: the threads asked for, or the blocks to run when fewer.</param>
 /// <param name="BlockElements">Elements of the largest staged-block array; .NET arrays hold at most <see cref="Array.MaxLength"/>.</param>
 /// <param name="SimulatorBytes">
@@ -39,6 +39,8 @@ public sealed record EnsembleMemory(long PerThreadBytes, long SharedBytes, int T
         var quantities = Quantity.Of(network);
         long counts = quantities.Count(q => q.IsCount);
         long reals = quantities.Count - counts;
+        // The moment tree's cells per grid point: the real readouts and the species pairs' sums (covariances).
+        long treeCells = reals + (options.CovariancePairs ?? SpeciesPair.Default(network)).Count;
         long grid = options.Grid.Count;
         long block = Math.Max(1, options.BlockSize);
         // No more workers start than there are blocks to run.
@@ -47,12 +49,12 @@ public sealed record EnsembleMemory(long PerThreadBytes, long SharedBytes, int T
         var blockElements = Math.Max(Product(block, grid, counts), Product(block, grid, reals));
         var blockBytes = Saturating(Product(block, grid, counts + reals), 8, block * 4);
         var simulator = SimulatorBytesFor(network);
-        var perThread = Saturating(Saturating(blockBytes, 1, Product(grid, counts, HistogramBytes) + Product(grid, reals, AccumulatorBytes)), 1, simulator);
+        var perThread = Saturating(Saturating(blockBytes, 1, Product(grid, counts, HistogramBytes) + Product(grid, treeCells, AccumulatorBytes)), 1, simulator);
         // Blocks holding path replicates may wait, up to four per thread, for the ones before them.
         var waiting = options.PathReplicates > 0 ? Saturating(blockBytes, 4L * threads, 0) : 0;
         var height = 0;
         while ((1L << height) < Math.Max(1, options.TotalBlocks)) height++;
-        var tree = Product(height + 1 + threads, Product(grid, reals, AccumulatorBytes), 1);
+        var tree = Product(height + 1 + threads, Product(grid, treeCells, AccumulatorBytes), 1);
         var shared = Saturating(Product(grid, counts, HistogramBytes), 1, Saturating(waiting, 1, tree));
         return new EnsembleMemory(perThread, shared, threads, blockElements, simulator);
     }

@@ -41,6 +41,12 @@ public sealed record EnsembleOptions
     /// </summary>
     public int ReplicatesPerDraw { get; init; } = DefaultReplicatesPerDraw;
 
+    /// <summary>
+    /// The species pairs whose covariance is accumulated at every grid time; null for <see cref="SpeciesPair.Default"/>
+    /// (every pair of a network of at most <see cref="SpeciesPair.AllPairsUpTo"/> species, none beyond), empty for none.
+    /// </summary>
+    public IReadOnlyList<SpeciesPair>? CovariancePairs { get; init; }
+
     /// <summary>The nested design's default group size.</summary>
     public const int DefaultReplicatesPerDraw = 8;
 

@@ -28,14 +28,17 @@ public sealed class EnsembleResult
         Shard shard,
         bool interrupted,
         TimeSpan wallTime,
-        IReadOnlyList<SwitchingStatistics>? switching = null)
+        IReadOnlyList<SwitchingStatistics>? switching = null,
+        IReadOnlyList<SpeciesPair>? pairs = null)
     {
         Grid = grid;
         Quantities = quantities;
         CountQuantities = quantities.Where(q => q.IsCount).ToArray();
         RealQuantities = quantities.Where(q => !q.IsCount).ToArray();
         if (histograms.Length != grid.Count * CountQuantities.Count) throw new ArgumentException("one histogram per grid point and count quantity is needed", nameof(histograms));
-        if (momentTree.Cells != grid.Count * RealQuantities.Count) throw new ArgumentException("the moment tree needs one cell per grid point and real readout", nameof(momentTree));
+        Pairs = pairs ?? [];
+        if (momentTree.Cells != grid.Count * (RealQuantities.Count + Pairs.Count))
+            throw new ArgumentException("the moment tree needs one cell per grid point and real readout or species pair", nameof(momentTree));
         _histograms = histograms;
         MomentTree = momentTree;
         ReplicatesFinished = replicatesFinished;
@@ -113,7 +116,16 @@ public sealed class EnsembleResult
     /// </summary>
     public IReadOnlyList<SwitchingStatistics> Switching { get; }
 
-    /// <summary>The real readouts' moments over the finished blocks, in their fixed combination order.</summary>
+    /// <summary>
+    /// The species pairs whose covariance is accumulated (<see cref="Covariance"/>): the moments of each pair's sum x + y
+    /// are cells of <see cref="MomentTree"/>, after the real readouts at each grid point.
+    /// </summary>
+    public IReadOnlyList<SpeciesPair> Pairs { get; }
+
+    /// <summary>
+    /// The real readouts' moments, then the species pairs' sums, over the finished blocks, in their fixed combination order;
+    /// <see cref="MomentTree.Cells"/> = grid points × (real readouts + pairs), grid point major.
+    /// </summary>
     public MomentTree MomentTree { get; }
 
     /// <summary>The histogram of count quantity <paramref name="countQuantity"/> (index into <see cref="CountQuantities"/>) at grid point <paramref name="gridIndex"/>.</summary>
@@ -123,8 +135,32 @@ public sealed class EnsembleResult
     public MomentAccumulator Moments(int gridIndex, int realQuantity)
     {
         _moments ??= MomentTree.Summarise();
-        return _moments[gridIndex * RealQuantities.Count + realQuantity];
+        return _moments[gridIndex * (RealQuantities.Count + Pairs.Count) + realQuantity];
     }
+
+    /// <summary>
+    /// The covariance of pair <paramref name="pair"/> (index into <see cref="Pairs"/>) at grid point <paramref name="gridIndex"/>,
+    /// from the identity Cov(x, y) = (Var(x + y) − Var x − Var y)/2 with the unbiased variances of the sum's moments and of
+    /// the two species' exact histograms (docs/methods.md, "Covariances between species").
+    /// </summary>
+    public CovarianceEstimate Covariance(int gridIndex, int pair)
+    {
+        var sum = Moments(gridIndex, RealQuantities.Count + pair);
+        var (a, b) = (Pairs[pair].First, Pairs[pair].Second);
+        var x = Histogram(gridIndex, CountIndexOfSpecies(a));
+        var y = Histogram(gridIndex, CountIndexOfSpecies(b));
+        return CovarianceEstimate.Of(sum, x, y);
+    }
+
+    /// <summary>
+    /// The names of the moment tree's cells at one grid point: the real readouts, then each pair's sum as "U+V" (a species
+    /// name never holds '+'), the names under which readout-state.parquet stores them.
+    /// </summary>
+    public IReadOnlyList<string> TreeCellNames =>
+        [.. RealQuantities.Select(q => q.Name), .. Pairs.Select(p => SpeciesPair.SumName(Quantities[p.First].Name, Quantities[p.Second].Name))];
+
+    // Species come first among the count quantities, in network order.
+    private int CountIndexOfSpecies(int species) => species;
 
     /// <summary>
     /// The result over the blocks of both <paramref name="first"/> and <paramref name="second"/>, which must
@@ -154,6 +190,7 @@ public sealed class EnsembleResult
             histograms[h].Merge(first._histograms[h]);
             histograms[h].Merge(second._histograms[h]);
         }
+        if (!first.Pairs.SequenceEqual(second.Pairs)) throw new ArgumentException("the results accumulate different species pairs", nameof(second));
         var tree = new MomentTree(first.TotalBlocks, first.MomentTree.Cells);
         tree.AddCopiesOf(first.MomentTree);
         tree.AddCopiesOf(second.MomentTree);
@@ -167,7 +204,7 @@ public sealed class EnsembleResult
             finished, first.BlockSize, first.ReplicatesRequested, shard,
             !Covers(finished, shard.Blocks(first.TotalBlocks)),
             first.WallTime + second.WallTime,
-            CombineSwitching(first.Switching, second.Switching));
+            CombineSwitching(first.Switching, second.Switching), first.Pairs);
     }
 
     private static SwitchingStatistics[] CombineSwitching(IReadOnlyList<SwitchingStatistics> first, IReadOnlyList<SwitchingStatistics> second)

@@ -63,7 +63,9 @@ public static class EnsembleRunner
         bool Runs(long b) => b >= first && b < end && !skip.Contains(b);
         var toRun = end - first - skip.Count(b => b >= first && b < end);
 
-        var tree = new MomentTree(totalBlocks, grid.Count * realQuantities);
+        var pairs = options.CovariancePairs ?? SpeciesPair.Default(network);
+        var treeStride = realQuantities + pairs.Count;
+        var tree = new MomentTree(totalBlocks, grid.Count * treeStride);
         var varies = network.Variability.Any;
         if (varies && (options.ReplicatesPerDraw < 2 || options.BlockSize % (2 * options.ReplicatesPerDraw) != 0))
             throw new ArgumentOutOfRangeException(nameof(options),
@@ -99,7 +101,7 @@ public static class EnsembleRunner
                 grid, quantities, histograms, moments,
                 workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
                 finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed,
-                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray())) { Noise = noise };
+                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()), pairs) { Noise = noise };
         }
 
         // A checkpoint is taken between blocks with every worker held, so it is one consistent state;
@@ -150,10 +152,10 @@ public static class EnsembleRunner
                     var block = sequencer.Rent();
                     if (!worker.RunBlock(block, index, options)) break;
                     MomentAccumulator[]? leaf = null;
-                    if (realQuantities > 0)
+                    if (treeStride > 0)
                     {
                         lock (tree) leaf = tree.RentLeaf();
-                        BlockMoments(block, grid.Count, realQuantities, leaf);
+                        BlockMoments(block, grid.Count, realQuantities, pairs, leaf);
                     }
                     MomentAccumulator[]? noiseLeaf = null;
                     if (noiseTree is not null)
@@ -234,16 +236,26 @@ public static class EnsembleRunner
         throw new EnsembleFailureException(replicate, cause, result);
     }
 
-    /// <summary>Each replicate's real readouts added in replicate order: the leaf of the moment tree for this block.</summary>
-    private static void BlockMoments(ReplicateBlock block, int gridPoints, int realQuantities, MomentAccumulator[] leaf)
+    /// <summary>
+    /// Each replicate's real readouts, then each species pair's sum x + y (exact: counts below 2^53), added in replicate
+    /// order: the leaf of the moment tree for this block.
+    /// </summary>
+    private static void BlockMoments(ReplicateBlock block, int gridPoints, int realQuantities, IReadOnlyList<SpeciesPair> pairs, MomentAccumulator[] leaf)
     {
+        var stride = realQuantities + pairs.Count;
         for (var slot = 0; slot < block.Length; slot++)
         {
             var points = block.RecordedPoints[slot];
             var baseIndex = (long)slot * gridPoints * realQuantities;
+            var counts = block.CountsOf(slot);
             for (var k = 0; k < points; k++)
+            {
                 for (var q = 0; q < realQuantities; q++)
-                    leaf[k * realQuantities + q].Add(block.Reals[baseIndex + k * realQuantities + q]);
+                    leaf[k * stride + q].Add(block.Reals[baseIndex + k * realQuantities + q]);
+                var row = k * block.CountStride;
+                for (var p = 0; p < pairs.Count; p++)
+                    leaf[k * stride + realQuantities + p].Add((double)counts[row + pairs[p].First] + counts[row + pairs[p].Second]);
+            }
         }
     }
 

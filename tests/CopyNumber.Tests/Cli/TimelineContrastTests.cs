@@ -4,7 +4,8 @@ namespace CopyNumber.Tests.Cli;
 
 /// <summary>
 /// Deterministic models with a schedule: the ensemble must equal its rate equations exactly, so the
-/// contrast may say nothing but "adequate" (common practice: nothing in these models is random).
+/// contrast may say nothing but "adequate" (common practice: nothing in these models is random), over the whole run
+/// and in each phase between the schedule's changes.
 /// </summary>
 public sealed class TimelineContrastTests
 {
@@ -22,6 +23,18 @@ public sealed class TimelineContrastTests
         }
         foreach (var word in new[] { "mean shifted", "noise-dominated", "multimodal", "extinction-prone" })
             Assert.DoesNotContain(word, run.Output, StringComparison.Ordinal);
+        // The change cuts the run into two phases, each judged on its own (and the grid time at the change opens the second).
+        Assert.Contains("verdicts per phase of the schedule", run.Output, StringComparison.Ordinal);
+        using var phases = CopyNumber.Storage.ParquetTableReader.Open(Path.Combine(scratch.File("run"), "phases.parquet"));
+        Assert.Equal(quantities.Length * 2, phases.Longs("phase").Length);
+        Assert.All(phases.Strings("verdicts"), v => Assert.Equal("adequate", v));
+        Assert.Equal(0.005, phases.Doubles("false_alarm_rate").Distinct().Single(), 12);
+        using var contrast = CopyNumber.Storage.ParquetTableReader.Open(Path.Combine(scratch.File("run"), "contrast.parquet"));
+        var times = contrast.Doubles("time");
+        var phase = contrast.Longs("phase");
+        var start = phases.Doubles("start").Max();
+        for (var row = 0; row < times.Length; row++)
+            Assert.Equal(times[row] >= start - 1e-9 * start ? 1 : 0, phase[row]);
     }
 
     [Theory]

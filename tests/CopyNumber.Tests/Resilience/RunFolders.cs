@@ -22,7 +22,7 @@ internal static class RunFolders
 
     /// <summary>The files whose every cell must agree between two runs of the same replicates.</summary>
     public static readonly string[] ResultFiles =
-        [RunFiles.Moments, RunFiles.Distributions, RunFiles.ReadoutState, RunFiles.Deterministic];
+        [RunFiles.Moments, RunFiles.Distributions, RunFiles.ReadoutState, RunFiles.Deterministic, RunFiles.Covariances];
 
     public static string WriteModel(ScratchFolder scratch, string text = BurstyGene, string name = "gene.cnet")
     {

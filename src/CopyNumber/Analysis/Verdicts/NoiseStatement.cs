@@ -24,7 +24,7 @@ internal static class NoiseStatement
                     + "no coefficient of variation or Fano factor verdict, since they need a positive quantity (a signed mean can be 0 whatever the noise)";
         }
         if (window.Any(k => double.IsFinite(e.CoefficientOfVariation[k]))) return null;
-        return $"the mean is within {Number(e.Thresholds.Z)} standard errors of 0 at every grid time of the last {Percent(e.Thresholds.LateFraction)} of the run: "
+        return $"the mean is within {Number(e.Thresholds.Z)} standard errors of 0 at every grid time of the last {Percent(e.Thresholds.LateFraction)} of the {e.Stretch}: "
             + "no coefficient of variation or Fano factor verdict, since a ratio to an unresolved mean is not estimated";
     }
 

@@ -34,7 +34,7 @@ internal static class NoiseVerdict
             ? $"; the linear noise approximation gives {Number(Math.Sqrt(last.LnaVariance) / last.RateEquationValue)}" : "";
         var atEnd = double.IsFinite(final) ? $"{Number(final)} at the final time t = {Time(last.Time)}" : $"none at the final time t = {Time(last.Time)}";
         return new QuantityVerdict(e.Quantity, VerdictKind.NoiseDominated,
-            $"coefficient of variation {Number(Median(cvs))}, lower {Level(1 - t.FalseAlarmRate / 2)} confidence bound {Number(bound)}, over the last {Percent(t.LateFraction)} of the run "
+            $"coefficient of variation {Number(Median(cvs))}, lower {Level(1 - t.FalseAlarmRate / 2)} confidence bound {Number(bound)}, over the last {Percent(t.LateFraction)} of the {e.Stretch} "
             + $"(medians of {Count(measured.Length, "grid time", "grid times")} from t = {Time(windowStart)}; {atEnd}{lna}); "
             + $"threshold {Number(t.CoefficientOfVariation)} for the bound, false-alarm rate {Percent(t.FalseAlarmRate)}");
     }
