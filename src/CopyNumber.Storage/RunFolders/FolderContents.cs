@@ -73,8 +73,10 @@ public static class FolderContents
         }
     }
 
+    // A report's figures are PNG files, each with its SVG beside it.
     private static bool IsFigure(string path) =>
-        File.Exists(path) && RunFiles.BaseName(Path.GetFileName(path)).EndsWith(".png", StringComparison.Ordinal);
+        File.Exists(path) && RunFiles.BaseName(Path.GetFileName(path)) is var name
+        && (name.EndsWith(".png", StringComparison.Ordinal) || name.EndsWith(".svg", StringComparison.Ordinal));
 
     private static bool IsClaimFile(string name) => RunFiles.BaseName(name) is RunFiles.Claim or RunFiles.Lock;
 

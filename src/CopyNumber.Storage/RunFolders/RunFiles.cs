@@ -9,7 +9,7 @@ public static class RunFiles
         ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet",
         Joint = "joint.parquet", Noise = "noise.parquet";
 
-    /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files).</summary>
+    /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files, each with its SVG).</summary>
     public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
 
     /// <summary>What <c>contrast</c> adds when the rate equations oscillate or ring: the averaged and LNA spectra, and the per-replicate periods and amplitudes.</summary>
