@@ -15,7 +15,10 @@ public static class ContrastReport
     /// <param name="thresholds">The thresholds the verdicts used, printed beside them.</param>
     /// <param name="histogramTimes">Times for the histogram figures (nearest grid time is used); empty: the middle and the final time.</param>
     /// <param name="heatmapQuantity">The quantity of the heatmap; null: the first species with a verdict other than adequate, else the first species.</param>
-    public static Report Build(RunContrastResult contrast, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity)
+    /// <param name="pair">Two species asked for as a joint histogram, or null.</param>
+    /// <param name="joint">Their joint histogram from the stored paths; null when none was asked for or the run stored no paths.</param>
+    public static Report Build(RunContrastResult contrast, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity,
+        (string First, string Second)? pair = null, PairHistogram? joint = null)
     {
         var run = contrast.Run;
         var times = run.Times;
@@ -111,6 +114,22 @@ public static class ContrastReport
         if (heatmap is not null)
             sections.Add(new ReportSection($"Distribution of {heat} over time", [], [],
                 [new ReportFigure($"{SafeName(heat)}-heatmap.png", $"Probability of each copy number of {heat} over time.", HeatmapFigure.Render(heatmap, 900, 500))]));
+
+        if (pair is { } asked)
+        {
+            if (joint is null)
+                sections.Add(new ReportSection($"Joint histogram of {asked.First} and {asked.Second}",
+                    ["The run stored no paths to count: simulate with --paths N (or 'all') to draw it."], [], []));
+            else
+            {
+                var jointSnapshots = chosenTimes.Select(k => new JointSnapshot(joint.First, joint.Second, times[k], joint.Laws[k], joint.Replicates, timeUnit)).ToList();
+                sections.Add(new ReportSection($"Joint histogram of {joint.First} and {joint.Second}",
+                    [$"Counted over the {joint.Replicates} replicates whose paths were stored (pair.parquet holds every grid time); colours are scaled per time to the largest cell, so each state the pair can be in shows as its own blob, the lighter one holding more replicates."],
+                    [], [new ReportFigure($"{SafeName(joint.First)}-{SafeName(joint.Second)}-joint.png",
+                        $"Joint histogram of {joint.First} (horizontal) and {joint.Second} (vertical) at t = {string.Join(", ", jointSnapshots.Select(s => Format(s.Time)))}; colour: {JointHistogramFigure.ScaleLabel}.",
+                        JointHistogramFigure.Render(jointSnapshots, 900, jointSnapshots.Count > 3 ? 800 : 420))]));
+            }
+        }
 
         return new Report($"CopyNumber contrast: {Path.GetFileNameWithoutExtension(run.Manifest.ModelFile)}", cautions, sections);
     }

@@ -141,7 +141,7 @@ internal static class HeatmapFigure
     /// ScottPlot 5.1 draws nothing for a heat map one cell wide or high (seen in this environment), so a
     /// single row or column is doubled; over the same extent the picture is unchanged.
     /// </summary>
-    private static double[,] AtLeastTwoByTwo(double[,] cells)
+    internal static double[,] AtLeastTwoByTwo(double[,] cells)
     {
         int rows = cells.GetLength(0), columns = cells.GetLength(1);
         int rowRepeat = rows < 2 ? 2 : 1, columnRepeat = columns < 2 ? 2 : 1;

@@ -15,6 +15,9 @@ public static class RunFiles
     /// <summary>What <c>contrast</c> adds when the rate equations oscillate or ring: the averaged and LNA spectra, and the per-replicate periods and amplitudes.</summary>
     public const string OscillationSpectrum = "oscillation-spectrum.parquet", OscillationReplicates = "oscillation-replicates.parquet";
 
+    /// <summary>What <c>contrast --pair A,B</c> adds: the two species' joint histogram over the replicates whose paths are stored (<see cref="JointTable"/>'s columns).</summary>
+    public const string Pair = "pair.parquet";
+
     /// <summary>What a size sweep writes into its folder beside one run folder per size (<see cref="SweepRunPrefix"/><c>&lt;size&gt;</c>) and the two reports.</summary>
     public const string Sweep = "sweep.parquet", SweepRunPrefix = "size-";
 
@@ -44,7 +47,7 @@ public static class RunFiles
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
         Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise,
-        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Claim, Lock,
+        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Pair, Claim, Lock,
     };
 
     /// <summary>Whether <paramref name="name"/> is a file name we write into a run folder: one of <see cref="Known"/> or a temporary sibling of one.</summary>
