@@ -15,7 +15,7 @@ namespace CopyNumber.Reports;
 /// <param name="LnaUpper">Linear noise approximation: rate equation + 2σ at each time; null when not computed.</param>
 /// <param name="SamplePaths">Individual trajectories, each aligned with <paramref name="Time"/>; may be empty. Drawn as piecewise-constant steps, since a jump process holds its count between events.</param>
 /// <param name="TimeUnit">Unit of time shown on the horizontal axis, e.g. "s" or "min".</param>
-/// <param name="CountUnit">Unit of the copy number shown on the vertical axis.</param>
+/// <param name="CountUnit">Unit shown on the vertical axis: "copies" for counts, empty for a real-valued readout.</param>
 /// <remarks>
 /// NaN in any array means "no value here": the point is skipped and a line or band is broken at it
 /// rather than joined across the gap.
@@ -31,4 +31,11 @@ public sealed record BandSeries(
     double[]? LnaUpper,
     IReadOnlyList<double[]> SamplePaths,
     string TimeUnit = "time",
-    string CountUnit = "copies");
+    string CountUnit = "copies")
+{
+    /// <summary>True for a count (a species, or a readout that is an integer combination of species): whole-number ticks.</summary>
+    public bool IsCount { get; init; } = true;
+
+    /// <summary>Times of the schedule's changes (model time units), each marked by a dotted vertical line; empty draws none.</summary>
+    public IReadOnlyList<double> ScheduleChanges { get; init; } = [];
+}

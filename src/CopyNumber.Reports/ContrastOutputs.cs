@@ -19,9 +19,11 @@ public static class ContrastOutputs
     /// <param name="histogramTimes">Times whose histograms the report draws.</param>
     /// <param name="heatmapQuantity">The quantity drawn as a heatmap, or null.</param>
     /// <param name="takeOver">Take over a claim on the folder by a run on another host (or one that ended without releasing it).</param>
+    /// <param name="pair">Two species whose joint histogram is written (pair.parquet) and drawn at the histogram times, or null.</param>
     /// <returns>The contrast and the files written.</returns>
     public static (RunContrastResult Contrast, IReadOnlyList<string> Files) Write(
-        string folder, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity, bool takeOver = false)
+        string folder, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity, bool takeOver = false,
+        (string First, string Second)? pair = null)
     {
         using var claim = FolderClaim.Take(folder, "contrast", takeOverStale: false, takeOver);
         var run = RunFolder.Read(folder);
@@ -48,7 +50,14 @@ public static class ContrastOutputs
             OscillationReplicatesTable.Write(replicates, oscillation, metadata);
             written.AddRange([spectrum, replicates]);
         }
-        var report = ContrastReport.Build(contrast, thresholds, histogramTimes, heatmapQuantity);
+        PairHistogram? joint = null;
+        if (pair is { } chosen && (joint = PairHistogram.Of(run, chosen.First, chosen.Second)) is not null)
+        {
+            var pairFile = Path.Combine(folder, RunFiles.Pair);
+            JointTable.Write(pairFile, joint.First, joint.Second, run.Times, joint.Laws, metadata);
+            written.Add(pairFile);
+        }
+        var report = ContrastReport.Build(contrast, thresholds, histogramTimes, heatmapQuantity, pair, joint);
         var markdown = ReportWriter.WriteMarkdown(report, folder, MarkdownFile);
         var html = Path.Combine(folder, HtmlFile);
         ReportWriter.WriteHtml(report, html);

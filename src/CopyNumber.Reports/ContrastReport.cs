@@ -15,7 +15,10 @@ public static class ContrastReport
     /// <param name="thresholds">The thresholds the verdicts used, printed beside them.</param>
     /// <param name="histogramTimes">Times for the histogram figures (nearest grid time is used); empty: the middle and the final time.</param>
     /// <param name="heatmapQuantity">The quantity of the heatmap; null: the first species with a verdict other than adequate, else the first species.</param>
-    public static Report Build(RunContrastResult contrast, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity)
+    /// <param name="pair">Two species asked for as a joint histogram, or null.</param>
+    /// <param name="joint">Their joint histogram from the stored paths; null when none was asked for or the run stored no paths.</param>
+    public static Report Build(RunContrastResult contrast, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity,
+        (string First, string Second)? pair = null, PairHistogram? joint = null)
     {
         var run = contrast.Run;
         var times = run.Times;
@@ -54,6 +57,7 @@ public static class ContrastReport
         if (ExactCheckSection.For(run.Manifest) is { } exactCheck) sections.Add(exactCheck);
         var chosenTimes = ChooseTimes(times, histogramTimes);
         var timeUnit = TimeUnit(run.Manifest);
+        var scheduleChanges = ScheduleMarks.Of(contrast.Network, RunContrast.Grid(run));
         foreach (var q in contrast.Quantities)
         {
             var series = run.Quantities.First(s => s.Name == q.Name);
@@ -65,20 +69,31 @@ public static class ContrastReport
                 (lnaLower, lnaUpper, lnaClipped) = LnaBand.Of(contrast.Expansion!.RateEquationColumn(lnaColumn), contrast.Expansion.VarianceColumn(lnaColumn),
                     isSpecies: contrast.Network.Species.Contains(q.Name));
             var safe = SafeName(q.Name);
+            var isCount = IsCount(contrast.Network, q.Name);
+            var countUnit = isCount ? "copies" : "";
             var band = new BandSeries(q.Name, times, series.Mean, series.Quantile05, series.Quantile95, series.Deterministic,
-                lnaLower, lnaUpper, run.SamplePaths(q.Name, 5)) { TimeUnit = timeUnit };
+                lnaLower, lnaUpper, run.SamplePaths(q.Name, 5)) { TimeUnit = timeUnit, CountUnit = countUnit, IsCount = isCount, ScheduleChanges = scheduleChanges };
             figures.Add(new ReportFigure($"{safe}-mean.png",
-                $"{q.Name}: ensemble mean with its 5–95% band, the rate equations{(lnaColumn >= 0 ? " and the LNA ±2σ band" : "")}.{(lnaClipped ? LnaBand.ClippedNote : "")}", Figures.MeanWithBands(band)));
+                $"{q.Name}: ensemble mean with its 5–95% band, the rate equations{(lnaColumn >= 0 ? " and the LNA ±2σ band" : "")}.{(lnaClipped ? LnaBand.ClippedNote : "")}",
+                MeanBandFigure.Render(band, 900, 500)));
+
+            if (q.Deviations.Any(d => double.IsFinite(d.Relative)))
+                figures.Add(new ReportFigure($"{safe}-deviation.png",
+                    $"{q.Name}: relative deviation of the ensemble mean from the rate equations over time, with its ±{Format(thresholds.Z)} standard-error band "
+                    + $"and the verdict's threshold ±{Percent(thresholds.RelativeDeviation)} (no value where the rate equations lie below {Format(thresholds.DeterministicFloor)}).",
+                    FigureLook.Render(DeviationFigure.Build(q.Name, [.. q.Times], q.Deviations.Select(d => d.Relative).ToArray(),
+                        q.Deviations.Select(d => d.RelativeHalfWidth).ToArray(), thresholds.RelativeDeviation, thresholds.Z, timeUnit, scheduleChanges), 900, 450)));
 
             var snapshots = chosenTimes
                 .Select(k => (k, run.Distribution(q.Name, k)))
                 .Where(p => p.Item2.Counts.Length > 0)
-                .Select(p => new HistogramSnapshot(q.Name, times[p.k], p.Item2.Counts, p.Item2.Probabilities, series.Deterministic[p.k]) { TimeUnit = timeUnit })
+                .Select(p => new HistogramSnapshot(q.Name, times[p.k], p.Item2.Counts, p.Item2.Probabilities, series.Deterministic[p.k])
+                    { TimeUnit = timeUnit, CountUnit = countUnit, IsCount = isCount })
                 .ToList();
             if (snapshots.Count > 0)
                 figures.Add(new ReportFigure($"{safe}-histograms.png",
-                    $"{q.Name}: distribution of copy numbers at t = {string.Join(", ", snapshots.Select(s => Format(s.Time)))}, rate-equation value marked.",
-                    Figures.Histograms(snapshots)));
+                    $"{q.Name}: distribution {(isCount ? "of copy numbers " : "")}at t = {string.Join(", ", snapshots.Select(s => Format(s.Time)))}, rate-equation value marked.",
+                    HistogramFigure.Render(snapshots, 900, 500)));
 
             var sentences = q.Verdicts.Select(v => $"{v.Label}: {v.Sentence}").ToList();
             if (q.LargestResolvedRelativeDeviation is { } largest)
@@ -96,10 +111,27 @@ public static class ContrastReport
                 .OrderByDescending(q => run.Distribution(q.Name, times.Length - 1).Counts[^1]) // the widest distribution shows most
                 .FirstOrDefault()?.Name
             ?? contrast.Network.Species[0];
-        var heatmap = Heatmap(run, heat);
+        var heatmap = Heatmap(run, heat) is { } map ? map with { CountUnit = IsCount(contrast.Network, heat) ? "copies" : "" } : null;
+        if (heatmap is not null) heatmap = heatmap with { ScheduleChanges = scheduleChanges };
         if (heatmap is not null)
             sections.Add(new ReportSection($"Distribution of {heat} over time", [], [],
-                [new ReportFigure($"{SafeName(heat)}-heatmap.png", $"Probability of each copy number of {heat} over time.", Figures.Heatmap(heatmap))]));
+                [new ReportFigure($"{SafeName(heat)}-heatmap.png", $"Probability of each copy number of {heat} over time.", HeatmapFigure.Render(heatmap, 900, 500))]));
+
+        if (pair is { } asked)
+        {
+            if (joint is null)
+                sections.Add(new ReportSection($"Joint histogram of {asked.First} and {asked.Second}",
+                    ["The run stored no paths to count: simulate with --paths N (or 'all') to draw it."], [], []));
+            else
+            {
+                var jointSnapshots = chosenTimes.Select(k => new JointSnapshot(joint.First, joint.Second, times[k], joint.Laws[k], joint.Replicates, timeUnit)).ToList();
+                sections.Add(new ReportSection($"Joint histogram of {joint.First} and {joint.Second}",
+                    [$"Counted over the {joint.Replicates} replicates whose paths were stored (pair.parquet holds every grid time); colours are scaled per time to the largest cell, so each state the pair can be in shows as its own blob, the lighter one holding more replicates."],
+                    [], [new ReportFigure($"{SafeName(joint.First)}-{SafeName(joint.Second)}-joint.png",
+                        $"Joint histogram of {joint.First} (horizontal) and {joint.Second} (vertical) at t = {string.Join(", ", jointSnapshots.Select(s => Format(s.Time)))}; colour: {JointHistogramFigure.ScaleLabel}.",
+                        JointHistogramFigure.Render(jointSnapshots, 900, jointSnapshots.Count > 3 ? 800 : 420))]));
+            }
+        }
 
         return new Report($"CopyNumber contrast: {Path.GetFileNameWithoutExtension(run.Manifest.ModelFile)}", cautions, sections);
     }
@@ -165,6 +197,10 @@ public static class ContrastReport
     /// <summary>The model's declared time unit from the manifest (<see cref="Storage.ManifestFields.TimeUnit"/>), or "time" (no unit shown) when it declares none.</summary>
     private static string TimeUnit(Storage.RunManifest manifest) =>
         manifest.Extra.TryGetValue(Storage.ManifestFields.TimeUnit, out var unit) && unit?.ToString() is { Length: > 0 } text ? text : "time";
+
+    /// <summary>A species, or a readout that is an integer combination of species (<see cref="Network.Readout.IsCount"/>): its axis says "copies".</summary>
+    internal static bool IsCount(Network.ReactionNetwork network, string name) =>
+        network.SpeciesIndex(name) >= 0 || network.Readouts.Any(r => r.Name == name && r.IsCount);
 
     private static int[] ChooseTimes(double[] times, IReadOnlyList<double> requested)
     {

@@ -10,10 +10,10 @@ internal static class CycleFigure
 {
     public const int PathsDrawn = 4;
 
-    public static byte[] Render(string species, double start, double step, IReadOnlyList<double[]> paths, double[] rateEquations, string timeUnit, int width = 900, int height = 500)
+    public static FigureImage Render(string species, double start, double step, IReadOnlyList<double[]> paths, double[] rateEquations, string timeUnit, int width = 900, int height = 500)
     {
         FigureLook.CheckSize(width, height);
-        var plot = FigureLook.NewPlot($"{species}: sample paths and the rate equations", timeUnit, "copies");
+        var plot = FigureLook.NewPlot($"{species}: sample paths and the rate equations", FigureLook.Labelled("time", timeUnit), FigureLook.Labelled(species, "copies"));
         var times = Enumerable.Range(0, rateEquations.Length).Select(k => start + k * step).ToArray();
         for (var r = 0; r < Math.Min(PathsDrawn, paths.Count); r++)
         {
@@ -24,7 +24,7 @@ internal static class CycleFigure
         var cycle = plot.Add.ScatterLine(times, rateEquations, Palette.RateEquation);
         cycle.LineWidth = 2.5f;
         cycle.LegendText = "rate equations";
-        plot.ShowLegend(Alignment.UpperRight);
-        return FigureLook.ToPng(plot, width, height);
+        FigureLook.LegendOutside(plot);
+        return FigureLook.Render(plot, width, height);
     }
 }

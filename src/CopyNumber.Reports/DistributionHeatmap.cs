@@ -23,4 +23,8 @@ public sealed record DistributionHeatmap(
     double[,] Probability,
     double[]? RateEquation = null,
     string TimeUnit = "time",
-    string CountUnit = "copies");
+    string CountUnit = "copies")
+{
+    /// <summary>Times of the schedule's changes (model time units), each marked by a dotted vertical line; empty draws none.</summary>
+    public IReadOnlyList<double> ScheduleChanges { get; init; } = [];
+}

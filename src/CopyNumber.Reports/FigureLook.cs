@@ -85,28 +85,67 @@ internal static class FigureLook
         note.LabelStyle.ShadowColor = Colors.Transparent;
     }
 
-    public static byte[] ToPng(Plot plot, int width, int height) => ToPng([plot], 1, width, height);
+    public static FigureImage Render(Plot plot, int width, int height) => Render([plot], 1, width, height);
 
-    /// <summary>Panels laid out row by row, <paramref name="columns"/> to a row, filling width × height.</summary>
-    public static byte[] ToPng(IReadOnlyList<Plot> panels, int columns, int width, int height)
+    /// <summary>
+    /// Panels laid out row by row, <paramref name="columns"/> to a row, filling width × height, drawn twice from the
+    /// same plots: once to PNG for the reports, once to SVG (vector, for papers).
+    /// </summary>
+    public static FigureImage Render(IReadOnlyList<Plot> panels, int columns, int width, int height)
+    {
+        using var surface = SKSurface.Create(new SKImageInfo(width, height, SKColorType.Rgba8888, SKAlphaType.Premul))
+            ?? throw new ReportException($"Could not allocate a {width} × {height} image for a figure.");
+        Draw(surface.Canvas, panels, columns, width, height);
+        using var image = surface.Snapshot();
+        using var png = image.Encode(SKEncodedImageFormat.Png, 100);
+
+        using var svgStream = new MemoryStream();
+        using (var svgCanvas = SKSvgCanvas.Create(new SKRect(0, 0, width, height), svgStream))
+            Draw(svgCanvas, panels, columns, width, height); // the SVG is complete once its canvas is disposed
+        return new FigureImage(png.ToArray(), System.Text.Encoding.UTF8.GetString(svgStream.ToArray()));
+    }
+
+    private static void Draw(SKCanvas canvas, IReadOnlyList<Plot> panels, int columns, int width, int height)
     {
         int rows = (panels.Count + columns - 1) / columns;
         float cellWidth = (float)width / columns, cellHeight = (float)height / rows;
-        using var surface = SKSurface.Create(new SKImageInfo(width, height, SKColorType.Rgba8888, SKAlphaType.Premul))
-            ?? throw new ReportException($"Could not allocate a {width} × {height} image for a figure.");
-        surface.Canvas.Clear(SKColors.White);
+        canvas.Clear(SKColors.White);
         for (int i = 0; i < panels.Count; i++)
         {
             float left = i % columns * cellWidth, top = i / columns * cellHeight;
             // A plot clears the canvas before drawing; the clip keeps it from erasing its neighbours.
-            surface.Canvas.Save();
-            surface.Canvas.ClipRect(new SKRect(left, top, left + cellWidth, top + cellHeight));
-            panels[i].Render(surface.Canvas, new PixelRect(left, left + cellWidth, top + cellHeight, top));
-            surface.Canvas.Restore();
+            canvas.Save();
+            canvas.ClipRect(new SKRect(left, top, left + cellWidth, top + cellHeight));
+            panels[i].Render(canvas, new PixelRect(left, left + cellWidth, top + cellHeight, top));
+            canvas.Restore();
         }
-        using var image = surface.Snapshot();
-        using var png = image.Encode(SKEncodedImageFormat.Png, 100);
-        return png.ToArray();
+    }
+
+    /// <summary>
+    /// Every legend sits outside the data, in a panel to the right of it, so no legend ever hides a point or a line
+    /// (issue 16: the histograms' legend covered the rate-equation line, the sweep's a point).
+    /// </summary>
+    public static void LegendOutside(Plot plot, Edge edge = Edge.Right)
+    {
+        plot.ShowLegend(edge);
+        plot.Legend.Orientation = edge is Edge.Top or Edge.Bottom ? Orientation.Horizontal : Orientation.Vertical;
+    }
+
+    /// <summary>
+    /// A time axis: "time (unit)" and a thin dotted vertical line at every schedule change inside the shown times, the
+    /// first one named in the legend. The change times come from the network's <c>Timeline</c> (<see cref="ScheduleMarks"/>).
+    /// </summary>
+    public static void TimeAxis(Plot plot, IAxis axis, string? timeUnit, IReadOnlyList<double> scheduleChanges, double from, double to)
+    {
+        axis.Label.Text = Labelled("time", timeUnit);
+        bool named = false;
+        foreach (double t in scheduleChanges)
+        {
+            if (!(t > from) || !(t <= to)) continue;
+            var line = plot.Add.VerticalLine(t, 1.5f, Palette.Schedule, LinePattern.Dotted);
+            if (!named) line.LegendText = "schedule change";
+            named = true;
+        }
     }
 
     private static bool SafeFontExists(string name)

@@ -20,7 +20,7 @@ public static class Figures
     /// <param name="height">Image height in pixels.</param>
     /// <returns>PNG bytes.</returns>
     public static byte[] MeanWithBands(BandSeries series, int width = 900, int height = 500) =>
-        MeanBandFigure.Render(series, width, height);
+        MeanBandFigure.Render(series, width, height).Png;
 
     /// <summary>
     /// One panel per snapshot (laid out in a grid, all panels on the same axes), each a bar chart of
@@ -32,7 +32,7 @@ public static class Figures
     /// <param name="height">Image height in pixels.</param>
     /// <returns>PNG bytes.</returns>
     public static byte[] Histograms(IReadOnlyList<HistogramSnapshot> snapshots, int width = 900, int height = 500) =>
-        HistogramFigure.Render(snapshots, width, height);
+        HistogramFigure.Render(snapshots, width, height).Png;
 
     /// <summary>
     /// Probability of each copy number over time on the viridis colour map, with a colour bar labelled
@@ -44,7 +44,7 @@ public static class Figures
     /// <param name="height">Image height in pixels.</param>
     /// <returns>PNG bytes.</returns>
     public static byte[] Heatmap(DistributionHeatmap heatmap, int width = 900, int height = 500) =>
-        HeatmapFigure.Render(heatmap, width, height);
+        HeatmapFigure.Render(heatmap, width, height).Png;
 
     /// <summary>
     /// Relative deviation from the rate equation against system size on log–log axes (decade ticks), one
@@ -60,5 +60,5 @@ public static class Figures
     /// <returns>PNG bytes.</returns>
     public static byte[] SweepLogLog(IReadOnlyList<SweepSeries> series, int width = 900, int height = 500,
         string sizeLabel = "system size Ω", string deviationLabel = "relative deviation from rate equation") =>
-        SweepFigure.Render(series, width, height, sizeLabel, deviationLabel);
+        SweepFigure.Render(series, width, height, sizeLabel, deviationLabel).Png;
 }

@@ -20,9 +20,15 @@ internal static class HeatmapFigure
     /// <summary>The colour bar's label: which scale the colours are on.</summary>
     internal const string PerTimeScaleLabel = "probability ÷ largest at that time";
 
-    public static byte[] Render(DistributionHeatmap h, int width, int height)
+    public static FigureImage Render(DistributionHeatmap h, int width, int height)
     {
         FigureLook.CheckSize(width, height);
+        return FigureLook.Render(Build(h), width, height);
+    }
+
+    /// <summary>The plot, not yet rendered.</summary>
+    internal static Plot Build(DistributionHeatmap h)
+    {
         Check(h);
         var plot = FigureLook.NewPlot(h.Species, FigureLook.Labelled("time", h.TimeUnit), FigureLook.Labelled(h.Species, h.CountUnit));
 
@@ -65,10 +71,11 @@ internal static class HeatmapFigure
 
         bool drewRateEquation = h.RateEquation is not null && MeanBandFigure.Lines(plot, h.Time, h.RateEquation,
             Palette.RateEquation, 2.5f, LinePattern.Solid, ConnectStyle.Straight, "rate equation", MarkerShape.FilledDiamond);
-        if (drewRateEquation) plot.ShowLegend(Alignment.UpperLeft);
+        FigureLook.TimeAxis(plot, plot.Axes.Bottom, h.TimeUnit, h.ScheduleChanges, left, right);
+        if (drewRateEquation || h.ScheduleChanges.Count > 0) FigureLook.LegendOutside(plot);
         if (!anyFinite && !drewRateEquation) FigureLook.NoDataNote(plot, "no finite probabilities to draw");
         if (anyFinite) plot.Axes.SetLimits(left, right, h.MinCount - 0.5, h.MaxCount + 0.5);
-        return FigureLook.ToPng(plot, width, height);
+        return plot;
     }
 
     private static void Check(DistributionHeatmap h)
@@ -134,7 +141,7 @@ internal static class HeatmapFigure
     /// ScottPlot 5.1 draws nothing for a heat map one cell wide or high (seen in this environment), so a
     /// single row or column is doubled; over the same extent the picture is unchanged.
     /// </summary>
-    private static double[,] AtLeastTwoByTwo(double[,] cells)
+    internal static double[,] AtLeastTwoByTwo(double[,] cells)
     {
         int rows = cells.GetLength(0), columns = cells.GetLength(1);
         int rowRepeat = rows < 2 ? 2 : 1, columnRepeat = columns < 2 ? 2 : 1;

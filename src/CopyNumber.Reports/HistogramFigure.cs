@@ -9,9 +9,16 @@ namespace CopyNumber.Reports;
 /// </summary>
 internal static class HistogramFigure
 {
-    public static byte[] Render(IReadOnlyList<HistogramSnapshot> snapshots, int width, int height)
+    public static FigureImage Render(IReadOnlyList<HistogramSnapshot> snapshots, int width, int height)
     {
         FigureLook.CheckSize(width, height);
+        var (panels, columns) = Build(snapshots, width, height);
+        return FigureLook.Render(panels, columns, width, height);
+    }
+
+    /// <summary>The panels, not yet rendered, and how many go to a row.</summary>
+    internal static (List<Plot> Panels, int Columns) Build(IReadOnlyList<HistogramSnapshot> snapshots, int width, int height)
+    {
         InputChecks.NotNull(snapshots, "The list of histogram snapshots");
         foreach (var snap in snapshots) Check(snap);
 
@@ -19,7 +26,7 @@ internal static class HistogramFigure
         {
             var empty = FigureLook.NewPlot("copy-number distribution", "copy number (copies)", "probability");
             FigureLook.NoDataNote(empty, "no snapshots to draw");
-            return FigureLook.ToPng(empty, width, height);
+            return ([empty], 1);
         }
 
         int columns = snapshots.Count <= 3 ? snapshots.Count : (int)Math.Ceiling(Math.Sqrt(snapshots.Count));
@@ -30,8 +37,8 @@ internal static class HistogramFigure
 
         var panels = new List<Plot>(snapshots.Count);
         for (int k = 0; k < snapshots.Count; k++)
-            panels.Add(Panel(snapshots[k], limits, scale, showLegend: k == 0));
-        return FigureLook.ToPng(panels, columns, width, height);
+            panels.Add(Panel(snapshots[k], limits, scale));
+        return (panels, columns);
     }
 
     private static void Check(HistogramSnapshot snap)
@@ -42,14 +49,14 @@ internal static class HistogramFigure
         InputChecks.Aligned(owner, nameof(snap.Probabilities), snap.Probabilities, snap.Counts.Length, nameof(snap.Counts));
     }
 
-    private static Plot Panel(HistogramSnapshot snap, AxisLimits? limits, float scale, bool showLegend)
+    private static Plot Panel(HistogramSnapshot snap, AxisLimits? limits, float scale)
     {
         string time = snap.Time.ToString("G4", CultureInfo.InvariantCulture);
         string unit = string.IsNullOrWhiteSpace(snap.TimeUnit) || snap.TimeUnit == "time" ? "" : " " + snap.TimeUnit;
         var plot = FigureLook.NewPlot($"{snap.Species} at t = {time}{unit}",
             FigureLook.Labelled(snap.Species, snap.CountUnit), "probability", scale);
 
-        FigureLook.CountAxis(plot.Axes.Bottom);
+        if (snap.IsCount) FigureLook.CountAxis(plot.Axes.Bottom);
         var bars = new List<Bar>();
         double barWidth = 0.8 * Math.Min(1.0, SmallestGap(snap.Counts));
         for (int i = 0; i < snap.Counts.Length; i++)
@@ -75,10 +82,9 @@ internal static class HistogramFigure
 
         if (bars.Count == 0 && !double.IsFinite(snap.RateEquationValue))
             FigureLook.NoDataNote(plot, "no finite values to draw", scale);
-        else if (showLegend)
-            plot.ShowLegend(Alignment.UpperRight);
         else
-            plot.HideLegend(); // one legend serves every panel
+            // Below each panel rather than beside it: panels share their axes, so every panel keeps the same data area.
+            FigureLook.LegendOutside(plot, Edge.Bottom);
         if (limits is { } l) plot.Axes.SetLimits(l);
         return plot;
     }
@@ -114,7 +120,7 @@ internal static class HistogramFigure
         }
         if (!double.IsFinite(xMin)) return null;
         double pad = Math.Max(1.0, 0.04 * (xMax - xMin));
-        double top = yMax > 0 ? 1.12 * yMax : 1.0; // head room for the legend
+        double top = yMax > 0 ? 1.05 * yMax : 1.0;
         return new AxisLimits(xMin - pad, xMax + pad, yMin, top);
     }
 }

@@ -9,7 +9,7 @@ namespace CopyNumber.Reports;
 /// <param name="Probabilities">Probability of each entry of <paramref name="Counts"/>, aligned with it; NaN entries are skipped.</param>
 /// <param name="RateEquationValue">Rate-equation copy number at <paramref name="Time"/>, drawn as a vertical line; NaN draws none.</param>
 /// <param name="TimeUnit">Unit of <paramref name="Time"/> shown in the panel title.</param>
-/// <param name="CountUnit">Unit of the copy number shown on the horizontal axis.</param>
+/// <param name="CountUnit">Unit shown on the horizontal axis: "copies" for counts, empty for a real-valued readout.</param>
 public sealed record HistogramSnapshot(
     string Species,
     double Time,
@@ -17,4 +17,8 @@ public sealed record HistogramSnapshot(
     double[] Probabilities,
     double RateEquationValue,
     string TimeUnit = "time",
-    string CountUnit = "copies");
+    string CountUnit = "copies")
+{
+    /// <summary>True for a count (whole-number ticks); false for a real-valued readout.</summary>
+    public bool IsCount { get; init; } = true;
+}

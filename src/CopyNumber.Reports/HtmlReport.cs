@@ -51,6 +51,14 @@ internal static class HtmlReport
             html.Append("<section>\n<h2>").Append(Escape(section.Heading)).Append("</h2>\n");
             foreach (string paragraph in section.Paragraphs) html.Append("<p>").Append(Escape(paragraph)).Append("</p>\n");
             foreach (var table in section.Tables) AppendTable(html, table);
+            if (section.Links.Count > 0)
+            {
+                html.Append("<ul>\n");
+                foreach (var link in section.Links)
+                    html.Append("<li><a href=\"").Append(Escape(link.Folder)).Append('/').Append(Storage.RunFiles.ReportHtml).Append("\">")
+                        .Append(Escape(link.Text)).Append("</a></li>\n");
+                html.Append("</ul>\n");
+            }
             foreach (var figure in section.Figures) AppendFigure(html, figure);
             html.Append("</section>\n");
         }
@@ -82,7 +90,11 @@ internal static class HtmlReport
             .Append(" width=\"").Append(width.ToString(CultureInfo.InvariantCulture)).Append('"')
             .Append(" height=\"").Append(height.ToString(CultureInfo.InvariantCulture)).Append('"')
             .Append(" src=\"data:image/png;base64,").Append(Convert.ToBase64String(figure.Png)).Append("\" />\n");
-        html.Append("<figcaption>").Append(Escape(figure.Caption)).Append("</figcaption>\n</figure>\n");
+        html.Append("<figcaption>").Append(Escape(figure.Caption));
+        // The SVG is a file beside the report (figures/, written with the Markdown), linked rather than embedded.
+        if (figure.Svg is not null)
+            html.Append(" <a href=\"").Append(ReportWriter.FigureFolder).Append('/').Append(Escape(figure.SvgFileName)).Append("\">SVG</a>");
+        html.Append("</figcaption>\n</figure>\n");
     }
 
     /// <summary>

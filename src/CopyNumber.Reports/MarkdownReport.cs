@@ -25,12 +25,17 @@ internal static class MarkdownReport
             md.Append("## ").Append(Inline(section.Heading)).Append("\n\n");
             foreach (string paragraph in section.Paragraphs) md.Append(Inline(paragraph)).Append("\n\n");
             foreach (var table in section.Tables) AppendTable(md, table);
+            foreach (var link in section.Links)
+                md.Append("- [").Append(Inline(link.Text)).Append("](").Append(link.Folder).Append('/').Append(Storage.RunFiles.ReportMarkdown).Append(")\n");
+            if (section.Links.Count > 0) md.Append('\n');
             foreach (var figure in section.Figures)
             {
                 // File names are restricted to [A-Za-z0-9._-], so the link needs no escaping.
                 md.Append("![").Append(Inline(figure.Alt)).Append("](").Append(figureFolder).Append('/')
                   .Append(figure.FileName).Append(")\n\n");
-                md.Append('*').Append(Inline(figure.Caption)).Append("*\n\n");
+                md.Append('*').Append(Inline(figure.Caption)).Append('*');
+                if (figure.Svg is not null) md.Append(" [SVG](").Append(figureFolder).Append('/').Append(figure.SvgFileName).Append(')');
+                md.Append("\n\n");
             }
         }
         return md.ToString();

@@ -10,12 +10,18 @@ namespace CopyNumber.Reports;
 /// </summary>
 internal static class MeanBandFigure
 {
-    public static byte[] Render(BandSeries s, int width, int height)
+    public static FigureImage Render(BandSeries s, int width, int height)
     {
         FigureLook.CheckSize(width, height);
+        return FigureLook.Render(Build(s), width, height);
+    }
+
+    /// <summary>The plot, not yet rendered (tests read its layout after rendering it).</summary>
+    internal static Plot Build(BandSeries s)
+    {
         Check(s);
         var plot = FigureLook.NewPlot(s.Species, FigureLook.Labelled("time", s.TimeUnit), FigureLook.Labelled(s.Species, s.CountUnit));
-        FigureLook.CountAxis(plot.Axes.Left);
+        if (s.IsCount) FigureLook.CountAxis(plot.Axes.Left);
         double[] t = s.Time;
         bool drewAny = false;
 
@@ -44,9 +50,12 @@ internal static class MeanBandFigure
         drewAny |= Lines(plot, t, s.Mean, Palette.EnsembleMean, 3f, LinePattern.Solid, ConnectStyle.Straight, "ensemble mean",
             MarkerShape.FilledCircle);
 
-        if (drewAny) plot.ShowLegend(Edge.Right);
+        var finiteTimes = t.Where(double.IsFinite).ToArray();
+        if (finiteTimes.Length > 0)
+            FigureLook.TimeAxis(plot, plot.Axes.Bottom, s.TimeUnit, s.ScheduleChanges, finiteTimes.Min(), finiteTimes.Max());
+        if (drewAny) FigureLook.LegendOutside(plot);
         else FigureLook.NoDataNote(plot, "no finite values to draw");
-        return FigureLook.ToPng(plot, width, height);
+        return plot;
     }
 
     private static void Check(BandSeries s)

@@ -33,6 +33,12 @@ internal static class Palette
     /// <summary>Deterministic and linear-noise results: vermillion family.</summary>
     public static readonly Color RateEquation = Vermillion;
 
+    /// <summary>Schedule changes on a time axis: dotted, in a hue no time figure uses for data.</summary>
+    public static readonly Color Schedule = ReddishPurple;
+
+    /// <summary>Verdict thresholds: dashed, neutral.</summary>
+    public static readonly Color Threshold = Black;
+
     /// <summary>Series colours in order of use; yellow is left out, it is too pale on white for lines.</summary>
     public static readonly Color[] Series = [Blue, Vermillion, BluishGreen, ReddishPurple, Orange, SkyBlue, Black];
 

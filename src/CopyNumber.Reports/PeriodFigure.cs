@@ -5,10 +5,10 @@ namespace CopyNumber.Reports;
 /// <summary>The distribution of the replicates' periods (a histogram of counts) with the rate equations' period marked.</summary>
 internal static class PeriodFigure
 {
-    public static byte[] Render(string species, IReadOnlyList<double> periods, double rateEquationPeriod, string timeUnit, int width = 900, int height = 500)
+    public static FigureImage Render(string species, IReadOnlyList<double> periods, double rateEquationPeriod, string timeUnit, int width = 900, int height = 500)
     {
         FigureLook.CheckSize(width, height);
-        var plot = FigureLook.NewPlot($"{species}: period of each replicate", $"period ({timeUnit})", "replicates");
+        var plot = FigureLook.NewPlot($"{species}: period of each replicate", FigureLook.Labelled("period", timeUnit), "replicates");
         var finite = periods.Where(double.IsFinite).ToArray();
         if (finite.Length > 0)
         {
@@ -27,7 +27,7 @@ internal static class PeriodFigure
             var line = plot.Add.VerticalLine(rateEquationPeriod, 2.5f, Palette.RateEquation);
             line.LegendText = "rate equations";
         }
-        plot.ShowLegend(Alignment.UpperRight);
-        return FigureLook.ToPng(plot, width, height);
+        FigureLook.LegendOutside(plot);
+        return FigureLook.Render(plot, width, height);
     }
 }

@@ -8,6 +8,10 @@ internal static partial class ReportChecks
     [GeneratedRegex(@"^[A-Za-z0-9][A-Za-z0-9._-]*\.png$", RegexOptions.IgnoreCase | RegexOptions.CultureInvariant)]
     private static partial Regex FigureFileName();
 
+    // Relative folders only, no "..": a link stays inside the report's folder.
+    [GeneratedRegex(@"^[A-Za-z0-9][A-Za-z0-9._-]*(/[A-Za-z0-9][A-Za-z0-9._-]*)*$", RegexOptions.CultureInvariant)]
+    private static partial Regex LinkFolder();
+
     public static void Validate(Report report)
     {
         InputChecks.NotNull(report, "The report");
@@ -28,6 +32,10 @@ internal static partial class ReportChecks
             if (section.Paragraphs.Any(p => p is null)) throw new ReportException($"{where}: a paragraph is missing (null).");
             for (int t = 0; t < section.Tables.Count; t++) CheckTable(section.Tables[t], $"{where}, table {t + 1}");
             foreach (var figure in section.Figures) CheckFigure(figure, where, fileNames);
+            InputChecks.NotNull(section.Links, $"{where}: the list of links");
+            foreach (var link in section.Links)
+                if (link?.Text is null || link.Folder is null || !LinkFolder().IsMatch(link.Folder))
+                    throw new ReportException($"{where}: a link to '{link?.Folder}' is not a relative folder of letters, digits, '.', '_' and '-'.");
         }
     }
 

@@ -11,6 +11,16 @@ namespace CopyNumber.Reports;
 /// <param name="AltText">Text alternative for readers who cannot see the image; the caption when null.</param>
 public sealed record ReportFigure(string FileName, string Caption, byte[] Png, string? AltText = null)
 {
+    /// <summary>A figure drawn as PNG and SVG; the SVG is written beside the PNG under the same name ending in ".svg".</summary>
+    public ReportFigure(string fileName, string caption, FigureImage image, string? altText = null) : this(fileName, caption, image.Png, altText) =>
+        Svg = image.Svg;
+
+    /// <summary>The same figure as an SVG document, for papers; null when the figure has none.</summary>
+    public string? Svg { get; init; }
+
+    /// <summary>The SVG's file name: <see cref="FileName"/> with ".svg" in place of ".png".</summary>
+    public string SvgFileName => Path.ChangeExtension(FileName, ".svg");
+
     /// <summary>The text alternative actually used: <see cref="AltText"/> or else <see cref="Caption"/>.</summary>
     public string Alt => string.IsNullOrWhiteSpace(AltText) ? Caption : AltText;
 }

@@ -1,7 +1,7 @@
 namespace CopyNumber.Reports;
 
 /// <summary>
-/// One section of a report, shown in this order: heading, paragraphs, tables, figures.
+/// One section of a report, shown in this order: heading, paragraphs, tables, links, figures.
 /// </summary>
 /// <param name="Heading">Section heading (plain text).</param>
 /// <param name="Paragraphs">Paragraphs of plain text; a line break inside one is shown as a space.</param>
@@ -11,4 +11,8 @@ public sealed record ReportSection(
     string Heading,
     IReadOnlyList<string> Paragraphs,
     IReadOnlyList<ReportTable> Tables,
-    IReadOnlyList<ReportFigure> Figures);
+    IReadOnlyList<ReportFigure> Figures)
+{
+    /// <summary>Links to other runs' reports, shown as a list after the tables; empty by default.</summary>
+    public IReadOnlyList<ReportLink> Links { get; init; } = [];
+}

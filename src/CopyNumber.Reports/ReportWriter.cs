@@ -26,8 +26,8 @@ public static class ReportWriter
 
     /// <summary>
     /// Writes <paramref name="fileName"/> in <paramref name="folder"/> (both created if missing) and every
-    /// figure as <c>figures/&lt;FileName&gt;</c> beside it, linked by relative paths so the folder can be
-    /// moved as a whole. Returns the full path of the Markdown file.
+    /// figure as <c>figures/&lt;FileName&gt;</c> beside it (and its SVG, when it has one, under the same name ending in
+    /// ".svg"), linked by relative paths so the folder can be moved as a whole. Returns the full path of the Markdown file.
     /// </summary>
     /// <param name="report">The report.</param>
     /// <param name="folder">Output folder.</param>
@@ -45,7 +45,10 @@ public static class ReportWriter
             string figures = Path.Combine(Path.GetFullPath(folder), FigureFolder);
             Directory.CreateDirectory(figures);
             foreach (var figure in report.Sections.SelectMany(s => s.Figures))
+            {
                 Storage.AtomicFile.WriteAllBytes(Path.Combine(figures, figure.FileName), figure.Png);
+                if (figure.Svg is { } svg) Storage.AtomicFile.WriteAllText(Path.Combine(figures, figure.SvgFileName), svg);
+            }
             Storage.AtomicFile.WriteAllText(path, markdown);
             return path;
         });
@@ -54,7 +57,8 @@ public static class ReportWriter
     /// <summary>
     /// The report as one HTML document: polyglot HTML5 that is also well-formed XHTML, figures embedded
     /// as <c>&lt;figure&gt;&lt;img src="data:image/png;base64,…"&gt;&lt;figcaption&gt;</c>, tables for
-    /// verdicts, inline CSS, no scripts and no external resources; writes nothing.
+    /// verdicts, inline CSS, no scripts and no external resources loaded; a figure with an SVG links to
+    /// <c>figures/&lt;name&gt;.svg</c>, which <see cref="WriteMarkdown"/> writes beside it; writes nothing.
     /// </summary>
     public static string ToHtml(Report report)
     {

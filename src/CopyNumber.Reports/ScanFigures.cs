@@ -11,8 +11,13 @@ namespace CopyNumber.Reports;
 internal static class ScanFigures
 {
     /// <summary>One measure against the single varied name: a line per quantity, its error band when given, dashed threshold lines.</summary>
-    public static byte[] Curves(string title, string axis, bool log, string measure, IReadOnlyList<(string Quantity, double[] X, double[] Y, double[]? HalfWidth)> series,
-        IReadOnlyList<double> thresholds, int width = 900, int height = 450)
+    public static FigureImage Curves(string title, string axis, bool log, string measure, IReadOnlyList<(string Quantity, double[] X, double[] Y, double[]? HalfWidth)> series,
+        IReadOnlyList<double> thresholds, int width = 900, int height = 450) =>
+        FigureLook.Render(BuildCurves(title, axis, log, measure, series, thresholds), width, height);
+
+    /// <summary>The plot of <see cref="Curves"/>, not yet rendered.</summary>
+    internal static Plot BuildCurves(string title, string axis, bool log, string measure, IReadOnlyList<(string Quantity, double[] X, double[] Y, double[]? HalfWidth)> series,
+        IReadOnlyList<double> thresholds)
     {
         var plot = FigureLook.NewPlot(title, log ? axis + " (log scale)" : axis, measure);
         var drawn = 0;
@@ -38,18 +43,16 @@ internal static class ScanFigures
             line.LegendText = quantity;
             drawn++;
         }
-        foreach (var t in thresholds)
+        for (var i = 0; i < thresholds.Count; i++)
         {
-            var h = plot.Add.HorizontalLine(t);
-            h.LineColor = Palette.Note;
-            h.LinePattern = LinePattern.Dashed;
-            h.LineWidth = 1.5f;
+            var h = plot.Add.HorizontalLine(thresholds[i], 2, Palette.Threshold, LinePattern.Dotted);
+            if (i == 0) h.LegendText = thresholds.Count == 1 ? "threshold" : "thresholds";
         }
         if (drawn == 0) FigureLook.NoDataNote(plot, "no point has a value of this measure");
         var allX = series.SelectMany(q => q.X).Where(v => v > 0).ToArray();
         if (log && allX.Length > 0) plot.Axes.Bottom.TickGenerator = LogTicks.For(Math.Log10(allX.Min()), Math.Log10(allX.Max()));
-        plot.ShowLegend(Alignment.UpperRight);
-        return FigureLook.ToPng(plot, width, height);
+        FigureLook.LegendOutside(plot);
+        return plot;
     }
 
     /// <summary>
@@ -58,7 +61,7 @@ internal static class ScanFigures
     /// non-adequate point are drawn as the adequacy boundary (solid), and those around the points with two or
     /// more stable steady states of the rate equations as the bistable region (dashed).
     /// </summary>
-    public static byte[] VerdictMap(string quantity, (string Name, bool Log) xAxis, (string Name, bool Log) yAxis, IReadOnlyList<ScanCell> cells, bool isGrid,
+    public static FigureImage VerdictMap(string quantity, (string Name, bool Log) xAxis, (string Name, bool Log) yAxis, IReadOnlyList<ScanCell> cells, bool isGrid,
         int width = 1150, int height = 700)
     {
         var plot = FigureLook.NewPlot($"verdicts for {quantity}", xAxis.Log ? xAxis.Name + " (log scale)" : xAxis.Name, yAxis.Log ? yAxis.Name + " (log scale)" : yAxis.Name);
@@ -99,8 +102,8 @@ internal static class ScanFigures
         }
         if (xAxis.Log) plot.Axes.Bottom.TickGenerator = LogTicks.For(xs[0] - dx / 2, xs[^1] + dx / 2);
         if (yAxis.Log) plot.Axes.Left.TickGenerator = LogTicks.For(ys[0] - dy / 2, ys[^1] + dy / 2);
-        plot.ShowLegend(Edge.Right); // outside the data, so no cell is hidden under it
-        return FigureLook.ToPng(plot, width, height);
+        FigureLook.LegendOutside(plot);
+        return FigureLook.Render(plot, width, height);
     }
 
     private static (string Column, string Letter, string Label, Color Colour) Category(ScanCell c)

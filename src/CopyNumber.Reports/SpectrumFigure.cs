@@ -8,7 +8,7 @@ namespace CopyNumber.Reports;
 /// </summary>
 internal static class SpectrumFigure
 {
-    public static byte[] Render(string species, double[] omega, double[] power, double[] error, double[]? lna, string timeUnit, int width = 900, int height = 500)
+    public static FigureImage Render(string species, double[] omega, double[] power, double[] error, double[]? lna, string timeUnit, int width = 900, int height = 500)
     {
         FigureLook.CheckSize(width, height);
         var plot = FigureLook.NewPlot($"{species}: power spectrum", $"angular frequency ω (1/{timeUnit})", "log10 power (copies² × time)");
@@ -34,7 +34,7 @@ internal static class SpectrumFigure
             line.LinePattern = LinePattern.Dashed;
             line.LegendText = "linear noise approximation";
         }
-        plot.ShowLegend(Alignment.UpperRight);
-        return FigureLook.ToPng(plot, width, height);
+        FigureLook.LegendOutside(plot);
+        return FigureLook.Render(plot, width, height);
     }
 }

@@ -14,9 +14,19 @@ internal static class SweepFigure
 {
     private const double Padding = 0.12; // decades of margin around the data
 
-    public static byte[] Render(IReadOnlyList<SweepSeries> series, int width, int height, string sizeLabel, string deviationLabel)
+    public static FigureImage Render(IReadOnlyList<SweepSeries> series, int width, int height, string sizeLabel, string deviationLabel,
+        double threshold = double.NaN)
     {
         FigureLook.CheckSize(width, height);
+        return FigureLook.Render(Build(series, sizeLabel, deviationLabel, threshold), width, height);
+    }
+
+    /// <summary>
+    /// The plot, not yet rendered; <paramref name="threshold"/> (a relative deviation, e.g. 0.1) is drawn as a dashed
+    /// horizontal line, the verdict's threshold, when it is positive.
+    /// </summary>
+    internal static Plot Build(IReadOnlyList<SweepSeries> series, string sizeLabel, string deviationLabel, double threshold)
+    {
         InputChecks.NotNull(series, "The list of sweep series");
         foreach (var s in series) Check(s);
 
@@ -73,7 +83,9 @@ internal static class SweepFigure
         }
 
         var (xLow, xHigh) = Range(xs, 0, 3);
-        var (yLow, yHigh) = Range([.. ys, .. barEnds], -3, 0);
+        bool drawThreshold = threshold > 0 && double.IsFinite(threshold);
+        double logThreshold = drawThreshold ? Math.Log10(threshold) : double.NaN;
+        var (yLow, yHigh) = Range(drawThreshold ? [.. ys, .. barEnds, logThreshold] : [.. ys, .. barEnds], -3, 0);
         if (xs.Count > 0)
         {
             // Slope −1 through the centroid of all points: log d = b − log Ω.
@@ -100,15 +112,21 @@ internal static class SweepFigure
             bar.MarkerSize = 0;
         }
 
+        if (drawThreshold)
+        {
+            var line = plot.Add.HorizontalLine(logThreshold, 2, Palette.Threshold, LinePattern.Dotted);
+            line.LegendText = $"threshold {VerdictPercent(threshold)}";
+        }
+
         plot.Axes.SetLimits(xLow, xHigh, yLow, yHigh);
         plot.Axes.Bottom.TickGenerator = LogTicks.For(xLow, xHigh);
         plot.Axes.Left.TickGenerator = LogTicks.For(yLow, yHigh);
 
         if (xs.Count == 0) FigureLook.NoDataNote(plot, "no resolved positive deviations to draw");
-        else plot.ShowLegend(Alignment.UpperRight);
+        else FigureLook.LegendOutside(plot);
         if (notDrawn.Count > 0 && xs.Count > 0)
             FigureLook.NoDataNote(plot, "nothing to draw for " + string.Join(", ", notDrawn), alignment: Alignment.LowerLeft);
-        return FigureLook.ToPng(plot, width, height);
+        return plot;
     }
 
     private static void Check(SweepSeries s)
@@ -119,6 +137,9 @@ internal static class SweepFigure
         InputChecks.Aligned(owner, nameof(s.RelativeDeviation), s.RelativeDeviation, s.Sizes.Length, nameof(s.Sizes));
         InputChecks.Aligned(owner, nameof(s.DeviationStdError), s.DeviationStdError, s.Sizes.Length, nameof(s.Sizes));
     }
+
+    private static string VerdictPercent(double fraction) =>
+        (fraction * 100).ToString("0.##", System.Globalization.CultureInfo.InvariantCulture) + " %";
 
     private static double LogOrNaN(double v) => v > 0 && double.IsFinite(v) ? Math.Log10(v) : double.NaN;
 

@@ -73,7 +73,7 @@ public static class RunContrast
         if (loaded.Model is null)
             throw new RunFolderException($"the model stored with '{run.Path}' no longer compiles: {loaded.Diagnostics[0].Format()}", run.Path);
         var network = loaded.Model.Network;
-        var grid = new TimeGrid(ReadArgument(run, "until"), ReadArgument(run, "every"));
+        var grid = Grid(run);
         if (grid.Count != run.Times.Length)
             throw new RunFolderException($"the grid in '{run.Path}/manifest.json' has {grid.Count} points but the tables have {run.Times.Length}", run.Path);
 
@@ -140,6 +140,10 @@ public static class RunContrast
         if (cycle.OnCycle) return cycle;
         return RingingVerdict.For(run, quantity, thresholds) is { } ringing ? new QuantityOscillation(false, double.NaN, ringing) : null;
     }
+
+    /// <summary>The run's recording grid, from the --until and --every its manifest records.</summary>
+    /// <exception cref="RunFolderException">The manifest does not record them.</exception>
+    public static TimeGrid Grid(RunFolder run) => new(ReadArgument(run, "until"), ReadArgument(run, "every"));
 
     private static double ReadArgument(RunFolder run, string name) =>
         run.Manifest.Arguments.TryGetValue(name, out var text) && double.TryParse(text, NumberStyles.Float, CultureInfo.InvariantCulture, out var value)

@@ -11,6 +11,7 @@ namespace CopyNumber.Runs;
 /// <param name="VarianceRatio">Ensemble variance over LNA variance at the final time.</param>
 /// <param name="Verdicts">The verdict labels, comma-separated.</param>
 /// <param name="Adequate">True when the only verdict is adequate.</param>
+/// <param name="Folder">The size's run folder, relative to the sweep's folder (its own report is there).</param>
 public sealed record SweepPoint(
     double Size,
     string Quantity,
@@ -19,7 +20,8 @@ public sealed record SweepPoint(
     double CoefficientOfVariation,
     double VarianceRatio,
     string Verdicts,
-    bool Adequate);
+    bool Adequate,
+    string Folder = "");
 
 /// <summary>
 /// The summary of a system-size sweep: per quantity and size the deviation, noise and verdicts, and
@@ -46,7 +48,7 @@ public sealed class SizeSweep
         var order = cells.Select(c => c.Quantity).Distinct().Select((q, i) => (q, i)).ToDictionary(p => p.q, p => p.i);
         var points = cells
             .Select(c => new SweepPoint(c.Values[0], c.Quantity, c.LargestRelativeDeviation, c.LargestRelativeDeviationError,
-                c.CoefficientOfVariation, c.LnaRatio, c.Verdicts, c.Flags[0] == 1))
+                c.CoefficientOfVariation, c.LnaRatio, c.Verdicts, c.Flags[0] == 1, c.Folder))
             .OrderBy(p => order[p.Quantity]).ThenBy(p => p.Size).ToArray();
         var adequateFrom = new Dictionary<string, double?>();
         foreach (var group in points.GroupBy(p => p.Quantity))

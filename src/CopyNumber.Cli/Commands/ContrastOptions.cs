@@ -19,10 +19,11 @@ internal sealed class ContrastOptions
     public Option<long> MinimumReplicates { get; } = new("--min-replicates") { Description = "Fewer replicates than this give 'too few replicates' instead of a verdict.", DefaultValueFactory = _ => Defaults.MinimumReplicates };
     public Option<string?> At { get; } = new("--at") { Description = "Times for the histogram figures, comma-separated (default: the middle and the final time)." };
     public Option<string?> Heatmap { get; } = new("--heatmap") { Description = "Species or readout for the distribution heatmap." };
+    public Option<string?> Pair { get; } = new("--pair") { Description = "Two species as A,B: their joint histogram at the histogram times (pair.parquet, counted over the stored paths; simulate then stores every replicate's path unless --paths says otherwise)." };
 
     public void AddTo(Command command)
     {
-        foreach (var option in new Option[] { Z, FalseAlarmRate, MeanShift, Noise, Extinction, MinimumReplicates, At, Heatmap })
+        foreach (var option in new Option[] { Z, FalseAlarmRate, MeanShift, Noise, Extinction, MinimumReplicates, At, Heatmap, Pair })
             command.Options.Add(option);
     }
 
@@ -72,6 +73,20 @@ internal sealed class ContrastOptions
         var heatmap = parsed.GetValue(Heatmap);
         Reports.ContrastReport.CheckChoices([.. network.Species, .. network.Readouts.Select(r => r.Name)], until, times, heatmap);
         return (times, heatmap);
+    }
+
+    /// <summary>The two species of --pair A,B, checked against the model; null when it was not given.</summary>
+    public (string First, string Second)? PairOf(ParseResult parsed, IReadOnlyList<string> species)
+    {
+        var text = parsed.GetValue(Pair);
+        if (text is null) return null;
+        var parts = text.Split(',', StringSplitOptions.TrimEntries);
+        if (parts.Length != 2 || parts[0].Length == 0 || parts[0] == parts[1])
+            throw new UserInputException($"--pair takes two different species as A,B (got '{text}')");
+        foreach (var name in parts)
+            if (!species.Contains(name, StringComparer.Ordinal))
+                throw new UserInputException($"--pair: '{name}' is not a species of the model (species: {string.Join(", ", species)})");
+        return (parts[0], parts[1]);
     }
 
     /// <summary>The verdict table printed at the end of contrast and simulate.</summary>

@@ -39,7 +39,7 @@ internal sealed class EnsembleOptionSet
         _epsilon = new("--epsilon") { Description = "Tau-leaping error control: the largest relative change of any propensity in one leap, in (0, 1).", DefaultValueFactory = _ => RunSpecification.DefaultEpsilon };
         _seed = new("--seed") { Description = "Run seed; without it one is drawn and recorded in manifest.json." };
         _threads = new("--threads") { Description = "Worker threads (default: all cores).", DefaultValueFactory = _ => Environment.ProcessorCount };
-        _paths = new("--paths") { Description = "Also write paths.parquet for the first N replicates, or 'all'." };
+        _paths = new("--paths") { Description = $"Write paths.parquet for the first N replicates, or 'all', or 0 for none (default {DefaultPathReplicates}: the report draws them beside the mean)." };
         _maxEvents = CountOption.Create("--max-events", "Stop a replicate after this many events; such replicates are counted and reported.");
         _maxWall = new("--max-wall") { Description = "Stop after this many seconds of wall-clock time, writing the blocks finished (partial; exit code 0 with a warning)." };
         if (withShard) _shard = new("--shard") { Description = "Run part i of n of the replicates (e.g. 2/8), for a job array; combine the parts with 'copynumber merge'." };
@@ -79,7 +79,8 @@ internal sealed class EnsembleOptionSet
         if (maxEvents is < 1) throw new UserInputException($"--max-events must be at least 1 (got {maxEvents})");
         var wall = parsed.GetValue(_maxWall);
         if (wall is { } w && !(w > 0 && w <= TimeSpan.MaxValue.TotalSeconds / 2)) throw new UserInputException($"--max-wall must be a positive number of seconds (got {w})");
-        var paths = parsed.GetResult(_paths) is { Implicit: false } ? ReadPaths(parsed.GetValue(_paths), replicates) : stored?.PathReplicates ?? 0;
+        var paths = parsed.GetResult(_paths) is { Implicit: false } ? ReadPaths(parsed.GetValue(_paths), replicates)
+            : stored?.PathReplicates ?? Math.Min(DefaultPathReplicates, replicates);
         var shard = _shard is not null && parsed.GetResult(_shard) is { Implicit: false } ? ReadShard(parsed.GetValue(_shard), replicates) : stored?.Shard ?? Shard.Whole;
         var method = parsed.GetResult(_method) is { Implicit: false } ? parsed.GetValue(_method)! : stored?.MethodRequested ?? parsed.GetValue(_method)!;
         var sample = Given(_validationReplicates, stored?.ValidationReplicates);
@@ -117,12 +118,21 @@ internal sealed class EnsembleOptionSet
         };
     }
 
+    /// <summary>
+    /// Replicates whose paths are kept when --paths is not given: a few example trajectories for the report to draw beside
+    /// the mean (issue 16). They are the first replicates by index, so the same whatever the threads or shards.
+    /// </summary>
+    public const long DefaultPathReplicates = 5;
+
+    /// <summary>True when --paths was given on the command line.</summary>
+    public bool PathsGiven(ParseResult parsed) => parsed.GetResult(_paths) is { Implicit: false };
+
     private static long ReadPaths(string? text, long replicates)
     {
         if (text is null) return 0;
         if (text == "all") return replicates;
-        if (!long.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var n) || n < 1)
-            throw new UserInputException($"--paths takes a positive number of replicates or 'all' (got '{text}')");
+        if (!long.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var n) || n < 0)
+            throw new UserInputException($"--paths takes a number of replicates (0 for none) or 'all' (got '{text}')");
         return Math.Min(n, replicates);
     }
 

@@ -38,7 +38,7 @@ public static class FolderContents
     /// <exception cref="OutputException">A file could not be removed.</exception>
     public static void RemoveContrastOutputs(string folder)
     {
-        foreach (var name in new[] { RunFiles.Contrast, RunFiles.ReportMarkdown, RunFiles.ReportHtml, RunFiles.OscillationSpectrum, RunFiles.OscillationReplicates, RunFiles.Phases })
+        foreach (var name in new[] { RunFiles.Contrast, RunFiles.ReportMarkdown, RunFiles.ReportHtml, RunFiles.OscillationSpectrum, RunFiles.OscillationReplicates, RunFiles.Phases, RunFiles.Pair })
             Delete(Path.Combine(folder, name));
         RemoveFigures(Path.Combine(folder, RunFiles.Figures));
     }
@@ -73,8 +73,10 @@ public static class FolderContents
         }
     }
 
+    // A report's figures are PNG files, each with its SVG beside it.
     private static bool IsFigure(string path) =>
-        File.Exists(path) && RunFiles.BaseName(Path.GetFileName(path)).EndsWith(".png", StringComparison.Ordinal);
+        File.Exists(path) && RunFiles.BaseName(Path.GetFileName(path)) is var name
+        && (name.EndsWith(".png", StringComparison.Ordinal) || name.EndsWith(".svg", StringComparison.Ordinal));
 
     private static bool IsClaimFile(string name) => RunFiles.BaseName(name) is RunFiles.Claim or RunFiles.Lock;
 

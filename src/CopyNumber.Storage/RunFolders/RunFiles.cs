@@ -9,7 +9,7 @@ public static class RunFiles
         ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet",
         Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet";
 
-    /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files).</summary>
+    /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files, each with its SVG).</summary>
     public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
 
     /// <summary>What <c>contrast</c> adds when the rate equations oscillate or ring: the averaged and LNA spectra, and the per-replicate periods and amplitudes.</summary>
@@ -17,6 +17,9 @@ public static class RunFiles
 
     /// <summary>What <c>contrast</c> adds when the schedule cuts the run into more than one phase: the verdicts per phase.</summary>
     public const string Phases = "phases.parquet";
+
+    /// <summary>What <c>contrast --pair A,B</c> adds: the two species' joint histogram over the replicates whose paths are stored (<see cref="JointTable"/>'s columns).</summary>
+    public const string Pair = "pair.parquet";
 
     /// <summary>What a size sweep writes into its folder beside one run folder per size (<see cref="SweepRunPrefix"/><c>&lt;size&gt;</c>) and the two reports.</summary>
     public const string Sweep = "sweep.parquet", SweepRunPrefix = "size-";
@@ -47,7 +50,7 @@ public static class RunFiles
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
         Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances,
-        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Claim, Lock,
+        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Pair, Claim, Lock,
     };
 
     /// <summary>Whether <paramref name="name"/> is a file name we write into a run folder: one of <see cref="Known"/> or a temporary sibling of one.</summary>

@@ -5,7 +5,8 @@ namespace CopyNumber.Storage;
 /// row per (time, count of the first, count of the second) with positive probability, in that order. The column
 /// names carry the species (<c>first</c>, <c>second</c> name them; the counts are <c>first_count</c>,
 /// <c>second_count</c>), and the probabilities at one time sum to 1 (normalised on the projection, like
-/// distributions.parquet of an exact run).
+/// distributions.parquet of an exact run). <c>pair.parquet</c> (<c>contrast --pair A,B</c>) has the same columns, the
+/// probabilities being the fractions of the replicates with stored paths.
 /// </summary>
 public static class JointTable
 {
