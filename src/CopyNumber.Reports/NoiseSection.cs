@@ -16,7 +16,7 @@ internal static class NoiseSection
     private const int MaxPanels = 6;
 
     /// <summary>The section, or null when the run has no split (no parameter varies per cell).</summary>
-    public static ReportSection? For(RunFolder run, string timeUnit)
+    public static ReportSection? For(RunFolder run, string timeUnit, IReadOnlyList<double> scheduleChanges)
     {
         if (run.Noise.Count == 0) return null;
         var times = run.Times;
@@ -51,21 +51,22 @@ internal static class NoiseSection
         // A quantity that never varies (a conserved gene count) has nothing to split and gets no panel.
         var drawn = run.Noise.Where(split => split.IntrinsicVariance.Zip(split.ExtrinsicVariance).Any(p => p.First != 0 || p.Second != 0)).ToList();
         if (drawn.Count == 0) return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, [table], []);
-        var panels = drawn.Take(MaxPanels).Select(split => Panel(split, times, timeUnit, drawn.Count > 1 ? 0.8f : 1f)).ToList();
+        var panels = drawn.Take(MaxPanels).Select(split => Panel(split, times, timeUnit, scheduleChanges, drawn.Count > 1 ? 0.8f : 1f)).ToList();
         var columns = panels.Count == 1 ? 1 : 2;
         var height = 420 * ((panels.Count + columns - 1) / columns);
         var caption = "Intrinsic and extrinsic squared coefficients of variation over time; the shaded bands are ±2 standard errors"
             + (drawn.Count > MaxPanels ? $" (the first {MaxPanels} of {drawn.Count} quantities that vary; noise.parquet holds all)." : ".");
-        var figure = new ReportFigure("noise-split.png", caption, FigureLook.ToPng(panels, columns, 900, Math.Max(FigureLook.MinPixels, height)));
+        var figure = new ReportFigure("noise-split.png", caption, FigureLook.Render(panels, columns, 900, Math.Max(FigureLook.MinPixels, height)));
         return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, [table], [figure]);
     }
 
-    private static Plot Panel(StoredNoiseSplit split, double[] times, string timeUnit, float scale)
+    private static Plot Panel(StoredNoiseSplit split, double[] times, string timeUnit, IReadOnlyList<double> scheduleChanges, float scale)
     {
-        var plot = FigureLook.NewPlot($"{split.Quantity}: where the noise comes from", FigureLook.Labelled("time", timeUnit == "time" ? null : timeUnit), "CV² (variance / mean²)", scale);
+        var plot = FigureLook.NewPlot($"{split.Quantity}: where the noise comes from", "time", "CV² (variance / mean²)", scale);
+        FigureLook.TimeAxis(plot, plot.Axes.Bottom, timeUnit == "time" ? null : timeUnit, scheduleChanges, times[0], times[^1]);
         Part(plot, times, split.Mean, split.IntrinsicVariance, split.IntrinsicStandardError, Palette.Series[0], "intrinsic (within a cell)");
         Part(plot, times, split.Mean, split.ExtrinsicVariance, split.ExtrinsicStandardError, Palette.Series[1], "extrinsic (between cells)");
-        plot.ShowLegend(Edge.Bottom); // below the axes, never over the data
+        FigureLook.LegendOutside(plot, Edge.Bottom);
         return plot;
     }
 
