@@ -20,15 +20,16 @@ public static class ContrastOutputs
     /// <param name="heatmapQuantity">The quantity drawn as a heatmap, or null.</param>
     /// <param name="takeOver">Take over a claim on the folder by a run on another host (or one that ended without releasing it).</param>
     /// <param name="pair">Two species whose joint histogram is written (pair.parquet) and drawn at the histogram times, or null.</param>
+    /// <param name="dualReporters">Pairs of identical reporter species whose noise the report splits by the dual-reporter identities.</param>
     /// <returns>The contrast and the files written.</returns>
     public static (RunContrastResult Contrast, IReadOnlyList<string> Files) Write(
         string folder, ContrastThresholds thresholds, IReadOnlyList<double> histogramTimes, string? heatmapQuantity, bool takeOver = false,
-        (string First, string Second)? pair = null)
+        (string First, string Second)? pair = null, IReadOnlyList<(string First, string Second)>? dualReporters = null)
     {
         using var claim = FolderClaim.Take(folder, "contrast", takeOverStale: false, takeOver);
         var run = RunFolder.Read(folder);
         ContrastReport.CheckChoices(run.Quantities.Select(q => q.Name).ToList(), run.Times[^1], histogramTimes, heatmapQuantity);
-        var contrast = RunContrast.Compute(run, thresholds);
+        var contrast = RunContrast.Compute(run, thresholds, dualReporters: dualReporters);
         var metadata = Provenance.For(run.Manifest.ModelFile, run.ModelText,
             new Dictionary<string, string> { ["command"] = "contrast", ["z"] = thresholds.Z.ToString("R", System.Globalization.CultureInfo.InvariantCulture) },
             DateTimeOffset.UtcNow);

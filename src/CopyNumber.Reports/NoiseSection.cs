@@ -1,82 +1,91 @@
 using System.Globalization;
+using CopyNumber.Analysis.Noise;
 using CopyNumber.Storage;
 using ScottPlot;
 
 namespace CopyNumber.Reports;
 
 /// <summary>
-/// The report's answer to "how much of the noise is the cell's own?": when parameters vary from cell to
-/// cell, each quantity's squared coefficient of variation split by the law of total variance into the
-/// within-cell (intrinsic) and between-cell (extrinsic) parts (Swain, Elowitz &amp; Siggia 2002, PNAS
-/// 99:12795), from <c>noise.parquet</c>. The split is estimated in the engine (Ensembles/NoiseDecomposition);
-/// this section only shows it.
+/// The report's answer to "how much of the noise is the cell's own?", as squared coefficients of variation split
+/// into the within-cell (intrinsic) and between-cell (extrinsic) parts (Swain, Elowitz &amp; Siggia 2002, PNAS
+/// 99:12795), from either design the engine estimates: cells whose parameters vary, several replicates per cell
+/// (the law of total variance; <c>noise.parquet</c>, Ensembles/NoiseDecomposition), and pairs of identical
+/// reporters in one cell (Elowitz et al. 2002; Analysis/Noise/DualReporterNoise). This section only shows them.
 /// </summary>
 internal static class NoiseSection
 {
     private const int MaxPanels = 6;
 
-    /// <summary>The section, or null when the run has no split (no parameter varies per cell).</summary>
-    public static ReportSection? For(RunFolder run, string timeUnit, IReadOnlyList<double> scheduleChanges)
+    /// <summary>One quantity's split over time, whichever design estimated it; parts are CV², NaN where undefined.</summary>
+    private sealed record Split(string Label, string Design, double[] Intrinsic, double[] IntrinsicError, double[] Extrinsic, double[] ExtrinsicError);
+
+    /// <summary>The section, or null when the run has no split (no parameter varies per cell and no reporter pair was named).</summary>
+    public static ReportSection? For(RunFolder run, string timeUnit, IReadOnlyList<double> scheduleChanges, IReadOnlyList<DualReporterSplit> dualReporters)
     {
-        if (run.Noise.Count == 0) return null;
+        var splits = run.Noise.Select(Nested).Concat(dualReporters.Select(Dual)).ToList();
+        if (splits.Count == 0) return null;
         var times = run.Times;
         var shown = new[] { times.Length / 2, times.Length - 1 }.Distinct().ToArray();
         var rows = new List<IReadOnlyList<string>>();
-        foreach (var split in run.Noise)
+        foreach (var split in splits)
             foreach (var k in shown)
             {
-                var mean = split.Mean[k];
-                var square = mean * mean;
-                var intrinsic = split.IntrinsicVariance[k];
-                var extrinsic = split.ExtrinsicVariance[k];
-                var total = intrinsic + extrinsic;
+                var total = split.Intrinsic[k] + split.Extrinsic[k];
                 rows.Add([
-                    split.Quantity, Format(times[k]), Format(mean),
-                    Format(total / square),
-                    $"{Format(intrinsic / square)} ± {Format(split.IntrinsicStandardError[k] / square)}",
-                    $"{Format(extrinsic / square)} ± {Format(split.ExtrinsicStandardError[k] / square)}",
-                    total > 0 ? Percent(extrinsic / total) : "-",
+                    split.Label, split.Design, Format(times[k]), Format(total),
+                    $"{Format(split.Intrinsic[k])} ± {Format(split.IntrinsicError[k])}",
+                    $"{Format(split.Extrinsic[k])} ± {Format(split.ExtrinsicError[k])}",
+                    total > 0 ? Percent(split.Extrinsic[k] / total) : "-",
                 ]);
             }
-        var perDraw = run.Noise[0].ReplicatesPerDraw;
-        var paragraphs = new[]
-        {
-            $"Some parameters vary from cell to cell; each cell's parameter draw was simulated {perDraw} times. "
-            + "By the law of total variance each quantity's variance is the mean variance within a cell (intrinsic noise) plus the variance of the cell means "
-            + "(extrinsic noise; Swain, Elowitz & Siggia 2002). Both are shown as squared coefficients of variation (variance over squared mean), "
-            + "which add up to the total; ± is one standard error. noise.parquet holds the split at every grid time.",
-        };
+        var paragraphs = new List<string>();
+        if (run.Noise.Count > 0)
+            paragraphs.Add($"Some parameters vary from cell to cell; each cell's parameter draw was simulated {run.Noise[0].ReplicatesPerDraw} times (design 'cells'). "
+                + "By the law of total variance each quantity's variance is the mean variance within a cell (intrinsic noise) plus the variance of the cell means "
+                + "(extrinsic noise; Swain, Elowitz & Siggia 2002). noise.parquet holds the split at every grid time.");
+        if (dualReporters.Count > 0)
+            paragraphs.Add("Pairs of identical, independent reporters in one cell (design 'reporters') split the noise by the identities of Elowitz, Levine, Siggia & Swain (2002): "
+                + "intrinsic ⟨(c − y)²⟩/(2⟨c⟩⟨y⟩), extrinsic Cov(c, y)/(⟨c⟩⟨y⟩), from the run's moments and covariances.parquet; errors by the delta method under normal theory.");
+        paragraphs.Add("Both parts are squared coefficients of variation (variance over squared mean) and add up to the total; ± is one standard error.");
         var table = new ReportTable(
-            ["quantity", $"time ({timeUnit})", "mean", "CV² total", "CV² intrinsic", "CV² extrinsic", "extrinsic share of variance"], rows);
+            ["quantity", "design", $"time ({timeUnit})", "CV² total", "CV² intrinsic", "CV² extrinsic", "extrinsic share of variance"], rows);
         // A quantity that never varies (a conserved gene count) has nothing to split and gets no panel.
-        var drawn = run.Noise.Where(split => split.IntrinsicVariance.Zip(split.ExtrinsicVariance).Any(p => p.First != 0 || p.Second != 0)).ToList();
+        var drawn = splits.Where(s => s.Intrinsic.Zip(s.Extrinsic).Any(p => p.First is not (0 or double.NaN) || p.Second is not (0 or double.NaN))).ToList();
         if (drawn.Count == 0) return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, [table], []);
         var panels = drawn.Take(MaxPanels).Select(split => Panel(split, times, timeUnit, scheduleChanges, drawn.Count > 1 ? 0.8f : 1f)).ToList();
         var columns = panels.Count == 1 ? 1 : 2;
         var height = 420 * ((panels.Count + columns - 1) / columns);
         var caption = "Intrinsic and extrinsic squared coefficients of variation over time; the shaded bands are ±2 standard errors"
-            + (drawn.Count > MaxPanels ? $" (the first {MaxPanels} of {drawn.Count} quantities that vary; noise.parquet holds all)." : ".");
+            + (drawn.Count > MaxPanels ? $" (the first {MaxPanels} of {drawn.Count} quantities that vary)." : ".");
         var figure = new ReportFigure("noise-split.png", caption, FigureLook.Render(panels, columns, 900, Math.Max(FigureLook.MinPixels, height)));
         return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, [table], [figure]);
     }
 
-    private static Plot Panel(StoredNoiseSplit split, double[] times, string timeUnit, IReadOnlyList<double> scheduleChanges, float scale)
+    private static Split Nested(StoredNoiseSplit s)
     {
-        var plot = FigureLook.NewPlot($"{split.Quantity}: where the noise comes from", "time", "CV² (variance / mean²)", scale);
+        // A CV² is undefined where the mean is zero (at the start, before anything is made): NaN breaks the line there.
+        double[] Scaled(double[] values) => values.Select((v, k) => s.Mean[k] > 0 ? v / (s.Mean[k] * s.Mean[k]) : double.NaN).ToArray();
+        return new Split(s.Quantity, "cells", Scaled(s.IntrinsicVariance), Scaled(s.IntrinsicStandardError), Scaled(s.ExtrinsicVariance), Scaled(s.ExtrinsicStandardError));
+    }
+
+    private static Split Dual(DualReporterSplit s) => new($"{s.First}:{s.Second}", "reporters",
+        s.Points.Select(p => p.Intrinsic).ToArray(), s.Points.Select(p => p.IntrinsicError).ToArray(),
+        s.Points.Select(p => p.Extrinsic).ToArray(), s.Points.Select(p => p.ExtrinsicError).ToArray());
+
+    private static Plot Panel(Split split, double[] times, string timeUnit, IReadOnlyList<double> scheduleChanges, float scale)
+    {
+        var plot = FigureLook.NewPlot($"{split.Label}: where the noise comes from", "time", "CV² (variance / mean²)", scale);
         FigureLook.TimeAxis(plot, plot.Axes.Bottom, timeUnit == "time" ? null : timeUnit, scheduleChanges, times[0], times[^1]);
-        Part(plot, times, split.Mean, split.IntrinsicVariance, split.IntrinsicStandardError, Palette.Series[0], "intrinsic (within a cell)");
-        Part(plot, times, split.Mean, split.ExtrinsicVariance, split.ExtrinsicStandardError, Palette.Series[1], "extrinsic (between cells)");
+        Part(plot, times, split.Intrinsic, split.IntrinsicError, Palette.Series[0], "intrinsic (within a cell)");
+        Part(plot, times, split.Extrinsic, split.ExtrinsicError, Palette.Series[1], "extrinsic (between cells)");
         FigureLook.LegendOutside(plot, Edge.Bottom);
         return plot;
     }
 
-    private static void Part(Plot plot, double[] times, double[] mean, double[] variance, double[] error, Color colour, string label)
+    private static void Part(Plot plot, double[] times, double[] centre, double[] error, Color colour, string label)
     {
-        // A CV² is undefined where the mean is zero (at the start, before anything is made): NaN breaks the line there.
-        double Scaled(int k, double value) => mean[k] > 0 ? value / (mean[k] * mean[k]) : double.NaN;
-        var centre = times.Select((_, k) => Scaled(k, variance[k])).ToArray();
-        var lower = times.Select((_, k) => Scaled(k, variance[k] - 2 * error[k])).ToArray();
-        var upper = times.Select((_, k) => Scaled(k, variance[k] + 2 * error[k])).ToArray();
+        var lower = centre.Select((c, k) => c - 2 * error[k]).ToArray();
+        var upper = centre.Select((c, k) => c + 2 * error[k]).ToArray();
         MeanBandFigure.FilledBand(plot, times, lower, upper, colour.WithAlpha(0.25), null);
         MeanBandFigure.Lines(plot, times, centre, colour, 2.5f, LinePattern.Solid, ConnectStyle.Straight, label, MarkerShape.FilledCircle);
     }

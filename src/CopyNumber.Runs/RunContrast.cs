@@ -1,4 +1,5 @@
 using CopyNumber.Analysis;
+using CopyNumber.Analysis.Noise;
 using CopyNumber.Analysis.Oscillation;
 using CopyNumber.Analysis.Phases;
 using System.Globalization;
@@ -24,6 +25,9 @@ public sealed record RunContrastResult(
 {
     /// <summary>Where the error bars of the means come from: the sampling error of an ensemble, or an exact run's bounds.</summary>
     public string ErrorSource { get; init; } = RunContrast.SamplingErrorSource;
+
+    /// <summary>The intrinsic/extrinsic split of each pair of identical reporters the contrast was asked for (<c>--dual-reporters</c>); empty otherwise.</summary>
+    public IReadOnlyList<DualReporterSplit> DualReporters { get; init; } = [];
 
     /// <summary>The oscillation analysis (rate equations, sample paths, spectra; docs/methods-analysis.md, section 7), or null for an exact run.</summary>
     public RunOscillation? Oscillation { get; init; }
@@ -63,8 +67,16 @@ public static class RunContrast
 
     /// <summary>Computes the contrast of <paramref name="run"/>.</summary>
     /// <exception cref="OutputException">The run folder lacks what a contrast needs (grid, model).</exception>
-    public static RunContrastResult Compute(RunFolder run, ContrastThresholds? thresholds = null, SolverOptions? solver = null)
+    /// <param name="run">The run folder read back.</param>
+    /// <param name="thresholds">The verdicts' thresholds; the defaults when null.</param>
+    /// <param name="solver">Options of the rate-equation solver; the defaults when null.</param>
+    /// <param name="dualReporters">Pairs of species that are identical, independent reporters in one cell, whose noise is split
+    /// by the dual-reporter identities (<see cref="DualReporterNoise"/>); each pair's covariance must be in the run.</param>
+    /// <exception cref="AnalysisInputException">A dual-reporter pair names a species the run has no covariance for.</exception>
+    public static RunContrastResult Compute(RunFolder run, ContrastThresholds? thresholds = null, SolverOptions? solver = null,
+        IReadOnlyList<(string First, string Second)>? dualReporters = null)
     {
+        var reporterSplits = (dualReporters ?? []).Select(pair => DualReporters(run, pair.First, pair.Second)).ToArray();
         var manifest = run.Manifest;
         CompileOptions? options = manifest.Arguments.TryGetValue("size", out var sizeText) && double.TryParse(sizeText, NumberStyles.Float, CultureInfo.InvariantCulture, out var size)
             ? new CompileOptions(SizeOverride: size)
@@ -130,7 +142,21 @@ public static class RunContrast
             if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name),
                 OscillationOf(oscillation, series.Name, thresholdsInForce), phases));
         }
-        return new RunContrastResult(run, network, contrasts, expansion, failure) { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation };
+        return new RunContrastResult(run, network, contrasts, expansion, failure)
+            { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation, DualReporters = reporterSplits };
+    }
+
+    /// <summary>The dual-reporter split of species <paramref name="first"/> and <paramref name="second"/> at every grid time, from the run's moments and covariances.</summary>
+    private static DualReporterSplit DualReporters(RunFolder run, string first, string second)
+    {
+        var c = run.Quantities.FirstOrDefault(q => q.Name == first) ?? throw new AnalysisInputException($"--dual-reporters: '{first}' is not a species of the run");
+        var y = run.Quantities.FirstOrDefault(q => q.Name == second) ?? throw new AnalysisInputException($"--dual-reporters: '{second}' is not a species of the run");
+        var stored = run.Covariances.FirstOrDefault(p => (p.First == first && p.Second == second) || (p.First == second && p.Second == first))
+            ?? throw new AnalysisInputException($"--dual-reporters {first}:{second}: the run holds no covariance of the two (covariances.parquet); "
+                + $"run simulate again with --covariance-pairs {first}:{second}");
+        var points = run.Times.Select((_, k) => DualReporterNoise.At(stored.Replicates[k], c.Mean[k], c.Variance[k], y.Mean[k], y.Variance[k],
+            stored.Covariance[k], stored.StandardError[k])).ToArray();
+        return new DualReporterSplit(first, second, points);
     }
 
     private static QuantityOscillation? OscillationOf(RunOscillation? run, string quantity, ContrastThresholds thresholds)

@@ -24,9 +24,11 @@ internal static class ContrastCommand
             if (!Directory.Exists(dir)) throw new UserInputException($"'{Paths.Shown(dir)}' is not a folder written by simulate");
             if (!File.Exists(Path.Combine(dir, Storage.RunFiles.Manifest)))
                 throw new UserInputException($"'{Paths.Shown(dir)}' has no {Storage.RunFiles.Manifest}: it is not a folder written by simulate");
-            (string, string)? pair = parsed.GetValue(options.Pair) is null ? null
-                : options.PairOf(parsed, Network.ModelLoader.LoadText(Storage.RunFolder.Read(dir).ModelText, "model").Model?.Network.Species ?? []);
-            var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap), parsed.GetValue(takeOver), pair);
+            // The species are read only when an option names some, since reading the folder is not free.
+            IReadOnlyList<string> Species() => Network.ModelLoader.LoadText(Storage.RunFolder.Read(dir).ModelText, "model").Model?.Network.Species ?? [];
+            (string, string)? pair = parsed.GetValue(options.Pair) is null ? null : options.PairOf(parsed, Species());
+            var reporters = parsed.GetValue(options.DualReporters) is null ? [] : options.DualReportersOf(parsed, Species());
+            var (contrast, files) = ContrastOutputs.Write(dir, thresholds, times, parsed.GetValue(options.Heatmap), parsed.GetValue(takeOver), pair, reporters);
             foreach (var warning in contrast.Run.Warnings) parsed.InvocationConfiguration.Error.WriteLine($"warning: {warning}");
             var writer = parsed.InvocationConfiguration.Output;
             writer.Write(ContrastOptions.RenderVerdicts(contrast));

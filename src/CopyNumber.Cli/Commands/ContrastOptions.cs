@@ -21,9 +21,11 @@ internal sealed class ContrastOptions
     public Option<string?> Heatmap { get; } = new("--heatmap") { Description = "Species or readout for the distribution heatmap." };
     public Option<string?> Pair { get; } = new("--pair") { Description = "Two species as A,B: their joint histogram at the histogram times (pair.parquet, counted over the stored paths; simulate then stores every replicate's path unless --paths says otherwise)." };
 
+    public Option<string?> DualReporters { get; } = new("--dual-reporters") { Description = "Pairs of identical, independent reporter species in one cell as A:B[,C:D]: their noise split into intrinsic and extrinsic parts by the dual-reporter identities (report section 'Noise'; needs the pair's covariance, which a network of up to 10 species has by default)." };
+
     public void AddTo(Command command)
     {
-        foreach (var option in new Option[] { Z, FalseAlarmRate, MeanShift, Noise, Extinction, MinimumReplicates, At, Heatmap, Pair })
+        foreach (var option in new Option[] { Z, FalseAlarmRate, MeanShift, Noise, Extinction, MinimumReplicates, At, Heatmap, Pair, DualReporters })
             command.Options.Add(option);
     }
 
@@ -87,6 +89,25 @@ internal sealed class ContrastOptions
             if (!species.Contains(name, StringComparer.Ordinal))
                 throw new UserInputException($"--pair: '{name}' is not a species of the model (species: {string.Join(", ", species)})");
         return (parts[0], parts[1]);
+    }
+
+    /// <summary>The reporter pairs of --dual-reporters A:B,C:D, checked against the model's species; empty when it was not given.</summary>
+    public IReadOnlyList<(string First, string Second)> DualReportersOf(ParseResult parsed, IReadOnlyList<string> species)
+    {
+        var text = parsed.GetValue(DualReporters);
+        if (string.IsNullOrWhiteSpace(text)) return [];
+        var pairs = new List<(string, string)>();
+        foreach (var item in text.Split(',', StringSplitOptions.TrimEntries))
+        {
+            var names = item.Split(':', StringSplitOptions.TrimEntries);
+            if (names.Length != 2 || names[0].Length == 0 || names[0] == names[1])
+                throw new UserInputException($"--dual-reporters takes pairs of two different species as A:B, separated by commas (got '{item}')");
+            foreach (var name in names)
+                if (!species.Contains(name, StringComparer.Ordinal))
+                    throw new UserInputException($"--dual-reporters: '{name}' is not a species of the model (species: {string.Join(", ", species)})");
+            pairs.Add((names[0], names[1]));
+        }
+        return pairs;
     }
 
     /// <summary>The verdict table printed at the end of contrast and simulate.</summary>

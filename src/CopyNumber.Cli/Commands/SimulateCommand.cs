@@ -52,6 +52,7 @@ internal static class SimulateCommand
                 : throw new UserInputException("simulate needs a MODEL file (or --resume DIR, which reads the stored model)");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, loaded.Network, timeGrid.Until);
             var pair = contrastOptions.PairOf(parsed, loaded.Network.Species);
+            var reporters = contrastOptions.DualReportersOf(parsed, loaded.Network.Species);
             var specification = ensemble.Bind(parsed, loaded, timeGrid, storedSettings, "simulate");
             // A joint histogram is counted over stored paths: with --pair and no --paths, every replicate's path is kept.
             if (pair is not null && stored is null && !ensemble.PathsGiven(parsed))
@@ -96,7 +97,7 @@ internal static class SimulateCommand
             if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && !parsed.GetValue(noContrast))
             {
                 error.WriteLine("contrasting with the rate equations (the tables are complete; an interruption here loses nothing)");
-                var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap, pair: pair);
+                var (contrast, files) = Reports.ContrastOutputs.Write(folder, thresholds, histogramTimes, heatmap, pair: pair, dualReporters: reporters);
                 writer.Write("\n" + ContrastOptions.RenderVerdicts(contrast));
                 writer.WriteLine($"wrote {Paths.Shown(files)}");
             }

@@ -72,6 +72,9 @@ public sealed class RunFolder
     /// </summary>
     public IReadOnlyList<StoredNoiseSplit> Noise { get; private init; } = [];
 
+    /// <summary>The covariances of species pairs (<c>covariances.parquet</c>), when the run accumulated any; empty otherwise.</summary>
+    public IReadOnlyList<StoredCovariance> Covariances { get; private init; } = [];
+
     /// <summary>True when paths.parquet exists.</summary>
     public bool HasPaths => _paths is not null;
 
@@ -194,6 +197,15 @@ public sealed class RunFolder
             tables.Note(RunFiles.Noise, table.Metadata);
             noise = NoiseTable.Read(table, times);
         }
-        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths) { Warnings = warnings, PartOfRun = partOfRun, Noise = noise };
+        var covariancesFile = System.IO.Path.Combine(folder, RunFiles.Covariances);
+        IReadOnlyList<StoredCovariance> covariances = [];
+        if (File.Exists(covariancesFile))
+        {
+            using var table = ParquetTableReader.Open(covariancesFile);
+            tables.Note(RunFiles.Covariances, table.Metadata);
+            covariances = CovariancesTable.Read(table, times);
+        }
+        return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths)
+            { Warnings = warnings, PartOfRun = partOfRun, Noise = noise, Covariances = covariances };
     }
 }

@@ -51,4 +51,44 @@ public static class CovariancesTable
         writer.WriteRowGroup([time, first, second, replicates, covariance, error, correlation]);
         writer.Complete();
     }
+
+    /// <summary>Reads the table back, one series per pair with its values at <paramref name="times"/> (NaN where it has no row).</summary>
+    /// <exception cref="RunFolderException">The table holds a time that is not in <paramref name="times"/>.</exception>
+    internal static IReadOnlyList<StoredCovariance> Read(ParquetTableReader table, IReadOnlyList<double> times)
+    {
+        var index = times.Select((t, k) => (t, k)).ToDictionary(p => p.t, p => p.k);
+        var time = table.Doubles("time");
+        var first = table.Strings("species_a");
+        var second = table.Strings("species_b");
+        var replicates = table.Longs("replicates");
+        var covariance = table.Doubles("covariance");
+        var error = table.Doubles("covariance_se");
+        var pairs = new Dictionary<(string, string), StoredCovariance>();
+        var order = new List<(string, string)>();
+        for (var row = 0; row < time.Length; row++)
+        {
+            if (!index.TryGetValue(time[row], out var k))
+                throw table.Damaged($"{RunFiles.Covariances} has time {time[row].ToString("R", System.Globalization.CultureInfo.InvariantCulture)}, which the run's grid does not have");
+            var key = (first[row], second[row]);
+            if (!pairs.TryGetValue(key, out var pair))
+            {
+                pair = new StoredCovariance(first[row], second[row], new long[times.Count],
+                    Enumerable.Repeat(double.NaN, times.Count).ToArray(), Enumerable.Repeat(double.NaN, times.Count).ToArray());
+                pairs.Add(key, pair);
+                order.Add(key);
+            }
+            pair.Replicates[k] = replicates[row];
+            pair.Covariance[k] = covariance[row];
+            pair.StandardError[k] = error[row];
+        }
+        return order.Select(key => pairs[key]).ToArray();
+    }
 }
+
+/// <summary>One species pair's covariance as read from <c>covariances.parquet</c>, by grid time.</summary>
+/// <param name="First">The first species.</param>
+/// <param name="Second">The second species.</param>
+/// <param name="Replicates">Replicates behind each value.</param>
+/// <param name="Covariance">The unbiased sample covariance, copies².</param>
+/// <param name="StandardError">Its normal-theory standard error, copies².</param>
+public sealed record StoredCovariance(string First, string Second, long[] Replicates, double[] Covariance, double[] StandardError);

@@ -29,7 +29,7 @@ public sealed class NoiseSectionTests
             Assert.True(run.ExitCode == 0, run.Error);
             var report = File.ReadAllText(Path.Combine(folder, "run", "report.md"));
             Assert.Contains("## Noise: intrinsic and extrinsic", report);
-            var row = report.Split('\n').Single(l => l.StartsWith("| X | 4 |", StringComparison.Ordinal));
+            var row = report.Split('\n').Single(l => l.StartsWith("| X | cells | 4 |", StringComparison.Ordinal));
             var cells = row.Split('|', StringSplitOptions.TrimEntries)[1..^1];
             var (intrinsic, intrinsicSe) = ValueAndError(cells[4]);
             var (extrinsic, extrinsicSe) = ValueAndError(cells[5]);
@@ -47,6 +47,87 @@ public sealed class NoiseSectionTests
         {
             Directory.Delete(folder, recursive: true);
         }
+    }
+
+    [Fact]
+    public void Dual_reporters_under_a_shared_fluctuating_factor_give_the_exact_intrinsic_and_extrinsic_noise()
+    {
+        // Elowitz, Levine, Siggia & Swain (2002, Science 297:1183): two identical reporters c and y made at rate k·F from a
+        // shared factor F (itself made at kf, lost at gf) and lost at g. The network is linear, so its stationary covariance
+        // solves the Lyapunov equation A·Σ + Σ·Aᵀ + B = 0 exactly (moment equations close for linear propensities; common
+        // practice, e.g. Elf & Ehrenberg 2003, Genome Res. 13:2475), solved here. The identities give
+        // η²_int = (Var c − Cov(c, y))/c̄² and η²_ext = Cov(c, y)/c̄²; by hand (Swain et al. 2002) 1/c̄ and (1/F̄)·g/(g + gf).
+        const double kf = 5, gf = 0.5, k = 1, g = 0.5;
+        var folder = Path.Combine(Path.GetTempPath(), $"copynumber-reporters-{Guid.NewGuid():N}");
+        Directory.CreateDirectory(folder);
+        var model = Path.Combine(folder, "two_reporters.cnet");
+        File.WriteAllText(model, $"""
+            # two identical reporters driven by one fluctuating factor; illustrative
+            species
+              F = 10
+              c = 20
+              y = 20
+            parameters
+              kf = {kf}
+              gf = {gf}
+              k = {k}
+              g = {g}
+            reactions
+              factor_made: 0 -> F      mass kf
+              factor_lost: F -> 0      mass gf
+              c_made:      F -> F + c  mass k
+              c_lost:      c -> 0      mass g
+              y_made:      F -> F + y  mass k
+              y_lost:      y -> 0      mass g
+            """);
+        try
+        {
+            var run = CliRun.Of("simulate", model, "--until", "60", "--every", "30", "--replicates", "8000", "--seed", "2002",
+                "--dual-reporters", "c:y", "--out", Path.Combine(folder, "run"));
+            Assert.True(run.ExitCode == 0, run.Error);
+            var (factor, reporter) = (kf / gf, k * (kf / gf) / g);
+            var a = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseOfArray(new[,] { { -gf, 0, 0 }, { k, -g, 0 }, { k, 0, -g } });
+            var b = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseDiagonal(3, 3, i => i == 0 ? kf + gf * factor : k * factor + g * reporter);
+            var sigma = Lyapunov(a, b);
+            var exactIntrinsic = (sigma[1, 1] - sigma[1, 2]) / (reporter * reporter);
+            var exactExtrinsic = sigma[1, 2] / (reporter * reporter);
+            // The Lyapunov solution against the closed forms by hand: both parts 0.05 for these values.
+            Assert.Equal(1 / reporter, exactIntrinsic, 12);
+            Assert.Equal(1 / factor * g / (g + gf), exactExtrinsic, 12);
+
+            var report = File.ReadAllText(Path.Combine(folder, "run", "report.md"));
+            var row = report.Split('\n').Single(l => l.StartsWith("| c:y | reporters | 60 |", StringComparison.Ordinal));
+            var cells = row.Split('|', StringSplitOptions.TrimEntries)[1..^1];
+            var (intrinsic, intrinsicSe) = ValueAndError(cells[4]);
+            var (extrinsic, extrinsicSe) = ValueAndError(cells[5]);
+            // Five printed standard errors (normal tail below 10⁻⁶ per part), and errors small enough to mean something.
+            Assert.True(Math.Abs(intrinsic - exactIntrinsic) <= 5 * intrinsicSe, $"intrinsic {intrinsic} ± {intrinsicSe}, exact {exactIntrinsic}");
+            Assert.True(Math.Abs(extrinsic - exactExtrinsic) <= 5 * extrinsicSe, $"extrinsic {extrinsic} ± {extrinsicSe}, exact {exactExtrinsic}");
+            Assert.True(intrinsicSe < 0.1 * exactIntrinsic && extrinsicSe < 0.2 * exactExtrinsic, row);
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
+    [Fact]
+    public void A_reporter_that_is_not_a_species_is_refused_before_the_run()
+    {
+        var run = CliRun.Of("simulate", CliRun.Scenario("toggle_pair.cnet"), "--until", "1", "--every", "1", "--replicates", "10", "--dual-reporters", "U:W");
+        Assert.Equal(2, run.ExitCode);
+        Assert.Contains("'W' is not a species", run.Error);
+        Assert.DoesNotContain("   at ", run.Error);
+    }
+
+    // Σ from A·Σ + Σ·Aᵀ = −B, vectorised: (I ⊗ A + A ⊗ I)·vec Σ = −vec B (common practice).
+    private static MathNet.Numerics.LinearAlgebra.Matrix<double> Lyapunov(MathNet.Numerics.LinearAlgebra.Matrix<double> a, MathNet.Numerics.LinearAlgebra.Matrix<double> b)
+    {
+        var n = a.RowCount;
+        var identity = MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.DenseIdentity(n);
+        var system = identity.KroneckerProduct(a) + a.KroneckerProduct(identity);
+        var solution = system.Solve(-MathNet.Numerics.LinearAlgebra.Vector<double>.Build.DenseOfEnumerable(b.EnumerateColumns().SelectMany(c => c)));
+        return MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.Dense(n, n, (i, j) => solution[j * n + i]);
     }
 
     // "0.2513 ± 0.0112", with the Markdown escapes of the report removed.
