@@ -189,23 +189,19 @@ public sealed class RunFolder
             var speciesColumns = table.ColumnNames.Where(c => c is not ("replicate" or "time")).ToDictionary(c => c, c => table.Longs(c));
             paths = new PathColumns(table.Longs("replicate"), table.Doubles("time"), speciesColumns);
         }
-        var noiseFile = System.IO.Path.Combine(folder, RunFiles.Noise);
-        IReadOnlyList<StoredNoiseSplit> noise = [];
-        if (File.Exists(noiseFile))
-        {
-            using var table = ParquetTableReader.Open(noiseFile);
-            tables.Note(RunFiles.Noise, table.Metadata);
-            noise = NoiseTable.Read(table, times);
-        }
-        var covariancesFile = System.IO.Path.Combine(folder, RunFiles.Covariances);
-        IReadOnlyList<StoredCovariance> covariances = [];
-        if (File.Exists(covariancesFile))
-        {
-            using var table = ParquetTableReader.Open(covariancesFile);
-            tables.Note(RunFiles.Covariances, table.Metadata);
-            covariances = CovariancesTable.Read(table, times);
-        }
+        var noise = ReadOptional(folder, RunFiles.Noise, tables, table => NoiseTable.Read(table, times));
+        var covariances = ReadOptional(folder, RunFiles.Covariances, tables, table => CovariancesTable.Read(table, times));
         return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths)
             { Warnings = warnings, PartOfRun = partOfRun, Noise = noise, Covariances = covariances };
+    }
+
+    /// <summary>A table the run writes only in some cases (a decomposition, covariances): read when present, checked against the manifest like the others; empty when absent.</summary>
+    private static IReadOnlyList<T> ReadOptional<T>(string folder, string file, TableAgreement tables, Func<ParquetTableReader, IReadOnlyList<T>> read)
+    {
+        var path = System.IO.Path.Combine(folder, file);
+        if (!File.Exists(path)) return [];
+        using var table = ParquetTableReader.Open(path);
+        tables.Note(file, table.Metadata);
+        return read(table);
     }
 }
