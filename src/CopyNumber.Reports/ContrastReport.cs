@@ -103,7 +103,7 @@ public static class ContrastReport
         }
 
         if (OscillationSection.Build(contrast.Oscillation, contrast.Network, timeUnit) is { } oscillationSection) sections.Add(oscillationSection);
-        if (NoiseSection.For(run, timeUnit, scheduleChanges, contrast.DualReporters) is { } noiseSection) sections.Add(noiseSection);
+        if (NoiseSection.For(contrast, timeUnit, scheduleChanges, thresholds.Z) is { } noiseSection) sections.Add(noiseSection);
 
         var heat = heatmapQuantity
             ?? contrast.Quantities

@@ -20,10 +20,12 @@ internal static class NoiseSection
     private sealed record Split(string Label, string Design, double[] Intrinsic, double[] IntrinsicError, double[] Extrinsic, double[] ExtrinsicError);
 
     /// <summary>The section, or null when the run has no split (no parameter varies per cell and no reporter pair was named).</summary>
-    public static ReportSection? For(RunFolder run, string timeUnit, IReadOnlyList<double> scheduleChanges, IReadOnlyList<DualReporterSplit> dualReporters)
+    public static ReportSection? For(Runs.RunContrastResult contrast, string timeUnit, IReadOnlyList<double> scheduleChanges, double z)
     {
+        var run = contrast.Run;
+        var dualReporters = contrast.DualReporters;
         var splits = run.Noise.Select(Nested).Concat(dualReporters.Select(Dual)).ToList();
-        if (splits.Count == 0) return null;
+        if (splits.Count == 0 && contrast.CellAverage is null && contrast.CellAverageFailure is null) return null;
         var times = run.Times;
         var shown = new[] { times.Length / 2, times.Length - 1 }.Distinct().ToArray();
         var rows = new List<IReadOnlyList<string>>();
@@ -47,18 +49,58 @@ internal static class NoiseSection
             paragraphs.Add("Pairs of identical, independent reporters in one cell (design 'reporters') split the noise by the identities of Elowitz, Levine, Siggia & Swain (2002): "
                 + "intrinsic ⟨(c − y)²⟩/(2⟨c⟩⟨y⟩), extrinsic Cov(c, y)/(⟨c⟩⟨y⟩), from the run's moments and covariances.parquet; errors by the delta method under normal theory.");
         paragraphs.Add("Both parts are squared coefficients of variation (variance over squared mean) and add up to the total; ± is one standard error.");
-        var table = new ReportTable(
-            ["quantity", "design", $"time ({timeUnit})", "CV² total", "CV² intrinsic", "CV² extrinsic", "extrinsic share of variance"], rows);
+        var tables = new List<ReportTable>();
+        if (rows.Count > 0)
+            tables.Add(new ReportTable(["quantity", "design", $"time ({timeUnit})", "CV² total", "CV² intrinsic", "CV² extrinsic", "extrinsic share of variance"], rows));
+        if (contrast.CellAverage is { } average)
+        {
+            paragraphs.Add($"The mean cell and the average of cells: the rate equations solved at the mean parameters (the contrast's deterministic column) "
+                + $"and solved for each of the run's first {average.Draws} cells and averaged (± its Monte Carlo standard error). Where the dynamics depend "
+                + "nonlinearly on a varying parameter the two differ, and only the second is the deterministic picture of the population's mean. "
+                + $"A deviation of the ensemble mean counts as resolved beyond {Format(z)} combined standard errors.");
+            tables.Add(CellAverageTable(run, average, z, timeUnit));
+        }
+        else if (contrast.CellAverageFailure is { } failure)
+            paragraphs.Add($"The rate equations averaged over cells could not be computed: {failure}");
         // A quantity that never varies (a conserved gene count) has nothing to split and gets no panel.
         var drawn = splits.Where(s => s.Intrinsic.Zip(s.Extrinsic).Any(p => p.First is not (0 or double.NaN) || p.Second is not (0 or double.NaN))).ToList();
-        if (drawn.Count == 0) return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, [table], []);
+        if (drawn.Count == 0) return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, tables, []);
         var panels = drawn.Take(MaxPanels).Select(split => Panel(split, times, timeUnit, scheduleChanges, drawn.Count > 1 ? 0.8f : 1f)).ToList();
         var columns = panels.Count == 1 ? 1 : 2;
         var height = 420 * ((panels.Count + columns - 1) / columns);
         var caption = "Intrinsic and extrinsic squared coefficients of variation over time; the shaded bands are ±2 standard errors"
             + (drawn.Count > MaxPanels ? $" (the first {MaxPanels} of {drawn.Count} quantities that vary)." : ".");
         var figure = new ReportFigure("noise-split.png", caption, FigureLook.Render(panels, columns, 900, Math.Max(FigureLook.MinPixels, height)));
-        return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, [table], [figure]);
+        return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, tables, [figure]);
+    }
+
+    /// <summary>At the final time, per quantity: the ensemble mean against the rate equations of the mean cell and of the average of cells.</summary>
+    private static ReportTable CellAverageTable(RunFolder run, Analysis.Noise.CellAverage average, double z, string timeUnit)
+    {
+        var k = run.Times.Length - 1;
+        var rows = new List<IReadOnlyList<string>>();
+        foreach (var q in run.Quantities)
+        {
+            var column = average.ColumnIndex(q.Name);
+            if (column < 0) continue;
+            var (mean, error) = (q.Mean[k], q.StandardError[k]);
+            var meanCell = q.Deterministic[k];
+            var (cells, cellsError) = (average.Mean[k, column], average.StandardError[k, column]);
+            rows.Add([
+                q.Name, $"{Format(mean)} ± {Format(error)}", Format(meanCell), Deviation(mean, meanCell, error, z),
+                $"{Format(cells)} ± {Format(cellsError)}", Deviation(mean, cells, Math.Sqrt(error * error + cellsError * cellsError), z),
+            ]);
+        }
+        return new ReportTable(["quantity", "ensemble mean", "mean cell", "deviation from it", "average of cells", "deviation from it"], rows,
+            $"At the final time t = {Format(run.Times[k])} {(timeUnit == "time" ? "" : timeUnit)}".TrimEnd() + ".");
+    }
+
+    private static string Deviation(double mean, double reference, double error, double z)
+    {
+        if (!(Math.Abs(reference) > 0) || !double.IsFinite(mean)) return "-";
+        var relative = (mean - reference) / reference;
+        var resolved = Math.Abs(mean - reference) > z * error;
+        return $"{(relative >= 0 ? "+" : "")}{Percent(relative)}{(resolved ? " (resolved)" : " (within error)")}";
     }
 
     private static Split Nested(StoredNoiseSplit s)

@@ -26,6 +26,15 @@ public sealed record RunContrastResult(
     /// <summary>Where the error bars of the means come from: the sampling error of an ensemble, or an exact run's bounds.</summary>
     public string ErrorSource { get; init; } = RunContrast.SamplingErrorSource;
 
+    /// <summary>
+    /// When parameters vary per cell: the rate equations averaged over the run's first cells ("the average of cells"), beside
+    /// <see cref="RunFolder"/>'s deterministic column, which is the rate equations of the mean cell; null otherwise.
+    /// </summary>
+    public CellAverage? CellAverage { get; init; }
+
+    /// <summary>Why <see cref="CellAverage"/> is missing although parameters vary (a cell's rate equations failed); null otherwise.</summary>
+    public string? CellAverageFailure { get; init; }
+
     /// <summary>The intrinsic/extrinsic split of each pair of identical reporters the contrast was asked for (<c>--dual-reporters</c>); empty otherwise.</summary>
     public IReadOnlyList<DualReporterSplit> DualReporters { get; init; } = [];
 
@@ -112,6 +121,19 @@ public static class RunContrast
                 failure = e.Message;
             }
         }
+        CellAverage? cellAverage = null;
+        string? cellAverageFailure = null;
+        if (!exact && network.Variability.Any)
+        {
+            try
+            {
+                cellAverage = CellAverageRateEquations.Solve(network, grid, solver ?? new SolverOptions(), manifest.Seed);
+            }
+            catch (Exception e) when (e is SolverFailureException or ArithmeticException)
+            {
+                cellAverageFailure = e.Message;
+            }
+        }
         var switching = SwitchingJson.Read(manifest, network, grid.Until).Where(x => x.Replicates > 0).ToDictionary(x => x.Species);
         // The phases between the schedule's changes, cut where the timeline cuts (its coincidence rule): verdicts per phase.
         var phases = ModelPhase.Of(Timeline.Of(network, grid));
@@ -143,7 +165,8 @@ public static class RunContrast
                 OscillationOf(oscillation, series.Name, thresholdsInForce), phases));
         }
         return new RunContrastResult(run, network, contrasts, expansion, failure)
-            { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation, DualReporters = reporterSplits };
+            { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation, DualReporters = reporterSplits,
+              CellAverage = cellAverage, CellAverageFailure = cellAverageFailure };
     }
 
     /// <summary>The dual-reporter split of species <paramref name="first"/> and <paramref name="second"/> at every grid time, from the run's moments and covariances.</summary>

@@ -27,7 +27,9 @@ public static class RateEquationSolver
     /// The integration failed, a state or rate became non-finite, or a scheduled change gave a non-finite value
     /// or drove a species negative; the message names the time and the species or parameter.
     /// </exception>
-    public static DeterministicSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options)
+    /// <param name="parameterValues">Values of every parameter at time 0 in place of the model's (one cell's draw of the
+    /// parameters that vary per cell); null for the model's own.</param>
+    public static DeterministicSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options, IReadOnlyList<double>? parameterValues = null)
     {
         ArgumentNullException.ThrowIfNull(network);
         ArgumentNullException.ThrowIfNull(grid);
@@ -36,6 +38,12 @@ public static class RateEquationSolver
         ModelSupport.RequireRateEquations(network);
 
         var system = new RateEquationSystem(network);
+        if (parameterValues is not null)
+        {
+            if (parameterValues.Count != network.Parameters.Count)
+                throw new ArgumentException($"{parameterValues.Count} parameter values for {network.Parameters.Count} parameters", nameof(parameterValues));
+            for (var p = 0; p < parameterValues.Count; p++) system.SetParameter(p, parameterValues[p]);
+        }
         var parameters = system.ParameterArray;
         var speciesCount = network.Species.Count;
         var readouts = network.Readouts;

@@ -130,6 +130,56 @@ public sealed class NoiseSectionTests
         return MathNet.Numerics.LinearAlgebra.Matrix<double>.Build.Dense(n, n, (i, j) => solution[j * n + i]);
     }
 
+    [Fact]
+    public void The_rate_equations_of_the_average_cell_describe_the_mean_where_those_of_the_mean_cell_do_not()
+    {
+        // Immigration at k and loss at a rate d that differs from cell to cell, gamma with mean 1 and CV 0.5, from X = 0:
+        // each cell follows x(t; d) = (k/d)(1 − e^(−d·t)) exactly in the mean (a linear network), so the population mean is
+        // E_d[x(t; d)] (law of total expectation, common practice), computed here by quadrature over the gamma law, while
+        // the mean cell gives x(t; 1). At t = 50, E[k/d] = k/(1 − CV²) = 26.7 against 20 (gamma moments, common practice).
+        const double k = 20, cv = 0.5, until = 50;
+        var folder = Path.Combine(Path.GetTempPath(), $"copynumber-average-cell-{Guid.NewGuid():N}");
+        Directory.CreateDirectory(folder);
+        var model = Path.Combine(folder, "varying_loss.cnet");
+        File.WriteAllText(model, $"""
+            # immigration with a loss rate that differs from cell to cell; illustrative
+            species
+              X = 0
+            parameters
+              k = {k}
+              d = 1  varies gamma cv {cv}
+            reactions
+              arrive: 0 -> X  mass k
+              leave:  X -> 0  mass d
+            """);
+        try
+        {
+            var run = CliRun.Of("simulate", model, "--until", "50", "--every", "25", "--replicates", "8000", "--seed", "11", "--out", Path.Combine(folder, "run"));
+            Assert.True(run.ExitCode == 0, run.Error);
+            var shape = 1 / (cv * cv);
+            var gamma = new MathNet.Numerics.Distributions.Gamma(shape, shape); // rate = shape: mean 1
+            var exact = MathNet.Numerics.Integrate.OnClosedInterval(
+                d => gamma.Density(d) * k / d * (1 - Math.Exp(-d * until)), 1e-9, 30, 1e-10);
+            Assert.InRange(exact, 26.0, 26.7); // by hand: just below k/(1 − CV²) = 26.67, the transient of the slowest cells
+
+            var report = File.ReadAllText(Path.Combine(folder, "run", "report.md")).Replace("\\", "", StringComparison.Ordinal);
+            var row = report.Split('\n').Single(l => l.StartsWith("| X | ", StringComparison.Ordinal) && l.Contains("resolved", StringComparison.Ordinal));
+            var cells = row.Split('|', StringSplitOptions.TrimEntries)[1..^1];
+            var (mean, meanSe) = ValueAndError(cells[1]);
+            Assert.Equal(20, double.Parse(cells[2], CultureInfo.InvariantCulture), 6);
+            Assert.EndsWith("(resolved)", cells[3], StringComparison.Ordinal);
+            var (average, averageSe) = ValueAndError(cells[4]);
+            Assert.EndsWith("(within error)", cells[5], StringComparison.Ordinal);
+            // The ensemble and the average of the run's first 200 cells both estimate the exact population mean.
+            Assert.True(Math.Abs(mean - exact) <= 5 * meanSe, $"ensemble mean {mean} ± {meanSe}, exact {exact}");
+            Assert.True(Math.Abs(average - exact) <= 5 * averageSe, $"average of cells {average} ± {averageSe}, exact {exact}");
+        }
+        finally
+        {
+            Directory.Delete(folder, recursive: true);
+        }
+    }
+
     // "0.2513 ± 0.0112", with the Markdown escapes of the report removed.
     private static (double Value, double Error) ValueAndError(string cell)
     {
