@@ -25,6 +25,7 @@ public sealed class TimelineContrastTests
             Assert.DoesNotContain(word, run.Output, StringComparison.Ordinal);
         // The change cuts the run into two phases, each judged on its own (and the grid time at the change opens the second).
         Assert.Contains("verdicts per phase of the schedule", run.Output, StringComparison.Ordinal);
+        Assert.Contains("Verdicts per phase", File.ReadAllText(Path.Combine(scratch.File("run"), "report.md")), StringComparison.Ordinal);
         using var phases = CopyNumber.Storage.ParquetTableReader.Open(Path.Combine(scratch.File("run"), "phases.parquet"));
         Assert.Equal(quantities.Length * 2, phases.Longs("phase").Length);
         Assert.All(phases.Strings("verdicts"), v => Assert.Equal("adequate", v));

@@ -27,7 +27,7 @@ public class ChecksumTests
         Assert.Equal(0, CliRun.Of([.. Simulate(model, 2000, 7, "--paths", "40", "--no-contrast", "--out", folder)]).ExitCode);
         var flips = new Random(6);
         var tables = RunFiles.Tables.Where(t => File.Exists(Path.Combine(folder, t))).ToArray();
-        Assert.Equal(5, tables.Length); // all but validation.parquet, which only tau-leaping runs write
+        Assert.Equal(6, tables.Length); // all but validation.parquet, which only tau-leaping runs write (covariances.parquet included)
         foreach (var table in tables)
         {
             var copy = CopyOf(folder, scratch.File($"flipped-{table}"));
@@ -66,7 +66,7 @@ public class ChecksumTests
                 AssertNoStackTrace(merge);
             }
         }
-        Assert.Equal(10, attempt);
+        Assert.Equal(12, attempt); // six tables in each shard, covariances.parquet among them
     }
 
     /// <summary>
