@@ -24,6 +24,9 @@ internal static class ExpansionIntegration
         ArgumentNullException.ThrowIfNull(options);
         if (options.Check() is { } problem) throw new ArgumentException(problem, nameof(options));
         ModelSupport.RequireRateEquations(network);
+        // The covariance's jump at division (C ↦ M·C·Mᵀ plus the partitioning variance) is not carried out yet.
+        if (network.Cycle is not null)
+            throw new AnalysisInputException(ModelSupport.CycleRefusal("the linear noise approximation (and the corrected mean)"));
 
         var system = new ExpansionSystem(network, withMeanCorrection);
         var s = system.SpeciesCount;

@@ -21,6 +21,8 @@ public static class SimulatorFactory
         ArgumentNullException.ThrowIfNull(options);
         options.Validate();
         var large = network.Stoichiometry.ReactionCount > LinearSelectionLimit;
+        if (network.Cycle is not null && method == SimulationMethod.TauLeap)
+            throw new UnsupportedModelException(ModelSupport.CycleProblems(network, "tau-leaping"));
         if (network.TimeDependence.Any && method is SimulationMethod.NextReaction or SimulationMethod.CompositionRejection)
             throw new UnsupportedModelException(ModelSupport.TimeProblems(network,
                 method == SimulationMethod.NextReaction ? "the next reaction method" : "composition-rejection"));
