@@ -100,6 +100,17 @@ public sealed class CellCycle
     public double DrawLength(ref Xoshiro256StarStar rng) =>
         LengthCv == 0 ? MeanLength : MeanLength * LengthCv * LengthCv * GammaSampler.Sample(ref rng, 1 / (LengthCv * LengthCv));
 
+    /// <summary>The cycle in words, for <c>inspect</c>.</summary>
+    public string Describe(ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        var length = LengthCv == 0 ? $"length {MeanLength:G6} (fixed)" : $"length gamma, mean {MeanLength:G6}, CV {LengthCv:G6}";
+        var genes = Genes.Count == 0 ? "no gene species" : $"genes {string.Join(", ", Genes.Select(g => network.Species[g]))} double at phase {GenePhase:G6}";
+        return $"{(Growth == CellGrowth.Exponential ? "exponential" : "linear")} growth from size {network.Size:G6} to twice it, {length}, {genes}, " +
+               $"{(Split == CellSplit.Binomial ? "binomial" : "even (halves)")} split at division; one lineage followed " +
+               "(division changes every count, so the conservation laws of N hold only between divisions)";
+    }
+
     /// <summary>Whether species <paramref name="species"/> is one of the gene species.</summary>
     public bool IsGene(int species) => Genes.Contains(species);
 
