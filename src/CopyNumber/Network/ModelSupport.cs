@@ -40,8 +40,8 @@ public static class ModelSupport
     /// Why <paramref name="method"/> cannot take <paramref name="network"/>'s cell cycle (growth, gene doubling,
     /// division); empty without a cycle. The direct method carries a cycle out exactly (V(t) by thinning,
     /// divisions as stops), the next reaction method and composition-rejection when no propensity depends on
-    /// the volume, the rate equations as the mean cell; the master equation, tau-leaping, the expansions and
-    /// SBML export do not.
+    /// the volume, the rate equations and the expansions as the mean cell; the master equation, tau-leaping
+    /// and SBML export do not.
     /// </summary>
     public static IReadOnlyList<Diagnostic> CycleProblems(ReactionNetwork network, string method)
     {

@@ -83,6 +83,56 @@ public sealed class CellCycleModelTests
         Assert.Equal(Produced(T) + (40 - Produced(T)) / 32, solution[grid.Count - 1, p], 1e-6 * Produced(T));
     }
 
+    [Theory]
+    [InlineData("binomial")]
+    [InlineData("halves")]
+    public void TheNoiseApproximationJumpsAtDivisionByThePartitioningVariance(string split)
+    {
+        // Linear production, so the LNA is exact between divisions (common practice: van Kampen 2007, quoted from memory):
+        // Var P(a) = σ²_c + Λ(a). At division C ↦ M·C·Mᵀ + Σ with M = ½ and Σ = E[N]/4 for the binomial split
+        // (law of total variance), ⅛ for halves (the LNA's rule, P(N odd) taken as ½): σ²_{c+1} = (σ²_c + Λ(T))/4 + Σ.
+        var network = Load("  make: gene -> gene + P  mass k\n  import: 0 -> P  mass q", $"length 30\n  genes gene double at 0.25\n  split {split}");
+        var grid = new TimeGrid(until: 4 * T, every: T / 6);
+        var lna = LinearNoiseApproximation.Solve(network, grid, new SolverOptions());
+        var p = lna.ColumnIndex("P");
+        double Produced(double a) => (a < T / 4 ? 1.5 * a : 1.5 * T / 4 + 3.0 * (a - T / 4)) + 0.5 * Size * T * (Math.Pow(2, a / T) - 1) / Math.Log(2);
+        double mean = 40, variance = 0;
+        for (var point = 0; point < grid.Count; point++)
+        {
+            var cycle = (int)Math.Floor(grid[point] / T + 1e-9);
+            var age = grid[point] - cycle * T;
+            if (point > 0 && age < 1e-9)
+                (mean, variance) = ((mean + Produced(T)) / 2, (variance + Produced(T)) / 4 + (split == "binomial" ? (mean + Produced(T)) / 4 : 0.125));
+            Assert.Equal(mean + Produced(age), lna.RateEquationValue(point, p), 1e-6 * (mean + Produced(age)));
+            Assert.Equal(variance + Produced(age), lna.Variance(point, p), 1e-5 * (variance + Produced(age)) + 1e-9);
+            Assert.Equal(0, lna.Variance(point, lna.ColumnIndex("gene")), 9); // one gene species: its copies are shared exactly
+        }
+    }
+
+    [Fact]
+    public void GenesInTwoStatesAreSharedWithoutReplacement()
+    {
+        // A promoter that never switches, one copy on and one off, doubled at phase ½ to two and two: the daughter keeps 2
+        // of the 4 copies, a uniform subset, so g_on' is hypergeometric with variance n(N − n)/(N − 1)·p(1 − p)
+        // = 2·2/3·¼ = 1/3 and Cov(g_on', g_off') = −1/3 (common practice: sampling without replacement).
+        var network = ModelLoader.LoadText("""
+            species
+              g_off = 1
+              g_on = 1
+              P = 0
+            reactions
+              make: g_on -> g_on + P  mass 1
+            cycle
+              length 10
+              genes g_off g_on double at 0.5
+            """, "genes.cnet").Model!.Network;
+        var lna = LinearNoiseApproximation.Solve(network, new TimeGrid(until: 10, every: 5), new SolverOptions());
+        Assert.Equal(1.0 / 3, lna.Variance(2, lna.ColumnIndex("g_on")), 9);
+        Assert.Equal(1.0 / 3, lna.Variance(2, lna.ColumnIndex("g_off")), 9);
+        Assert.Equal(-1.0 / 3, lna.Covariance(2)[0, 1], 9);
+        Assert.Equal(0, lna.Variance(1, lna.ColumnIndex("g_on")), 9); // before the division the copies are certain
+    }
+
     [Fact]
     public void MethodsThatCannotCarryACycleRefuseItAtItsLine()
     {
@@ -92,7 +142,6 @@ public sealed class CellCycleModelTests
             Assert.Throws<UnsupportedModelException>(() => FiniteStateProjection.Solve(network, new TimeGrid(until: 1, every: 1), new ExactOptions())).Message,
             Assert.Throws<UnsupportedModelException>(() => SimulatorFactory.Create(SimulationMethod.TauLeap, network, new SimulatorOptions())).Message,
             Assert.Throws<UnsupportedModelException>(() => SimulatorFactory.Create(SimulationMethod.NextReaction, network, new SimulatorOptions())).Message,
-            Assert.Throws<AnalysisInputException>(() => LinearNoiseApproximation.Solve(network, new TimeGrid(until: 1, every: 1), new SolverOptions())).Message,
         };
         var loaded = ModelLoader.LoadText(string.Join("\n", "species", "  P = 0", "reactions", "  import: 0 -> P  mass 1", "cycle", "  length 30"), "export.cnet").Model!;
         var export = SbmlExporter.Export(loaded);
