@@ -92,10 +92,6 @@ public sealed class CellCycle
     /// <summary>What the compiler noticed but did not refuse: rate laws that ignore the growing volume.</summary>
     public IReadOnlyList<Diagnostic> Warnings { get; }
 
-    /// <summary>V/V₀ at age <paramref name="age"/> of a cycle of length <paramref name="length"/>.</summary>
-    public double VolumeFactor(double age, double length) =>
-        Growth == CellGrowth.Exponential ? Math.Exp(Math.Log(2) * age / length) : 1 + age / length;
-
     /// <summary>One cycle length: the mean, or a gamma draw with the declared CV (Marsaglia &amp; Tsang 2000).</summary>
     public double DrawLength(ref Xoshiro256StarStar rng) =>
         LengthCv == 0 ? MeanLength : MeanLength * LengthCv * LengthCv * GammaSampler.Sample(ref rng, 1 / (LengthCv * LengthCv));
