@@ -54,6 +54,7 @@ public sealed record RunPlan(
         var (method, reason) = stored?.MethodUsed is { } used
             ? (used, stored.MethodReason ?? $"{MethodChoice.NameOf(used)}, as the stored blocks were made")
             : MethodChoice.Resolve(specification.MethodRequested, network, deterministic);
+        SimulatorFactory.RequireMethod(method, network); // refused before the run folder is made
         return new RunPlan(specification, method, reason, specification.EnsembleOptions(method), deterministic, failure);
     }
 }

@@ -17,7 +17,7 @@ internal static class InspectCommand
         command.Options.Add(json);
         command.SetAction(parsed =>
         {
-            var loaded = ModelArgument.Load(parsed.GetValue(model)!);
+            var loaded = ModelArgument.Load(parsed.GetValue(model)!, warnings: parsed.InvocationConfiguration.Error);
             var description = NetworkDescription.Of(loaded.Network);
             parsed.InvocationConfiguration.Output.Write(parsed.GetValue(json) ? description.ToJson() + "\n" : Render(description));
             return ExitCodes.Done;
@@ -68,6 +68,7 @@ internal static class InspectCommand
         }
         if (d.UnchangedSpecies.Count > 0)
             text.Append($"species no reaction changes: {string.Join(", ", d.UnchangedSpecies)}\n");
+        if (d.CellCycle is { } cycle) text.Append($"cell cycle: {cycle}\n");
 
         if (d.Readouts.Count > 0)
         {

@@ -14,10 +14,13 @@ internal static class ModelArgument
     public static Argument<string?> CreateOptional() =>
         new("model") { Description = "The network file (.cnet, or SBML .xml/.sbml); with --resume it may be left out (the stored model is used).", Arity = ArgumentArity.ZeroOrOne };
 
-    public static LoadedModel Load(string path, CompileOptions? options = null)
+    /// <summary>Loads MODEL; a model's warnings (a cell cycle's rate laws that ignore the volume) go to <paramref name="warnings"/> when given.</summary>
+    public static LoadedModel Load(string path, CompileOptions? options = null, TextWriter? warnings = null)
     {
         var outcome = ModelLoader.Load(path, options);
         if (outcome.Model is null) throw new ModelInputException(outcome.Diagnostics);
+        if (warnings is not null)
+            foreach (var warning in outcome.Model.Network.Cycle?.Warnings ?? []) warnings.WriteLine(warning.Format("warning"));
         return outcome.Model;
     }
 

@@ -47,7 +47,7 @@ internal static class SimulateCommand
             var storedSettings = stored is null ? null : StoredSettings.Read(stored);
             var timeGrid = grid.Read(parsed, stored?.Grid);
             var thresholds = contrastOptions.Thresholds(parsed);
-            var loaded = parsed.GetValue(model) is { } modelPath ? ModelArgument.Load(modelPath)
+            var loaded = parsed.GetValue(model) is { } modelPath ? ModelArgument.Load(modelPath, warnings: parsed.InvocationConfiguration.Error)
                 : stored is not null ? ModelArgument.LoadStored(stored)
                 : throw new UserInputException("simulate needs a MODEL file (or --resume DIR, which reads the stored model)");
             var (histogramTimes, heatmap) = contrastOptions.Figures(parsed, loaded.Network, timeGrid.Until);

@@ -37,7 +37,7 @@ internal static class SolveCommand
             var timeGrid = grid.Read(parsed);
             var options = ReadSolverOptions(parsed.GetValue(solver)!, parsed.GetValue(rtol), parsed.GetValue(atol)) with { RefuseNegativeRates = !parsed.GetValue(signed) };
             OutputFile.Check(parsed.GetValue(output), parsed.GetValue(force), "solution.parquet");
-            var loaded = ModelArgument.Load(parsed.GetValue(model)!);
+            var loaded = ModelArgument.Load(parsed.GetValue(model)!, warnings: parsed.InvocationConfiguration.Error);
             var solution = RateEquationSolver.Solve(loaded.Network, timeGrid, options);
             var writer = parsed.InvocationConfiguration.Output;
             var path = parsed.GetValue(output);

@@ -67,7 +67,7 @@ internal static class ExpansionIntegration
 
         var run = new OdeRun(system, options);
         var triggers = new RealStateTriggers(network, system.ParameterArray, (change, _) => Apply(change, y, system));
-        var stoppedAt = TimelineIntegration.Run(run, Timeline.Of(network, grid), y, change => Apply(change, y, system), Record, triggers, stopAtTrigger: true);
+        var stoppedAt = TimelineIntegration.Run(run, Timeline.ForRateEquations(network, grid), y, change => Apply(change, y, system), Record, triggers, stopAtTrigger: true);
         var stoppedBy = double.IsFinite(stoppedAt) ? triggers.FirstTurningTrue(y) : null;
         // Grid times from the stop on are not integrated: NaN, so no value is mistaken for a solution.
         for (var point = 0; point < grid.Count; point++)
@@ -108,7 +108,15 @@ internal static class ExpansionIntegration
             throw new SolverFailureException(time, what, $"the scheduled change gives the non-finite value {updated}");
         if (!isSpecies)
         {
-            // A parameter change moves no molecule: φ, C and δ are continuous across it.
+            // A parameter change moves no molecule: φ, C and δ are continuous across it; the mean cell's division
+            // starts with one (its birth time moving on), where the partitioning variance enters.
+            if (system.Network.Cycle is { } cycle && change.TargetIndex == cycle.BirthSlot)
+            {
+                var before = new double[s, s];
+                system.UnpackCovariance(y, before);
+                DivisionVariance.AddBeforeHalving(system.Network, cycle, phi, before);
+                system.PackCovariance(before, y);
+            }
             system.SetParameter(change.TargetIndex, updated);
             return;
         }

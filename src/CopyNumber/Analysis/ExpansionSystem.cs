@@ -26,6 +26,9 @@ internal sealed class ExpansionSystem : IOdeSystem
     private readonly double[] _excess = [], _curvature = [], _shifted = [], _plus = [], _minus = [];
     private readonly double[,] _gradient = new double[0, 0], _meanJacobian = new double[0, 0];
 
+    /// <summary>The network integrated.</summary>
+    public ReactionNetwork Network => _network;
+
     public ExpansionSystem(ReactionNetwork network, bool withMeanCorrection)
     {
         _network = network;

@@ -65,7 +65,7 @@ public static class RateEquationSolver
         }
 
         var triggers = new RealStateTriggers(network, parameters, (change, time) => Apply(change, state, system, time));
-        TimelineIntegration.Run(run, Timeline.Of(network, grid), state, change => Apply(change, state, system, change.Time), Record, triggers);
+        TimelineIntegration.Run(run, Timeline.ForRateEquations(network, grid), state, change => Apply(change, state, system, change.Time), Record, triggers);
 
         return new DeterministicSolution(grid, columns, speciesCount, values, run.Statistics);
     }

@@ -15,9 +15,12 @@ public sealed record Diagnostic(string File, SourcePosition Position, string Mes
     /// (a run of carets as long as <see cref="SourcePosition.Length"/>); only the first line when there is no
     /// source line, as for a file that cannot be read.
     /// </summary>
-    public string Format()
+    public string Format() => Format("error");
+
+    /// <summary>As <see cref="Format()"/>, with <paramref name="severity"/> (<c>error</c>, <c>warning</c>) after the position.</summary>
+    public string Format(string severity)
     {
-        var head = $"{File}:{Position.Line}:{Position.Column}: error: {Message}";
+        var head = $"{File}:{Position.Line}:{Position.Column}: {severity}: {Message}";
         // A problem with the file as a whole (missing, a directory, too large) has no line to point into.
         if (SourceLine.Length == 0) return head;
         var caretColumn = Math.Max(1, Position.Column);

@@ -302,6 +302,8 @@ internal sealed class ModelChecker
         if (_model.Reactions.Count == 0 && _model.BadLines.GetValueOrDefault(Section.Reactions) == 0)
             _bag.Report(_model.Headers.GetValueOrDefault(Section.Reactions, new SourcePosition(1, 1)),
                 "the model has no reactions; list them under a 'reactions' header, as in 'decay: A -> 0 mass 0.1'");
+        if (_model.Cycle.Header is { } cycle && _model.Cycle.Length is null && _model.BadLines.GetValueOrDefault(Section.Cycle) == 0)
+            _bag.Report(cycle, "the cycle needs its length, as in 'length 40' or 'length 40 gamma cv 0.1'");
     }
 
     /// <summary>

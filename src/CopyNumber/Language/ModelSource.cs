@@ -28,7 +28,7 @@ public static class ModelSource
         ModelChecker.Check(parsed, bag);
         if (bag.Count > 0) return new ParseOutcome(null, bag.Sorted());
         var model = new ModelSyntax(file, parsed.Size, parsed.Species, parsed.Parameters, parsed.Reactions, parsed.Schedule, parsed.Readouts,
-            parsed.Triggers, parsed.TimeUnit, parsed.SizeUnit);
+            parsed.Triggers, parsed.TimeUnit, parsed.SizeUnit, parsed.Cycle.Build());
         return new ParseOutcome(model, []);
     }
 

@@ -11,6 +11,8 @@ internal enum Section
     /// <summary>Timed and state-triggered changes (the first edition's <c>schedule</c> header leads here too, with an error).</summary>
     Changes,
     Readouts,
+    /// <summary>The cell cycle: growth, cycle length, gene doubling, partitioning.</summary>
+    Cycle,
     /// <summary>After a header that names no section; its lines are skipped.</summary>
     Unknown,
 }
@@ -48,6 +50,9 @@ internal sealed class ParsedModel
     /// <summary>Readout lines in file order.</summary>
     public List<ReadoutDecl> Readouts { get; } = [];
 
+    /// <summary>The <c>cycle</c> section's lines as read so far (each key once: growth, length, genes, split).</summary>
+    public CycleLines Cycle { get; } = new();
+
     /// <summary>
     /// Names declared on lines that had a syntax error (or stood in an unknown section). Uses of them
     /// are not reported as unknown: the line's own diagnostic already says what is wrong.
@@ -62,4 +67,21 @@ internal sealed class ParsedModel
 
     /// <summary>The text span of every top-level expression (law, parameter value, schedule time), for precise carets.</summary>
     public Dictionary<Expr, SourcePosition> Spans { get; } = new(ReferenceEqualityComparer.Instance);
+}
+
+/// <summary>The <c>cycle</c> section's lines, collected by the parser and assembled into a <see cref="CellCycleDecl"/>.</summary>
+internal sealed class CycleLines
+{
+    public SourcePosition? Header { get; set; }
+    public string Growth { get; set; } = "exponential";
+    public (Expr Mean, Expr? Cv)? Length { get; set; }
+    public List<(string Name, SourcePosition Position)> Genes { get; } = [];
+    public Expr? GenePhase { get; set; }
+    public string Split { get; set; } = "binomial";
+    public Dictionary<string, SourcePosition> Lines { get; } = new(StringComparer.Ordinal);
+
+    /// <summary>The section, or null when the file has none or its length line is missing (reported by the checker).</summary>
+    public CellCycleDecl? Build() => Header is { } at && Length is { } length
+        ? new CellCycleDecl(Growth, length.Mean, length.Cv, [.. Genes], GenePhase, Split, at, new Dictionary<string, SourcePosition>(Lines))
+        : null;
 }

@@ -9,7 +9,7 @@ namespace CopyNumber.Language;
 /// line, the word after a reaction's products or law, the word after a species' amount, the word after a
 /// change's assignments or timing.
 /// </summary>
-internal static class ModelParser
+internal static partial class ModelParser
 {
     /// <summary>Section header words, in the order the documentation lists them.</summary>
     public static readonly IReadOnlyDictionary<string, Section> SectionWords = new Dictionary<string, Section>(StringComparer.Ordinal)
@@ -19,6 +19,7 @@ internal static class ModelParser
         ["reactions"] = Section.Reactions,
         ["changes"] = Section.Changes,
         ["readouts"] = Section.Readouts,
+        ["cycle"] = Section.Cycle,
     };
 
     /// <summary>The first edition's name of the changes section, reported with the second edition's form.</summary>
@@ -27,7 +28,7 @@ internal static class ModelParser
     /// <summary>The word on a species line that marks a species no reaction changes.</summary>
     public const string HeldWord = "held";
 
-    private static readonly string SectionList = "species, parameters, reactions, changes and readouts";
+    private static readonly string SectionList = "species, parameters, reactions, changes, readouts and cycle";
 
     /// <summary>Parses every line of the bag's file; syntax mistakes go to <paramref name="bag"/>.</summary>
     public static ParsedModel Parse(DiagnosticBag bag)
@@ -161,6 +162,9 @@ internal static class ModelParser
             case Section.Changes:
                 ParseChange(line, model);
                 break;
+            case Section.Cycle:
+                ParseCycleLine(line, model.Cycle);
+                break;
         }
         return section;
     }
@@ -173,6 +177,7 @@ internal static class ModelParser
             line.Fail(header.Position, $"section '{Word(section)}' appears twice; the first '{Word(section)}' header is at line {earlier.Line}");
         else
             model.Headers[section] = header.Position;
+        if (section == Section.Cycle) model.Cycle.Header ??= header.Position;
         return section;
     }
 

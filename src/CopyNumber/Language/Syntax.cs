@@ -189,6 +189,7 @@ public sealed record ReadoutDecl(string Name, Expr Value, SourcePosition Positio
 /// <param name="Triggers">State-triggered change lines in file order (null for none).</param>
 /// <param name="TimeUnit">The declared time unit (<c>time unit minute</c>), or null when none is declared.</param>
 /// <param name="SizeUnit">The declared unit of <c>size</c> (<c>size 2 litre</c>), or null.</param>
+/// <param name="Cycle">The <c>cycle</c> section (a cell that grows and divides), or null when the model has none.</param>
 public sealed record ModelSyntax(
     string File,
     double Size,
@@ -199,8 +200,31 @@ public sealed record ModelSyntax(
     IReadOnlyList<ReadoutDecl> Readouts,
     IReadOnlyList<TriggerDecl>? Triggers = null,
     string? TimeUnit = null,
-    string? SizeUnit = null)
+    string? SizeUnit = null,
+    CellCycleDecl? Cycle = null)
 {
     /// <summary>State-triggered change lines (empty when there are none).</summary>
     public IReadOnlyList<TriggerDecl> TriggerLines => Triggers ?? [];
 }
+
+/// <summary>
+/// The <c>cycle</c> section: a cell whose volume grows between divisions, whose gene copies double at a
+/// phase of the cycle and whose molecules are split between two daughters at division (one lineage followed).
+/// </summary>
+/// <param name="Growth"><c>exponential</c> (V = V₀·2^(a/T)) or <c>linear</c> (V = V₀·(1 + a/T)), a the cell's age, T its cycle length.</param>
+/// <param name="Length">The mean cycle length, in the model's time unit (an expression of numbers, parameters and <c>size</c>).</param>
+/// <param name="LengthCv">The cycle length's coefficient of variation (gamma law); null for a fixed length.</param>
+/// <param name="Genes">The gene species whose copies double at <paramref name="GenePhase"/>, with where each is named.</param>
+/// <param name="GenePhase">The fraction of the cycle at which the genes double, in [0, 1); null when no gene is named.</param>
+/// <param name="Split"><c>binomial</c> (each molecule to either daughter with probability ½) or <c>halves</c> (⌊n/2⌋ or ⌈n/2⌉, ½ each).</param>
+/// <param name="Position">The section header.</param>
+/// <param name="Lines">Where each kind of line stands (growth, length, genes, split), for messages.</param>
+public sealed record CellCycleDecl(
+    string Growth,
+    Expr Length,
+    Expr? LengthCv,
+    IReadOnlyList<(string Name, SourcePosition Position)> Genes,
+    Expr? GenePhase,
+    string Split,
+    SourcePosition Position,
+    IReadOnlyDictionary<string, SourcePosition> Lines);

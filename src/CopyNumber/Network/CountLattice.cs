@@ -110,6 +110,8 @@ public sealed class QuantityLattice
         ArgumentNullException.ThrowIfNull(coefficients);
         if (coefficients.Count != network.Species.Count)
             throw new ArgumentException($"a combination needs one coefficient per species ({network.Species.Count}), not {coefficients.Count}", nameof(coefficients));
+        // Division splits every count (binomially or in halves), so any whole number can follow.
+        if (network.Cycle is not null) return Integers;
         var offset = constant;
         for (var i = 0; i < coefficients.Count; i++) offset += coefficients[i] * network.InitialCounts[i];
 

@@ -36,6 +36,24 @@ public static class ModelSupport
     public static IReadOnlyList<Diagnostic> StochasticProblems(ReactionNetwork network) =>
         [.. TriggerProblems(network), .. TimeProblems(network, "the master equation"), .. BurstProblems(network), .. SimulationProblems(network)];
 
+    /// <summary>
+    /// Why <paramref name="method"/> cannot take <paramref name="network"/>'s cell cycle (growth, gene doubling,
+    /// division); empty without a cycle. The direct method carries a cycle out exactly (V(t) by thinning,
+    /// divisions as stops), the next reaction method and composition-rejection when no propensity depends on
+    /// the volume, the rate equations and the expansions as the mean cell; the master equation, tau-leaping
+    /// and SBML export do not.
+    /// </summary>
+    public static IReadOnlyList<Diagnostic> CycleProblems(ReactionNetwork network, string method)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        return network.Cycle is { } cycle ? [At(network, cycle.Position, CycleRefusal(method))] : [];
+    }
+
+    /// <summary>The one sentence that refuses a cell cycle for <paramref name="method"/>.</summary>
+    public static string CycleRefusal(string method) =>
+        $"the model declares a cell cycle (growth and division), which {method} does not carry out; " +
+        "the direct method does (exactly), and the rate equations as the mean cell";
+
     // A geometric burst jumps to infinitely many states at once; the projection's generator has no row for that.
     private static List<Diagnostic> BurstProblems(ReactionNetwork network) =>
         network.Bursts.All.Take(1).Select(b => At(network, new SourcePosition(1, 1),
@@ -48,7 +66,7 @@ public static class ModelSupport
     /// (exact, by thinning: <c>Stochastic/ThinnedDirectMethod.cs</c>), tau-leaping and the rate equations take them.
     /// </summary>
     public static IReadOnlyList<Diagnostic> TimeProblems(ReactionNetwork network, string method) =>
-        network.TimeDependence.Reactions.Take(1).Select(j => At(network, new SourcePosition(1, 1),
+        network.Cycle is not null ? CycleProblems(network, method) : network.TimeDependence.Reactions.Take(1).Select(j => At(network, new SourcePosition(1, 1),
             $"reaction '{network.Reactions[j].Name}' has a rate law that reads time, which {method} does not carry out; " +
             "the direct method (exact, by thinning) and tau-leaping do")).ToList();
 

@@ -10,7 +10,7 @@ namespace CopyNumber.Network;
 /// compiles every law to delegates (with symbolic derivatives for the exact Jacobian), classifies
 /// readouts, orders the timed changes and compiles the state-triggered ones.
 /// </summary>
-public static class NetworkCompiler
+public static partial class NetworkCompiler
 {
     /// <summary>
     /// Compiles <paramref name="model"/>. Every compile-time mistake left after the checker (a parameter
@@ -41,7 +41,7 @@ public static class NetworkCompiler
         IReadOnlyList<(int Species, StateLaw Derivative)> Derivatives,
         IReadOnlyCollection<int> SpeciesRead);
 
-    private sealed class Compilation(ModelSyntax model, CompileOptions options)
+    private sealed partial class Compilation(ModelSyntax model, CompileOptions options)
     {
         private readonly List<Diagnostic> _diagnostics = [];
         private ExpressionScope _scope = null!;
@@ -58,8 +58,10 @@ public static class NetworkCompiler
             var (counts, amounts) = InitialCounts(size.Value);
             var readoutDefinitions = new Dictionary<string, Expr>();
             foreach (var r in model.Readouts) readoutDefinitions.TryAdd(r.Name, r.Value);
-            _scope = new ExpressionScope(speciesNames, model.Parameters.Select(p => p.Name).ToArray(), size.Value, readoutDefinitions);
+            var parameterNames = model.Parameters.Select(p => p.Name).Concat(model.Cycle is null ? [] : [CellCycle.BirthName, CellCycle.LengthName]).ToArray();
+            _scope = new ExpressionScope(speciesNames, parameterNames, size.Value, readoutDefinitions);
             _parameterValues = ParameterValues();
+            if (model.Cycle is { } cycleLines) _parameterValues = [.. _parameterValues, 0.0, CycleLength(cycleLines)];
 
             var columns = Columns();
             var kinetics = columns.Select(CompileKinetics).ToArray();
@@ -85,7 +87,9 @@ public static class NetworkCompiler
                 bursts);
             var dependencies = new DependencyGraph(stoichiometry, kinetics.Select(k => k!.SpeciesRead).ToArray());
             var timeDependence = TimeDependence.Compile(
-                columns.Select(c => c.Law == LawKind.Rate ? _scope.Expand(c.LawExpression) : null).ToArray(), _scope);
+                columns.Select(c => _growingLaws.TryGetValue(c, out var growing) ? growing : c.Law == LawKind.Rate ? _scope.Expand(c.LawExpression) : null).ToArray(), _scope);
+            var cycle = model.Cycle is { } declared ? CompileCycle(declared) : null;
+            if (_diagnostics.Count > 0) return Failed();
             var reactions = columns
                 .Select(c => new Reaction(c.Name, c.Reactants, c.Products, c.Law, ExpressionText.Format(c.LawExpression)))
                 .ToArray();
@@ -95,7 +99,7 @@ public static class NetworkCompiler
                 size.Value,
                 speciesNames,
                 counts,
-                model.Parameters.Select(p => p.Name).ToArray(),
+                parameterNames,
                 _parameterValues,
                 reactions,
                 stoichiometry,
@@ -111,7 +115,8 @@ public static class NetworkCompiler
                 model.Species.Select(s => s.Position).ToArray(),
                 timeDependence,
                 bursts,
-                _varying.Count > 0 ? new ParameterVariability(_varying) : null);
+                _varying.Count > 0 ? new ParameterVariability(_varying) : null,
+                cycle);
             return new CompileOutcome(network, []);
         }
 
@@ -273,7 +278,8 @@ public static class NetworkCompiler
         private ColumnKinetics? CompileKinetics(Column column)
         {
             ColumnKinetics? kinetics = null;
-            Guard(() => kinetics = column.Law == LawKind.Mass ? MassAction(column) : RateLaw(column));
+            Guard(() => kinetics = model.Cycle is not null && GrowingKinetics(column) is { } growing ? growing
+                : column.Law == LawKind.Mass ? MassAction(column) : RateLaw(column));
             return kinetics;
         }
 
@@ -295,9 +301,11 @@ public static class NetworkCompiler
             return new ColumnKinetics(constant, null, null, [], column.Reactants.Select(r => r.Species).ToArray());
         }
 
-        private ColumnKinetics RateLaw(Column column)
+        private ColumnKinetics RateLaw(Column column) => RateLaw(_scope.Expand(column.LawExpression));
+
+        // A propensity written out; also the laws that a cell cycle rewrites with the volume V(t).
+        private ColumnKinetics RateLaw(Expr expanded)
         {
-            var expanded = _scope.Expand(column.LawExpression);
             var read = _scope.SpeciesRead(expanded);
             var derivatives = new List<(int Species, StateLaw Derivative)>();
             foreach (var species in read)

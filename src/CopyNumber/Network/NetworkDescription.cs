@@ -36,6 +36,10 @@ public sealed record NetworkDescription(
     [JsonPropertyName("structure_note")]
     public string? StructureNote { get; init; }
 
+    /// <summary>The cell cycle in words (growth, length, genes, split), or null for a cell that never divides.</summary>
+    [JsonPropertyName("cell_cycle")]
+    public string? CellCycle { get; init; }
+
     /// <summary>Gathers the description of a network, including the exact structure of N when it is small enough to analyse.</summary>
     public static NetworkDescription Of(ReactionNetwork network)
     {
@@ -55,7 +59,8 @@ public sealed record NetworkDescription(
             network.Name,
             network.Size,
             network.Species.Select((s, i) => new SpeciesDescription(s, network.InitialCounts[i], network.Held[i])).ToArray(),
-            network.Parameters.Select((p, i) => new ParameterDescription(p, network.InitialParameterValues[i])).ToArray(),
+            network.Parameters.Take(network.Cycle?.BirthSlot ?? network.Parameters.Count)
+                .Select((p, i) => new ParameterDescription(p, network.InitialParameterValues[i])).ToArray(),
             network.Reactions.Select(r => new ReactionDescription(
                 r.Name, $"{Side(r.Reactants)} -> {Side(r.Products)}", r.Law == Language.LawKind.Mass ? "mass" : "rate", r.LawText)).ToArray(),
             rows,
@@ -81,6 +86,7 @@ public sealed record NetworkDescription(
             TimeUnit = network.Units.Time,
             Triggers = network.Triggers.Select(t => t.Text).ToArray(),
             StructureNote = analysable ? null : StoichiometricStructure.TooLargeNote(n),
+            CellCycle = network.Cycle?.Describe(network),
         };
     }
 

@@ -32,7 +32,8 @@ public sealed class ReactionNetwork
         IReadOnlyList<Language.SourcePosition>? speciesPositions = null,
         TimeDependence? timeDependence = null,
         BurstProducts? bursts = null,
-        ParameterVariability? variability = null)
+        ParameterVariability? variability = null,
+        CellCycle? cycle = null)
     {
         Name = name;
         SourceFile = sourceFile;
@@ -56,7 +57,11 @@ public sealed class ReactionNetwork
         TimeDependence = timeDependence ?? TimeDependence.None(Reactions.Count);
         Bursts = bursts ?? BurstProducts.None(Reactions.Count);
         Variability = variability ?? ParameterVariability.None;
+        Cycle = cycle;
     }
+
+    /// <summary>The cell cycle (growth, gene doubling, division), or null for a cell of fixed size that never divides.</summary>
+    public CellCycle? Cycle { get; }
 
     /// <summary>Parameters drawn per replicate group from a named law (none unless a parameter line says <c>varies</c>).</summary>
     public ParameterVariability Variability { get; }

@@ -67,6 +67,21 @@ public sealed class Timeline
         return Cache.GetValue(network, _ => new ConditionalWeakTable<TimeGrid, Timeline>()).GetValue(grid, g => Build(network.Schedule, g));
     }
 
+    private static readonly ConditionalWeakTable<ReactionNetwork, ConditionalWeakTable<TimeGrid, Timeline>> MeanCellCache = new();
+
+    /// <summary>
+    /// The timeline the rate equations and the expansions integrate across: <see cref="Of"/>, and for a
+    /// network with a cell cycle also the mean cell's divisions and gene doublings (<see cref="CellCycle.MeanCellChanges"/>).
+    /// </summary>
+    public static Timeline ForRateEquations(ReactionNetwork network, TimeGrid grid)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        ArgumentNullException.ThrowIfNull(grid);
+        if (network.Cycle is not { } cycle) return Of(network, grid);
+        return MeanCellCache.GetValue(network, _ => new ConditionalWeakTable<TimeGrid, Timeline>())
+            .GetValue(grid, g => Build([.. network.Schedule, .. cycle.MeanCellChanges(network)], g));
+    }
+
     /// <summary>Builds the timeline of <paramref name="schedule"/> (sorted by time, file order within a time) on <paramref name="grid"/>.</summary>
     public static Timeline Build(IReadOnlyList<ScheduledChange> schedule, TimeGrid grid)
     {

@@ -70,7 +70,8 @@ public sealed class TwoStateSpecies
         // x_i(0) ≤ 1 is necessary; only then is the exact analysis worth its cost. The exact elimination
         // grows faster than species × reactions, so beyond AnalysedEntries no species is taken as two-state
         // (the rule is sufficient, not necessary): a 30 000-reaction chain otherwise ran out of memory here.
-        if (network.InitialCounts.Any(c => c <= 1) && (long)n.SpeciesCount * n.ReactionCount <= AnalysedEntries)
+        // A cell cycle doubles genes and splits molecules at division, which keeps no conservation law.
+        if (network.Cycle is null && network.InitialCounts.Any(c => c <= 1) && (long)n.SpeciesCount * n.ReactionCount <= AnalysedEntries)
         {
             StoichiometricStructure structure;
             try

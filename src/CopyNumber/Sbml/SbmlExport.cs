@@ -54,7 +54,7 @@ internal sealed class SbmlExport(LoadedModel model)
         _refusals.Add(new Diagnostic(SbmlImporter.IsSbmlPath(_syntax.File) ? $"{_syntax.File} (as imported)" : _syntax.File, at, message,
             at.Line >= 1 && at.Line <= _lines.Length ? _lines[at.Line - 1] : ""));
 
-    /// <summary>Bursts of random size and parameters that vary per cell have no form in SBML core; refused where they are written.</summary>
+    /// <summary>Bursts of random size, parameters that vary per cell and a cell cycle have no form in SBML core; refused where they are written.</summary>
     private void RefuseCellFeatures()
     {
         foreach (var p in _syntax.Parameters.Where(p => p.Varies is not null))
@@ -62,6 +62,7 @@ internal sealed class SbmlExport(LoadedModel model)
         foreach (var r in _syntax.Reactions)
             foreach (var term in r.Products.Terms.Where(t => t.BurstMean is not null))
                 Refuse(term.Position, $"'{term.Species}' is made in bursts of random size; SBML core's stoichiometry is a fixed number, so the model cannot be exported without changing it");
+        if (_syntax.Cycle is { } cycle) Refuse(cycle.Position, ModelSupport.CycleRefusal("SBML export"));
     }
 
     // ---- ids ----

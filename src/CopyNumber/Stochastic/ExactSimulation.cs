@@ -17,12 +17,14 @@ internal abstract class ExactSimulation : IStochasticSimulator
     private readonly ScheduleCursor _schedule;
     private readonly GridRecorder _recorder = new();
     private readonly long _maxEvents;
+    private readonly CellDivision? _cell;
 
     protected ExactSimulation(SimulatorState state, long maxEvents)
     {
         State = state;
         _schedule = new ScheduleCursor(state.Network);
         _maxEvents = maxEvents;
+        if (state.Network.Cycle is { } cycle) _cell = new CellDivision(cycle);
     }
 
     protected SimulatorState State { get; }
@@ -33,18 +35,28 @@ internal abstract class ExactSimulation : IStochasticSimulator
     {
         State.StartReplicate(_schedule, _recorder, grid, observer);
         State.SeedBursts(ref rng);
+        _cell?.Start(ref rng, State);
         var time = 0.0;
         var events = 0L;
         Begin(ref rng, time);
         while (true)
         {
             var scheduled = _schedule.NextTime;
-            var horizon = Math.Min(scheduled, grid.Until);
+            var cellEvent = _cell?.NextTime ?? double.PositiveInfinity;
+            var horizon = Math.Min(Math.Min(scheduled, cellEvent), grid.Until);
             var end = Advance(ref rng, ref time, horizon, _recorder, ref events, _maxEvents);
             if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true) { Switches = State.Switches.Finish() };
             if (end == SegmentEnd.Triggered)
             {
                 State.Triggers.FirePending(State, time);
+                AfterSchedule(time);
+                continue;
+            }
+            // A division (or the genes' doubling) is a stop like a timed change; at a tie it comes first.
+            if (cellEvent <= grid.Until && cellEvent <= scheduled)
+            {
+                _cell!.Apply(time, State);
+                State.Triggers.AfterTimedChanges(State, time);
                 AfterSchedule(time);
                 continue;
             }

@@ -54,6 +54,8 @@ public static class MethodChooser
     {
         ArgumentNullException.ThrowIfNull(network);
         var m = network.Stoichiometry.ReactionCount;
+        if (network.Cycle is not null)
+            return (SimulationMethod.Direct, "auto: a cell that grows and divides, which only the direct method carries out exactly (docs/methods.md \"Growth and division\")");
         if (m > LargeNetwork && !network.TimeDependence.Any)
             return (SimulationMethod.CompositionRejection,
                 $"auto: {Count(m)} reactions (more than {Count(LargeNetwork)}), so composition-rejection, whose cost per event hardly grows with the network");

@@ -21,9 +21,7 @@ public static class SimulatorFactory
         ArgumentNullException.ThrowIfNull(options);
         options.Validate();
         var large = network.Stoichiometry.ReactionCount > LinearSelectionLimit;
-        if (network.TimeDependence.Any && method is SimulationMethod.NextReaction or SimulationMethod.CompositionRejection)
-            throw new UnsupportedModelException(ModelSupport.TimeProblems(network,
-                method == SimulationMethod.NextReaction ? "the next reaction method" : "composition-rejection"));
+        RequireMethod(method, network);
         return method switch
         {
             SimulationMethod.Direct when network.TimeDependence.Any => new ThinnedDirectMethod(network, options),
@@ -35,5 +33,20 @@ public static class SimulatorFactory
             SimulationMethod.TauLeap => new TauLeaping<LinearSelection>(network, options),
             _ => throw new ArgumentOutOfRangeException(nameof(method), method, "unknown simulation method"),
         };
+    }
+
+    /// <summary>
+    /// Throws <see cref="UnsupportedModelException"/> when <paramref name="method"/> cannot carry out
+    /// <paramref name="network"/>: laws that read time (or the volume of a growing cell) for the next reaction
+    /// method and composition-rejection, a cell cycle for tau-leaping. Called before a run writes anything.
+    /// </summary>
+    public static void RequireMethod(SimulationMethod method, ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        if (network.Cycle is not null && method == SimulationMethod.TauLeap)
+            throw new UnsupportedModelException(ModelSupport.CycleProblems(network, "tau-leaping"));
+        if (network.TimeDependence.Any && method is SimulationMethod.NextReaction or SimulationMethod.CompositionRejection)
+            throw new UnsupportedModelException(ModelSupport.TimeProblems(network,
+                method == SimulationMethod.NextReaction ? "the next reaction method" : "composition-rejection"));
     }
 }

@@ -18,7 +18,7 @@ public sealed class ScenarioTests
     public void EveryScenarioParsesAndSaysItsValuesAreIllustrative()
     {
         var files = ScenarioFiles();
-        Assert.Equal(["bursty_gene_cells.cnet", "inducer_pulse.cnet", "promoter_switch.cnet", "repressor_dimer.cnet", "ring_oscillator.cnet", "toggle_pair.cnet"],
+        Assert.Equal(["bursty_gene_cells.cnet", "dividing_gene_cells.cnet", "inducer_pulse.cnet", "promoter_switch.cnet", "repressor_dimer.cnet", "ring_oscillator.cnet", "toggle_pair.cnet"],
             files.Select(Path.GetFileName));
         foreach (var file in files)
         {
@@ -45,6 +45,23 @@ public sealed class ScenarioTests
         Assert.Equal(0.5, onFraction, 12);
         Assert.Equal(32, meanMrna, 9);
         Assert.Equal(320, Constant(model, "translate") * meanMrna / Constant(model, "prot_decay"), 9);
+    }
+
+    [Fact]
+    public void DividingGeneCellsHasTheRatesItsHeaderStates()
+    {
+        // Per gene copy: bursts at k_burst·<on> with <on> = k_on/(k_on + k_off) (telegraph model; Peccoud & Ycart 1995,
+        // quoted from memory) of mean size b: 2.5 mRNAs per minute; mRNA lifetime 1/d = 10 minutes; no protein decay.
+        var model = Load("dividing_gene_cells.cnet");
+        var values = ParameterValues(model);
+        var onFraction = values["k_on"] / (values["k_on"] + values["k_off"]);
+        Assert.Equal(2.5, Constant(model, "transcribe") * onFraction * values["b_mrna"], 12);
+        Assert.Equal(10, 1 / Constant(model, "mrna_decay"), 12);
+        Assert.DoesNotContain(model.Reactions, r => r.Reactants.Terms.Any(t => t.Species == "protein"));
+        var cycle = model.Cycle!;
+        Assert.Equal(("exponential", "binomial"), (cycle.Growth, cycle.Split));
+        Assert.Equal(["g_off", "g_on"], cycle.Genes.Select(g => g.Name));
+        Assert.Null(cycle.LengthCv);
     }
 
     [Fact]
