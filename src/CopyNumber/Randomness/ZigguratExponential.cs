@@ -64,7 +64,7 @@ public static class ZigguratExponential
 
     /// <summary>
     /// One Exp(1) variate from <paramref name="bits"/> (a fresh 64-bit draw of <paramref name="rng"/>), drawing
-    /// more from <paramref name="rng"/> only in the wedges and the tail (about 1.2% of calls).
+    /// more from <paramref name="rng"/> only in the wedges and the tail (2.2% of calls: the fast path takes (1/256)·Σ x_(i+1)/x_i = 97.8%).
     /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public static double Sample(ulong bits, ref Xoshiro256StarStar rng)
