@@ -45,8 +45,9 @@ public class ZigguratExponentialTests
         // One-sample Kolmogorov–Smirnov test (Kolmogorov 1933, Giorn. Ist. Ital. Attuari 4:83; Smirnov 1948,
         // Ann. Math. Stat. 19:279): under H0, P(√n·D_n > λ) → 2 Σ_(k≥1) (−1)^(k−1) e^(−2k²λ²). At λ = 2.694 the
         // first term, 2e^(−2λ²) = 9.9e-7, is the level (the others are below 1e-24); n = 10⁷ is far into the
-        // asymptotic regime. A ziggurat without its wedge test gives D ≈ 4·10⁻³ (√n·D ≈ 13); one whose
-        // tail stops at r lacks mass 4.5·10⁻⁴ (√n·D ≈ 1.4, caught by the tail test below instead).
+        // asymptotic regime. A ziggurat without its wedge test has D = 1.9·10⁻³ (√n·D ≈ 6.0; computed from
+        // the layers' uniform laws); one that puts the tail's mass e^(−r) = 4.5·10⁻⁴ at r has √n·D ≈ 1.4, which
+        // this test would miss and the tail test below catches.
         const int n = 10_000_000;
         const double critical = 2.694;
         var generator = new Xoshiro256StarStar(20001);
