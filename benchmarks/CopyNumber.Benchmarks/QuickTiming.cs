@@ -35,6 +35,10 @@ internal static class QuickTiming
             var (wall, cpu) = Measure(simulator, grid);
             Console.WriteLine($"{method,-21} {wall / 1e6,8:F2} M events/s (wall)  {cpu / 1e6,8:F2} M events per CPU-second");
         }
+        // The direct method's general loop, for comparison with the loop generated for the network (the row above).
+        var general = new DirectMethod<LinearSelection>(network, new SimulatorOptions(), compiled: false);
+        var (generalWall, generalCpu) = Measure(general, grid);
+        Console.WriteLine($"{"Direct, general loop",-21} {generalWall / 1e6,8:F2} M events/s (wall)  {generalCpu / 1e6,8:F2} M events per CPU-second");
     }
 
     /// <summary>

@@ -61,9 +61,12 @@ public struct Xoshiro256StarStar
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public double NextOpenDouble() => ((NextUInt64() >> 11) + 1) * (1.0 / (1UL << 53));
 
-    /// <summary>An exponential variate with rate 1 (mean 1), by inversion.</summary>
+    /// <summary>
+    /// An exponential variate with rate 1 (mean 1), exact, by the ziggurat method
+    /// (<see cref="ZigguratExponential"/>): usually one 64-bit draw, a multiply and a compare.
+    /// </summary>
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
-    public double NextExponential() => -Math.Log(NextOpenDouble());
+    public double NextExponential() => ZigguratExponential.Sample(NextUInt64(), ref this);
 
     /// <summary>One step of SplitMix64 (Steele, Lea &amp; Flood 2014, OOPSLA), used for seeding and stream derivation.</summary>
     public static ulong SplitMix64(ref ulong state)

@@ -2,6 +2,7 @@ using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
 using CopyNumber.Network;
 using CopyNumber.Randomness;
+using CopyNumber.Stochastic.Compiled;
 
 namespace CopyNumber.Stochastic;
 
@@ -27,12 +28,33 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     private readonly FiringProgram _program;
     private TSelection _selection;
     private RunawayGuard _guard = new(RunawayGuard.EventBound);
+    private readonly CompiledDirectLoop? _compiled;
+    private bool _compiledFits;
 
     public DirectMethod(ReactionNetwork network, SimulatorOptions options)
+        : this(network, options, CompiledLoopWanted)
+    {
+    }
+
+    /// <summary>
+    /// A direct method for <paramref name="network"/>; with <paramref name="compiled"/> it runs the event loop
+    /// generated for the network (<see cref="CompiledDirectLoop"/>) whenever that applies.
+    /// </summary>
+    internal DirectMethod(ReactionNetwork network, SimulatorOptions options, bool compiled)
         : this(new SimulatorState(network), new ReactionEffects(network, includeFired: false), options.MaxEvents)
     {
         _guard = new RunawayGuard(options.RunawayEvents);
+        if (compiled && typeof(TSelection) == typeof(LinearSelection)) _compiled = CompiledDirectLoop.For(network);
     }
+
+    /// <summary>
+    /// False when the environment variable COPYNUMBER_GENERAL_LOOP is 1: the diagnostic switch that makes
+    /// a whole run use the general loop, for paired timings (docs/performance.md).
+    /// </summary>
+    internal static bool CompiledLoopWanted { get; } = Environment.GetEnvironmentVariable("COPYNUMBER_GENERAL_LOOP") != "1";
+
+    /// <summary>True when this simulator runs the loop generated for its network (with its current constants).</summary>
+    internal bool RunsCompiledLoop => _compiledFits;
 
     /// <summary>A direct method working on a state owned by another simulator (tau-leaping's exact steps).</summary>
     internal DirectMethod(SimulatorState state, ReactionEffects effects, long maxEvents) : base(state, maxEvents)
@@ -55,13 +77,15 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
         _program.RefreshConstants(State);
         for (var j = 0; j < State.ReactionCount; j++) _selection.Set(j, State.Evaluate(j, time));
         _selection.Resum();
+        _compiledFits = _compiled is not null && _compiled.Matches(State);
     }
 
+    /// <summary>The runaway rule (<see cref="RunawayGuard"/>), shared with the generated loop.</summary>
     [MethodImpl(MethodImplOptions.NoInlining)]
-    private void CheckRunaway(double total, double time, double horizon, ReadOnlySpan<double> propensities)
+    internal static void CheckRunaway(ref RunawayGuard guard, SimulatorState state, double total, double time, double horizon, ReadOnlySpan<double> propensities)
     {
-        if (_guard.Exceeded(total, time, horizon, out var projected, out var growth))
-            State.ThrowRunaway(time, horizon, total, projected, _guard.Bound, growth, propensities);
+        if (guard.Exceeded(total, time, horizon, out var projected, out var growth))
+            state.ThrowRunaway(time, horizon, total, projected, guard.Bound, growth, propensities);
     }
 
     /// <summary>
@@ -74,6 +98,12 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     [MethodImpl(MethodImplOptions.AggressiveOptimization)]
     internal SegmentEnd Advance(ref Xoshiro256StarStar rng, ref double time, double horizon, long budget, GridRecorder recorder, ref long events, long maxEvents)
     {
+        if (_compiledFits)
+        {
+            var reached = _compiled!.Advance!(State, ref _guard, ref rng, ref time, horizon, budget, recorder, ref events, maxEvents,
+                ref Unsafe.As<TSelection, LinearSelection>(ref _selection));
+            return Finish(reached, ref time, horizon, recorder, State.Counts);
+        }
         var state = State;
         var effects = _effects;
         var program = _program;
@@ -99,7 +129,7 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
             }
             else next = double.PositiveInfinity;
             if (StopsBefore(next, horizon, fired, maxEvents, out end)) break;
-            if (RunawayGuard.Due(fired, maxEvents)) CheckRunaway(total, t, horizon, selection.Propensities);
+            if (RunawayGuard.Due(fired, maxEvents)) CheckRunaway(ref _guard, state, total, t, horizon, selection.Propensities);
             if (nextGrid < next) nextGrid = recorder.RecordBefore(next, counts);
             t = next;
             var j = selection.Select(random.NextDouble() * total, ref random);

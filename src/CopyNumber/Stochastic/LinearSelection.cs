@@ -14,13 +14,15 @@ namespace CopyNumber.Stochastic;
 /// </summary>
 internal struct LinearSelection : IReactionSelection<LinearSelection>
 {
-    private const int ResumEvery = 1024;
-    private const double CancellationFloor = 1e-6;
+    internal const int ResumEvery = 1024;
+    internal const double CancellationFloor = 1e-6;
 
-    private double[] _values;
-    private double _total;
-    private double _peak;
-    private int _untilResum;
+    // Internal, not private: the loop compiled for a network (Compiled/DirectLoopCompiler) keeps these in
+    // locals and must load and store them.
+    internal double[] _values;
+    internal double _total;
+    internal double _peak;
+    internal int _untilResum;
 
     public static LinearSelection Create(int reactions) =>
         new() { _values = new double[reactions], _untilResum = ResumEvery };
