@@ -15,8 +15,7 @@ internal static class ScanHelpers
     public static ScanRequest Request(LoadedModel model, string folder, ulong seed, long replicates, TimeGrid grid, ContrastThresholds? thresholds, params string[] vary)
     {
         var axes = vary.Select(v => ScanAxis.Parse(v, model.Network)).ToArray();
-        var specification = new RunSpecification { Model = model, Grid = grid, Replicates = replicates, Seed = seed, MethodRequested = "direct", Threads = 2, Command = "scan",
-            PathReplicates = CopyNumber.Cli.Commands.EnsembleOptionSet.DefaultPathReplicates }; // as the command does without --paths
+        var specification = new RunSpecification { Model = model, Grid = grid, Replicates = replicates, Seed = seed, MethodRequested = "direct", Threads = 2, Command = "scan" };
         Directory.CreateDirectory(folder);
         return new ScanRequest(model, axes, ScanDesign.Grid, specification, thresholds ?? ContrastThresholds.Default, folder);
     }
