@@ -132,7 +132,7 @@ internal sealed class EnsembleOptionSet
         if (text is null) return 0;
         if (text == "all") return replicates;
         if (!long.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var n) || n < 0)
-            throw new UserInputException($"--paths takes a number of replicates (0 for none) or 'all' (got '{text}')");
+            throw new UserInputException($"--paths takes a positive number of replicates, 0 for none, or 'all' (got '{text}')");
         return Math.Min(n, replicates);
     }
 

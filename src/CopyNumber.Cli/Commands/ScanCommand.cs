@@ -49,8 +49,9 @@ internal static class ScanCommand
             var resuming = parsed.GetValue(resume);
             if (resuming && parsed.GetValue(output) is null) throw new UserInputException("--resume continues the scan in --out DIR; name the folder");
             if (resuming && !ScanSettings.IsScan(parsed.GetValue(output)!)) throw new UserInputException($"--resume: '{parsed.GetValue(output)}' holds no scan (no {ScanSettings.FileName})");
-            // A resumed scan keeps its seed when --seed is left out (the stored value stands in, as for simulate --resume).
-            var stored = resuming ? new StoredSettings { Seed = ScanSeed(parsed.GetValue(output)!) } : null;
+            // A resumed scan keeps its seed and its stored paths when --seed and --paths are left out (the stored values stand in,
+            // as for simulate --resume), so a scan begun before paths were kept by default resumes too.
+            var stored = resuming ? new StoredSettings { Seed = ScanSeed(parsed.GetValue(output)!), PathReplicates = ScanPaths(parsed.GetValue(output)!) } : null;
             var specification = ensemble.Bind(parsed, baseModel, timeGrid, stored, "scan");
             var points = scanDesign.Points(axes, specification.Seed);
             var pointShard = ReadShard(parsed.GetValue(shard), points.Count);
@@ -147,6 +148,8 @@ internal static class ScanCommand
         }
         return table.ToString();
     }
+
+    private static long? ScanPaths(string folder) => ScanSettings.Read(folder).PathReplicates;
 
     private static ulong ScanSeed(string folder) =>
         ulong.Parse(ScanSettings.Read(folder).Shared["seed"], System.Globalization.NumberStyles.None, System.Globalization.CultureInfo.InvariantCulture);

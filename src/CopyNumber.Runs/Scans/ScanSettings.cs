@@ -35,6 +35,11 @@ public sealed record ScanSettings(IReadOnlyDictionary<string, string> Shared, Sh
         return new ScanSettings(shared, scan.Shard);
     }
 
+    /// <summary>The replicates per point whose paths the scan keeps, as recorded; null when scan.json does not record it.</summary>
+    public long? PathReplicates =>
+        Shared.TryGetValue(StoredSettings.PathsKey, out var text)
+        && long.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var paths) ? paths : null;
+
     /// <summary>Writes <c>scan.json</c> into <paramref name="folder"/> atomically.</summary>
     public void Write(string folder)
     {

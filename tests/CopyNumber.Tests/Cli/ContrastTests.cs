@@ -58,7 +58,8 @@ public class ContrastTests
         Assert.NotEmpty(images);
         Assert.All(images, img => Assert.StartsWith("data:image/png;base64,", (string?)img.Attribute("src")));
         var markdown = File.ReadAllText(Path.Combine(folder, "report.md"));
-        Assert.Equal(images.Length, markdown.Split("](figures/").Length - 1);
+        // One image link per figure (each figure's SVG is linked too, as a plain link).
+        Assert.Equal(images.Length, System.Text.RegularExpressions.Regex.Matches(markdown, @"\]\(figures/[^)]*\.png\)").Count);
     }
 
     [Fact]

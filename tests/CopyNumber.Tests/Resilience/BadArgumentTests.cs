@@ -47,7 +47,6 @@ public class BadArgumentTests
         { "simulate WIDE --until 4000000 --every 1 --replicates 10", ["too fine", "larger --every"] },
         { "simulate MODEL --until 9000000 --every 1 --replicates 100000 --threads 1024", ["GB of memory", "fewer --threads"] },
         // paths, threads, shard, limits
-        { "simulate MODEL --until 5 --every 1 --replicates 10 --paths 0", ["--paths takes a positive number"] },
         { "simulate MODEL --until 5 --every 1 --replicates 10 --paths -4", ["--paths takes a positive number"] },
         { "simulate MODEL --until 5 --every 1 --replicates 10 --paths some", ["--paths takes a positive number", "'all'"] },
         { "simulate MODEL --until 5 --every 1 --replicates 10 --threads 0", ["--threads must be between 1 and"] },
