@@ -42,16 +42,22 @@ public sealed class QuasiCycleSpectrumTests(ITestOutputHelper output)
     }
 
     /// <summary>
-    /// The ensemble's averaged spectrum of X (Ω = 200, 200 replicates, a window of about 290 time units, over 70 damping times,
+    /// The ensemble's averaged spectrum of X (Ω = 1000, 200 replicates, a window of about 290 time units, over 70 damping times,
     /// so the Hann window's smoothing is far below the sampling error) agrees with the LNA spectrum at every frequency from
-    /// 0.25 to 2: |mean periodogram − S_LNA| ≤ z·SE with z = Φ⁻¹(1 − 0.001/(2m)) over the m frequencies compared (Bonferroni,
-    /// a failure probability ≤ 0.1% if the LNA were exact; its error at this size is O(1/Ω); van Kampen 2007, ch. X).
+    /// 0.25 to 2: |mean periodogram − S_LNA| ≤ z·SE + ε·S_LNA with z = Φ⁻¹(1 − 0.001/(2m)) over the m frequencies compared
+    /// (Bonferroni, a failure probability ≤ 0.1% if the LNA were exact) and ε = 0.08 the LNA's own error at this size.
+    /// That error is O(1/Ω) (van Kampen 2007, ch. X) with a large coefficient this close to Hopf (the peak is broadened and
+    /// lowered by the amplitude dependence of the frequency): measured here with 200 replicates, the power over 0.85 ≤ ω &lt; 1.15
+    /// is below the LNA by 37%, 28%, 16%, 5% and 4.0 ± 0.6% (8 seeds: 0.1–7.4%) at Ω = 50, 100, 200, 500, 1000, and above it
+    /// over 1.9 ≤ ω &lt; 2.6 by 30%, 24%, 17%, 8% and 4.4% (docs/methods-analysis.md §7.6). At Ω = 200 the test compared against
+    /// the LNA alone failed for about half of all seeds, an approximation error rather than a defect: the estimator and
+    /// <see cref="LnaSpectrum"/> agree exactly on a linear network (<see cref="LinearSpectrumTests"/>).
     /// The contrast's verdict on X is "noise-driven ringing".
     /// </summary>
     [Fact]
     public void BrusselatorEnsembleSpectrumAgreesWithTheLnaAndRings()
     {
-        const double size = 200;
+        const double size = 1000, allowance = 0.08;
         var network = OscillationModels.Brusselator(A, B, size, x0: A, y0: B / A);
         var rateEquations = CycleDetection.Detect(network, 400);
         Assert.Equal(OscillationKind.DampedOscillation, rateEquations.Kind);
@@ -61,7 +67,7 @@ public sealed class QuasiCycleSpectrumTests(ITestOutputHelper output)
         var spectrum = x.Spectrum;
         var compared = Enumerable.Range(0, spectrum.Frequencies.Length).Where(k => spectrum.Frequencies[k] is >= 0.25 and <= 2).ToArray();
         var z = Normal.InvCDF(0, 1, 1 - 0.001 / (2 * compared.Length));
-        var worst = compared.Max(k => Math.Abs(spectrum.Power[k] - x.LnaPower![k]) / spectrum.PowerError[k]);
+        var worst = compared.Max(k => (Math.Abs(spectrum.Power[k] - x.LnaPower![k]) - allowance * x.LnaPower[k]) / spectrum.PowerError[k]);
         output.WriteLine($"window {sample.Window}, {compared.Length} frequencies, worst |z| {worst:G3} (bound {z:G3}); peak {spectrum.Peak}");
         Assert.True(worst <= z, $"ensemble and LNA spectra differ by {worst:G3} standard errors (bound {z:G3})");
         var verdict = RingingVerdict.For(run, "X", ContrastThresholds.Default);
