@@ -26,8 +26,18 @@ public class CancellationTests
             Simulator = new SimulatorOptions(MaxEvents: 100_000_000),
         };
         var monitor = new EnsembleMonitor();
-        using var cancel = new CancellationTokenSource(TimeSpan.FromMilliseconds(100));
+        // The cancellation comes from a thread of its own: a CancellationTokenSource timer runs on the thread
+        // pool, which the parallel test suite can starve for seconds, long enough for three replicates to reach
+        // the event limit before the cancellation arrived (seen once in a full run under load).
+        using var cancel = new CancellationTokenSource();
+        var canceller = new Thread(() =>
+        {
+            Thread.Sleep(100);
+            cancel.Cancel();
+        }) { IsBackground = true };
+        canceller.Start();
         var result = EnsembleRunner.Run(model.Network, options, monitor: monitor, cancel: cancel.Token);
+        canceller.Join();
         // Had the runner waited for the replicate, it would have counted it done before returning.
         Assert.Equal(0, monitor.ReplicatesDone);
         Assert.True(result.Interrupted);
