@@ -59,6 +59,12 @@ public sealed record RunSpecification
     /// </summary>
     public string? CovariancePairs { get; init; }
 
+    /// <summary>
+    /// g, the replicates that share one draw of the parameters that vary per cell (the nested design of the noise
+    /// decomposition); used and recorded only when the model varies a parameter. 2, 4, 8, 16 or 32 (two groups fill a block).
+    /// </summary>
+    public int ReplicatesPerDraw { get; init; } = Ensembles.EnsembleOptions.DefaultReplicatesPerDraw;
+
     /// <summary>Wall-clock limit after which the run stops like an interruption; null for none. Not a setting of the result.</summary>
     public TimeSpan? WallLimit { get; init; }
 
@@ -88,6 +94,8 @@ public sealed record RunSpecification
         // Recorded only when given, so that folders written before the option existed still agree.
         if (ValidationReplicates is { } sample) arguments[StoredSettings.ValidationKey] = Invariant(sample);
         if (CovariancePairs is { } pairs) arguments[ManifestFields.CovariancePairsArgument] = pairs;
+        // Recorded whenever it shapes the result (the grouping of draws and the decomposition's cells in readout-state.parquet).
+        if (Model.Network.Variability.Any) arguments[ManifestFields.ReplicatesPerDrawArgument] = Invariant((long)ReplicatesPerDraw);
         return arguments;
     }
 
@@ -106,6 +114,7 @@ public sealed record RunSpecification
         PathReplicates = PathReplicates,
         Shard = Shard,
         CovariancePairs = CovariancePairs is { } pairs ? SpeciesPair.Parse(pairs, Model.Network) : null,
+        ReplicatesPerDraw = ReplicatesPerDraw,
     };
 
     private static string Invariant(double value) => value.ToString("R", CultureInfo.InvariantCulture);
@@ -159,6 +168,9 @@ public sealed record StoredSettings
     /// <summary>The stored <c>--covariance-pairs</c> text, or null when the run used the default pairs.</summary>
     public string? CovariancePairs { get; init; }
 
+    /// <summary>The stored group size of the nested design, when the run recorded one.</summary>
+    public int? ReplicatesPerDraw { get; init; }
+
     /// <summary>Reads the settings a run folder's manifest records.</summary>
     /// <exception cref="RunFolderException">A recorded value does not read.</exception>
     public static StoredSettings Read(StoredRun stored)
@@ -197,6 +209,7 @@ public sealed record StoredSettings
                 : null,
             ValidationReplicates = Get(ValidationKey, Whole),
             CovariancePairs = arguments.GetValueOrDefault(ManifestFields.CovariancePairsArgument),
+            ReplicatesPerDraw = Get(ManifestFields.ReplicatesPerDrawArgument, t => checked((int)Whole(t))),
         };
     }
 }

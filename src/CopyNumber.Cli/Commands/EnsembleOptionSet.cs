@@ -28,6 +28,7 @@ internal sealed class EnsembleOptionSet
     private readonly Option<string?>? _shard;
     private readonly Option<long?> _validationReplicates;
     private readonly Option<string?> _covariancePairs;
+    private readonly Option<int?> _replicatesPerDraw;
 
     /// <param name="replicatesText">What --replicates means for this command.</param>
     /// <param name="withShard">Whether the command takes --shard (a sweep does not).</param>
@@ -47,12 +48,16 @@ internal sealed class EnsembleOptionSet
         {
             Description = $"Species pairs whose covariance goes to covariances.parquet at every grid time: NAME:NAME pairs separated by commas, 'all' or 'none' (default: every pair up to {SpeciesPair.AllPairsUpTo} species, none beyond).",
         };
+        _replicatesPerDraw = new("--replicates-per-draw")
+        {
+            Description = $"When parameters vary from cell to cell: replicates simulated with each cell's draw, for the intrinsic/extrinsic noise split (2, 4, 8, 16 or 32; default {EnsembleOptions.DefaultReplicatesPerDraw}).",
+        };
         _validationReplicates = CountOption.Create("--validation-replicates", "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md).");
     }
 
     public void AddTo(Command command)
     {
-        foreach (var option in new Option?[] { _replicates, _method, _epsilon, _seed, _threads, _paths, _maxEvents, _maxWall, _shard, _validationReplicates, _covariancePairs })
+        foreach (var option in new Option?[] { _replicates, _method, _epsilon, _seed, _threads, _paths, _maxEvents, _maxWall, _shard, _validationReplicates, _covariancePairs, _replicatesPerDraw })
             if (option is not null) command.Options.Add(option);
     }
 
@@ -98,6 +103,11 @@ internal sealed class EnsembleOptionSet
                 throw new UserInputException($"--covariance-pairs: {e.Message}");
             }
         }
+        var perDraw = Given(_replicatesPerDraw, stored?.ReplicatesPerDraw) ?? EnsembleOptions.DefaultReplicatesPerDraw;
+        if (parsed.GetResult(_replicatesPerDraw) is { Implicit: false } && !model.Network.Variability.Any)
+            throw new UserInputException("--replicates-per-draw applies only to a model whose parameters vary from cell to cell ('varies' in its parameters section); this one varies none");
+        if (!EnsembleOptions.FitsBlock(perDraw, EnsembleOptions.DefaultBlockSize))
+            throw new UserInputException($"--replicates-per-draw must be 2, 4, 8, 16 or 32, so that two groups fill a block of {EnsembleOptions.DefaultBlockSize} replicates (got {perDraw})");
         return new RunSpecification
         {
             Model = model,
@@ -113,6 +123,7 @@ internal sealed class EnsembleOptionSet
             Shard = shard,
             ValidationReplicates = sample,
             CovariancePairs = pairs,
+            ReplicatesPerDraw = perDraw,
             WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
             Threads = threads,
         };

@@ -87,6 +87,13 @@ public static class ManifestFields
     /// </summary>
     public const string CovariancePairsArgument = "covariance_pairs";
 
+    /// <summary>
+    /// The argument recording g, the replicates that share one draw of the varying parameters (<c>--replicates-per-draw</c>),
+    /// recorded whenever the model varies a parameter; a folder without it (written before it was recorded) holds no noise
+    /// decomposition in its readout state.
+    /// </summary>
+    public const string ReplicatesPerDrawArgument = "replicates_per_draw";
+
     /// <summary>Argument key of the command that made the folder.</summary>
     public const string CommandArgument = "command";
 }

@@ -236,9 +236,10 @@ public sealed class StoredRun
             histograms = DistributionsTable.ReadHistograms(reader, Grid, counts);
         }
         var pairs = CovariancePairs(network);
-        string[] cellNames = [.. reals.Select(q => q.Name), .. pairs.Select(p => SpeciesPair.SumName(network.Species[p.First], network.Species[p.Second]))];
+        var replicatesPerDraw = ReplicatesPerDraw(network);
+        var cellNames = EnsembleResult.CellNames(quantities, pairs, replicatesPerDraw);
         MomentTree tree;
-        if (cellNames.Length == 0) tree = new MomentTree(TotalBlocks, 0);
+        if (cellNames.Count == 0) tree = new MomentTree(TotalBlocks, 0);
         else
         {
             using var reader = ParquetTableReader.Open(Path.Combine(_tables, RunFiles.ReadoutState));
@@ -253,7 +254,20 @@ public sealed class StoredRun
             Grid, quantities, histograms, tree, Manifest.ReplicatesFinished, Manifest.EventsFired, stoppedEarly,
             finished, BlockSize, Manifest.ReplicatesRequested, Shard,
             !EnsembleResult.Covers(finished, Shard.Blocks(TotalBlocks)), TimeSpan.FromSeconds(Manifest.WallSeconds),
-            SwitchingJson.Read(Manifest, network, Grid.Until), pairs);
+            SwitchingJson.Read(Manifest, network, Grid.Until), pairs, replicatesPerDraw);
+    }
+
+    /// <summary>
+    /// g of the run's nested design (<see cref="ManifestFields.ReplicatesPerDrawArgument"/>) when <paramref name="network"/> varies a
+    /// parameter and the manifest records it; 0 otherwise (no decomposition is stored).
+    /// </summary>
+    /// <exception cref="RunFolderException">The recorded value does not read or does not suit the run's blocks.</exception>
+    public int ReplicatesPerDraw(ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        if (!network.Variability.Any || !Manifest.Arguments.TryGetValue(ManifestFields.ReplicatesPerDrawArgument, out var text)) return 0;
+        if (int.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var g) && EnsembleOptions.FitsBlock(g, BlockSize)) return g;
+        throw new RunFolderException($"'{Folder}/manifest.json' records {ManifestFields.ReplicatesPerDrawArgument} '{text}', which is not a group size for blocks of {BlockSize}; it was edited or damaged.", Folder);
     }
 
     /// <summary>

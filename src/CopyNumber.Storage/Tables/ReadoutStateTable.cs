@@ -4,9 +4,10 @@ using CopyNumber.Network;
 namespace CopyNumber.Storage;
 
 /// <summary>
-/// <c>readout-state.parquet</c>, written when the model has real-valued readouts or species pairs whose covariance is
-/// accumulated: the exact state of their moment accumulators, one row per (stored node of the <see cref="MomentTree"/>,
-/// time, readout or pair sum "U+V", see <see cref="EnsembleResult.TreeCellNames"/>).
+/// <c>readout-state.parquet</c>, written when the model has real-valued readouts, species pairs whose covariance is
+/// accumulated or parameters that vary per cell: the exact state of their moment accumulators, one row per (stored node
+/// of the <see cref="MomentTree"/>, time, readout, pair sum "U+V" or noise estimator "X/intrinsic", "X/extrinsic"; see
+/// <see cref="EnsembleResult.TreeCellNames"/>).
 /// Columns: <c>level</c>, <c>node</c> (node (ℓ, i) covers blocks i·2^ℓ up to <c>end_block</c>),
 /// <c>first_block</c>, <c>end_block</c> (one past the last), <c>time</c>, <c>readout</c>, <c>count</c>,
 /// <c>non_finite</c>, <c>mean</c>, <c>squared_deviations</c> (Σ(x − mean)²), <c>min</c>, <c>max</c>.

@@ -50,6 +50,13 @@ public sealed record EnsembleOptions
     /// <summary>The nested design's default group size.</summary>
     public const int DefaultReplicatesPerDraw = 8;
 
+    /// <summary>
+    /// Whether <paramref name="replicatesPerDraw"/> replicates per draw suit blocks of <paramref name="blockSize"/>: at least 2,
+    /// and two groups fit a block a whole number of times (so groups never straddle a block or a shard, and pair inside one).
+    /// </summary>
+    public static bool FitsBlock(int replicatesPerDraw, int blockSize) =>
+        replicatesPerDraw >= 2 && replicatesPerDraw <= blockSize / 2 && blockSize % (2 * replicatesPerDraw) == 0;
+
     /// <summary>The block size runs use unless told otherwise.</summary>
     public const int DefaultBlockSize = 64;
 

@@ -13,6 +13,7 @@ public sealed class EnsembleResult
 {
     private readonly CountHistogram[] _histograms;
     private MomentAccumulator[]? _moments;
+    private NoiseDecomposition? _noise;
 
     internal EnsembleResult(
         TimeGrid grid,
@@ -29,7 +30,8 @@ public sealed class EnsembleResult
         bool interrupted,
         TimeSpan wallTime,
         IReadOnlyList<SwitchingStatistics>? switching = null,
-        IReadOnlyList<SpeciesPair>? pairs = null)
+        IReadOnlyList<SpeciesPair>? pairs = null,
+        int replicatesPerDraw = 0)
     {
         Grid = grid;
         Quantities = quantities;
@@ -37,8 +39,9 @@ public sealed class EnsembleResult
         RealQuantities = quantities.Where(q => !q.IsCount).ToArray();
         if (histograms.Length != grid.Count * CountQuantities.Count) throw new ArgumentException("one histogram per grid point and count quantity is needed", nameof(histograms));
         Pairs = pairs ?? [];
-        if (momentTree.Cells != grid.Count * (RealQuantities.Count + Pairs.Count))
-            throw new ArgumentException("the moment tree needs one cell per grid point and real readout or species pair", nameof(momentTree));
+        ReplicatesPerDraw = replicatesPerDraw;
+        if (momentTree.Cells != grid.Count * CellsPerPoint)
+            throw new ArgumentException("the moment tree needs one cell per grid point and real readout or species pair, and two per quantity for a noise decomposition", nameof(momentTree));
         _histograms = histograms;
         MomentTree = momentTree;
         ReplicatesFinished = replicatesFinished;
@@ -57,10 +60,22 @@ public sealed class EnsembleResult
     public TimeGrid Grid { get; }
 
     /// <summary>
-    /// Intrinsic and extrinsic parts of each quantity's variance, when some parameter varies and the run
-    /// covered its blocks in one process (null otherwise: a shard or a resumed run does not carry the pairs).
+    /// Intrinsic and extrinsic parts of each quantity's variance over the finished blocks, when some parameter varies
+    /// (<see cref="ReplicatesPerDraw"/> &gt; 0); null otherwise. A shard, a merge and a resumed run carry it exactly.
     /// </summary>
-    public NoiseDecomposition? Noise { get; init; }
+    public NoiseDecomposition? Noise => ReplicatesPerDraw == 0 ? null
+        : _noise ??= NoiseDecomposition.FromTree(ReplicatesPerDraw, Grid.Count, NoiseQuantities, Summary, RealQuantities.Count + Pairs.Count, CellsPerPoint);
+
+    /// <summary>g, the replicates that share one draw of the varying parameters in the nested design; 0 when no parameter varies.</summary>
+    public int ReplicatesPerDraw { get; }
+
+    // The decomposition's quantities: counts first, then real ones (the block's own layout).
+    private Quantity[] NoiseQuantities => [.. CountQuantities, .. RealQuantities];
+
+    // Cells of the moment tree per grid point: real readouts, species pairs' sums, then the decomposition's estimators.
+    private int CellsPerPoint => RealQuantities.Count + Pairs.Count + (ReplicatesPerDraw > 0 ? NoiseDecomposition.CellsPerPoint(Quantities.Count) : 0);
+
+    private MomentAccumulator[] Summary => _moments ??= MomentTree.Summarise();
 
     /// <summary>All reported quantities: species, then readouts.</summary>
     public IReadOnlyList<Quantity> Quantities { get; }
@@ -134,8 +149,7 @@ public sealed class EnsembleResult
     /// <summary>The moments of real quantity <paramref name="realQuantity"/> at grid point <paramref name="gridIndex"/>.</summary>
     public MomentAccumulator Moments(int gridIndex, int realQuantity)
     {
-        _moments ??= MomentTree.Summarise();
-        return _moments[gridIndex * (RealQuantities.Count + Pairs.Count) + realQuantity];
+        return Summary[gridIndex * CellsPerPoint + realQuantity];
     }
 
     /// <summary>
@@ -156,8 +170,23 @@ public sealed class EnsembleResult
     /// The names of the moment tree's cells at one grid point: the real readouts, then each pair's sum as "U+V" (a species
     /// name never holds '+'), the names under which readout-state.parquet stores them.
     /// </summary>
-    public IReadOnlyList<string> TreeCellNames =>
-        [.. RealQuantities.Select(q => q.Name), .. Pairs.Select(p => SpeciesPair.SumName(Quantities[p.First].Name, Quantities[p.Second].Name))];
+    public IReadOnlyList<string> TreeCellNames => CellNames(Quantities, Pairs, ReplicatesPerDraw);
+
+    /// <summary>
+    /// The names of the moment tree's cells at one grid point for a run reporting <paramref name="quantities"/>, accumulating
+    /// <paramref name="pairs"/> and, when <paramref name="replicatesPerDraw"/> &gt; 0, a noise decomposition: the real readouts,
+    /// each pair's sum as "U+V" (a species name never holds '+'), then "X/intrinsic" and "X/extrinsic" per quantity, counts
+    /// first. These are the names under which readout-state.parquet stores the cells.
+    /// </summary>
+    public static IReadOnlyList<string> CellNames(IReadOnlyList<Quantity> quantities, IReadOnlyList<SpeciesPair> pairs, int replicatesPerDraw)
+    {
+        ArgumentNullException.ThrowIfNull(quantities);
+        ArgumentNullException.ThrowIfNull(pairs);
+        var reals = quantities.Where(q => !q.IsCount);
+        IEnumerable<string> names = [.. reals.Select(q => q.Name), .. pairs.Select(p => SpeciesPair.SumName(quantities[p.First].Name, quantities[p.Second].Name))];
+        if (replicatesPerDraw > 0) names = names.Concat(NoiseDecomposition.CellNames([.. quantities.Where(q => q.IsCount), .. reals]));
+        return [.. names];
+    }
 
     // Species come first among the count quantities, in network order.
     private int CountIndexOfSpecies(int species) => species;
@@ -191,6 +220,7 @@ public sealed class EnsembleResult
             histograms[h].Merge(second._histograms[h]);
         }
         if (!first.Pairs.SequenceEqual(second.Pairs)) throw new ArgumentException("the results accumulate different species pairs", nameof(second));
+        if (first.ReplicatesPerDraw != second.ReplicatesPerDraw) throw new ArgumentException("the results group their replicates differently per draw of the varying parameters", nameof(second));
         var tree = new MomentTree(first.TotalBlocks, first.MomentTree.Cells);
         tree.AddCopiesOf(first.MomentTree);
         tree.AddCopiesOf(second.MomentTree);
@@ -204,7 +234,7 @@ public sealed class EnsembleResult
             finished, first.BlockSize, first.ReplicatesRequested, shard,
             !Covers(finished, shard.Blocks(first.TotalBlocks)),
             first.WallTime + second.WallTime,
-            CombineSwitching(first.Switching, second.Switching), first.Pairs);
+            CombineSwitching(first.Switching, second.Switching), first.Pairs, first.ReplicatesPerDraw);
     }
 
     private static SwitchingStatistics[] CombineSwitching(IReadOnlyList<SwitchingStatistics> first, IReadOnlyList<SwitchingStatistics> second)

@@ -64,13 +64,16 @@ public static class EnsembleRunner
         var toRun = end - first - skip.Count(b => b >= first && b < end);
 
         var pairs = options.CovariancePairs ?? SpeciesPair.Default(network);
-        var treeStride = realQuantities + pairs.Count;
-        var tree = new MomentTree(totalBlocks, grid.Count * treeStride);
         var varies = network.Variability.Any;
-        if (varies && (options.ReplicatesPerDraw < 2 || options.BlockSize % (2 * options.ReplicatesPerDraw) != 0))
+        if (varies && !EnsembleOptions.FitsBlock(options.ReplicatesPerDraw, options.BlockSize))
             throw new ArgumentOutOfRangeException(nameof(options),
                 $"{options.ReplicatesPerDraw} replicates per draw: a draw's group must hold at least 2 replicates and twice the group must divide the block of {options.BlockSize}");
-        var noiseTree = varies ? new MomentTree(totalBlocks, NoiseDecomposition.TreeCells(grid.Count, quantities.Count)) : null;
+        var replicatesPerDraw = varies ? options.ReplicatesPerDraw : 0;
+        // The noise decomposition's estimators are cells of the same tree, after the readouts and pairs, so that shards,
+        // merges, checkpoints and resumed runs carry them with no mechanism of their own.
+        var noiseOffset = realQuantities + pairs.Count;
+        var treeStride = noiseOffset + (varies ? NoiseDecomposition.CellsPerPoint(quantities.Count) : 0);
+        var tree = new MomentTree(totalBlocks, grid.Count * treeStride);
         var sequencer = new BlockSequencer(grid.Count, countQuantities, realQuantities, options.BlockSize, paths, options.PathReplicates, first, Runs, options.Threads);
         var workers = new Worker[(int)Math.Clamp(toRun, 1, options.Threads)];
         var position = first - 1;
@@ -92,16 +95,11 @@ public static class EnsembleRunner
             }
             // The result holds the blocks run here; skipped blocks are someone else's (an earlier run's).
             var finished = workers.SelectMany(w => w.FinishedBlocks).Order().ToArray();
-            NoiseDecomposition? noise = null;
-            if (noiseTree is not null && skip.Count == 0 && options.Shard.Count == 1)
-                lock (noiseTree)
-                    noise = new NoiseDecomposition(options.ReplicatesPerDraw, grid.Count,
-                        [.. quantities.Where(q => q.IsCount), .. quantities.Where(q => !q.IsCount)], noiseTree.Summarise());
             return new EnsembleResult(
                 grid, quantities, histograms, moments,
                 workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
                 finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed,
-                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()), pairs) { Noise = noise };
+                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()), pairs, replicatesPerDraw);
         }
 
         // A checkpoint is taken between blocks with every worker held, so it is one consistent state;
@@ -155,13 +153,8 @@ public static class EnsembleRunner
                     if (treeStride > 0)
                     {
                         lock (tree) leaf = tree.RentLeaf();
-                        BlockMoments(block, grid.Count, realQuantities, pairs, leaf);
-                    }
-                    MomentAccumulator[]? noiseLeaf = null;
-                    if (noiseTree is not null)
-                    {
-                        lock (noiseTree) noiseLeaf = noiseTree.RentLeaf();
-                        NoiseDecomposition.AddBlock(block, options.ReplicatesPerDraw, quantities.Count, noiseLeaf);
+                        BlockMoments(block, grid.Count, realQuantities, pairs, treeStride, leaf);
+                        if (varies) NoiseDecomposition.AddBlock(block, replicatesPerDraw, quantities.Count, leaf, noiseOffset, treeStride);
                     }
                     lock (worker)
                     {
@@ -170,7 +163,6 @@ public static class EnsembleRunner
                         if (worker.Abandoned) break;
                         worker.Accumulate(block, index);
                         if (leaf is not null) lock (tree) tree.AddBlock(index, leaf);
-                        if (noiseLeaf is not null) lock (noiseTree!) noiseTree.AddBlock(index, noiseLeaf);
                         sequencer.Submit(block);
                     }
                     monitor.AddBlock(index);
@@ -240,9 +232,8 @@ public static class EnsembleRunner
     /// Each replicate's real readouts, then each species pair's sum x + y (exact: counts below 2^53), added in replicate
     /// order: the leaf of the moment tree for this block.
     /// </summary>
-    private static void BlockMoments(ReplicateBlock block, int gridPoints, int realQuantities, IReadOnlyList<SpeciesPair> pairs, MomentAccumulator[] leaf)
+    private static void BlockMoments(ReplicateBlock block, int gridPoints, int realQuantities, IReadOnlyList<SpeciesPair> pairs, int stride, MomentAccumulator[] leaf)
     {
-        var stride = realQuantities + pairs.Count;
         for (var slot = 0; slot < block.Length; slot++)
         {
             var points = block.RecordedPoints[slot];

@@ -14,8 +14,9 @@ namespace CopyNumber.Ensembles;
 /// Var(m) = Var(E[X | θ]) + E[Var(X | θ)]/g). Pairs are independent and identically distributed, so each
 /// part's standard error is the sample SD of w or z over the P pairs divided by √P, with no assumption about
 /// the shape of the laws. The extrinsic estimate can be negative by sampling error when the part is small.
-/// Pairs are formed inside one block, so they combine through the fixed tree of <see cref="MomentTree"/> and
-/// the result does not depend on the thread count.
+/// Pairs are formed inside one block, and their estimators are cells of the run's own <see cref="MomentTree"/> (after
+/// the readouts and species pairs), so the result does not depend on the thread count and shards, merges and resumed
+/// runs carry it exactly like the readouts' moments.
 /// </remarks>
 public sealed class NoiseDecomposition
 {
@@ -58,14 +59,35 @@ public sealed class NoiseDecomposition
 
     private int Cell(int point, int quantity) => point * Quantities.Count + quantity;
 
-    /// <summary>Cells of the moment tree for <paramref name="gridPoints"/> × <paramref name="quantities"/>: two per cell (w, z).</summary>
-    internal static int TreeCells(int gridPoints, int quantities) => gridPoints * quantities * 2;
+    /// <summary>The cells a grid point gives the decomposition in the run's moment tree: two per quantity (w, z).</summary>
+    internal static int CellsPerPoint(int quantities) => quantities * 2;
 
     /// <summary>
-    /// Adds a finished block's pairs of groups to <paramref name="leaf"/>. Count quantities come first in
-    /// the block's layout, then real ones; the decomposition indexes them in that combined order.
+    /// The names of one grid point's cells, in tree order after the readouts and species pairs: "X/intrinsic" and
+    /// "X/extrinsic" per quantity (counts first, then real ones), as readout-state.parquet stores them.
     /// </summary>
-    internal static void AddBlock(ReplicateBlock block, int groupSize, int quantities, MomentAccumulator[] leaf)
+    internal static IEnumerable<string> CellNames(IEnumerable<Quantity> orderedQuantities) =>
+        orderedQuantities.SelectMany(q => new[] { q.Name + "/intrinsic", q.Name + "/extrinsic" });
+
+    /// <summary>
+    /// The decomposition held in a summarised moment tree: cells <paramref name="offset"/> + 2q and + 2q + 1 of each grid
+    /// point's <paramref name="stride"/> cells (see <see cref="AddBlock"/>).
+    /// </summary>
+    internal static NoiseDecomposition FromTree(int replicatesPerDraw, int gridPoints, IReadOnlyList<Quantity> orderedQuantities, MomentAccumulator[] summary, int offset, int stride)
+    {
+        var cells = new MomentAccumulator[gridPoints * CellsPerPoint(orderedQuantities.Count)];
+        for (var k = 0; k < gridPoints; k++)
+            for (var c = 0; c < CellsPerPoint(orderedQuantities.Count); c++)
+                cells[k * CellsPerPoint(orderedQuantities.Count) + c] = summary[k * stride + offset + c];
+        return new NoiseDecomposition(replicatesPerDraw, gridPoints, orderedQuantities, cells);
+    }
+
+    /// <summary>
+    /// Adds a finished block's pairs of groups to <paramref name="leaf"/>, the block's leaf of the run's moment tree, whose
+    /// grid points have <paramref name="stride"/> cells each, the decomposition's from <paramref name="offset"/>. Count
+    /// quantities come first in the block's layout, then real ones; the decomposition indexes them in that combined order.
+    /// </summary>
+    internal static void AddBlock(ReplicateBlock block, int groupSize, int quantities, MomentAccumulator[] leaf, int offset, int stride)
     {
         var points = int.MaxValue;
         for (var slot = 0; slot < block.Length; slot++) points = Math.Min(points, block.RecordedPoints[slot]);
@@ -78,7 +100,7 @@ public sealed class NoiseDecomposition
                     var (mb, vb) = GroupMoments(block, start + groupSize, groupSize, k, q);
                     var w = (va + vb) / 2;
                     var z = (ma - mb) * (ma - mb) / 2 - w / groupSize;
-                    var cell = (k * quantities + q) * 2;
+                    var cell = k * stride + offset + q * 2;
                     leaf[cell].Add(w);
                     leaf[cell + 1].Add(z);
                 }
