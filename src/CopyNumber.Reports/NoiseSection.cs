@@ -59,9 +59,25 @@ internal static class NoiseSection
                 + "nonlinearly on a varying parameter the two differ, and only the second is the deterministic picture of the population's mean. "
                 + $"A deviation of the ensemble mean counts as resolved beyond {Format(z)} combined standard errors.");
             tables.Add(CellAverageTable(run, average, z, timeUnit));
+            if (average.Intrinsic is not null && run.Noise.Count > 0)
+            {
+                paragraphs.Add($"The linear noise approximation over cells predicts the split: solved for each of the same {average.Draws} cells, the mean of their "
+                    + "LNA variances is the intrinsic part and the variance of their rate-equation solutions the extrinsic part (law of total variance). "
+                    + $"Against the nested design's estimates at the final time; a difference counts as resolved beyond {Format(z)} combined standard errors "
+                    + "(exact for networks whose propensities are at most linear in the counts; otherwise the LNA's own error shows here).");
+                tables.Add(LnaSplitTable(run, average, z, timeUnit));
+                var last = run.Times.Length - 1;
+                var heavy = run.Noise.Select(n => (n.Quantity, Column: average.ColumnIndex(n.Quantity)))
+                    .Where(n => n.Column >= 0 && average.ExtrinsicKurtosis![last, n.Column] > Analysis.Noise.CellAverage.HeavyTailKurtosis)
+                    .Select(n => $"{n.Quantity} (kurtosis {Format(average.ExtrinsicKurtosis![last, n.Column])})").ToList();
+                if (heavy.Count > 0)
+                    paragraphs.Add($"Caution: the cells' rate-equation solutions are heavy-tailed for {string.Join(", ", heavy)}, against 3 for a normal law; "
+                        + $"the extrinsic part from {average.Draws} cells, and its standard error, rest on a fourth moment that so few cells estimate poorly, "
+                        + "so the error shown may be much too small. The nested design's extrinsic estimate carries the same caution.");
+            }
         }
-        else if (contrast.CellAverageFailure is { } failure)
-            paragraphs.Add($"The rate equations averaged over cells could not be computed: {failure}");
+        if (contrast.CellAverageFailure is { } failure)
+            paragraphs.Add(contrast.CellAverage is null ? $"The rate equations averaged over cells could not be computed: {failure}" : $"Note: {failure}.");
         // A quantity that never varies (a conserved gene count) has nothing to split and gets no panel.
         var drawn = splits.Where(s => s.Intrinsic.Zip(s.Extrinsic).Any(p => p.First is not (0 or double.NaN) || p.Second is not (0 or double.NaN))).ToList();
         if (drawn.Count == 0) return new ReportSection("Noise: intrinsic and extrinsic", paragraphs, tables, []);
@@ -94,6 +110,31 @@ internal static class NoiseSection
         return new ReportTable(["quantity", "ensemble mean", "mean cell", "deviation from it", "average of cells", "deviation from it"], rows,
             $"At the final time t = {Format(run.Times[k])} {(timeUnit == "time" ? "" : timeUnit)}".TrimEnd() + ".");
     }
+
+    /// <summary>At the final time, per quantity the nested design split: each part measured by the ensemble against the LNA over cells, in variance units.</summary>
+    private static ReportTable LnaSplitTable(RunFolder run, Analysis.Noise.CellAverage average, double z, string timeUnit)
+    {
+        var k = run.Times.Length - 1;
+        var rows = new List<IReadOnlyList<string>>();
+        foreach (var split in run.Noise)
+        {
+            var column = average.ColumnIndex(split.Quantity);
+            if (column < 0) continue;
+            rows.Add([
+                split.Quantity,
+                $"{Format(split.IntrinsicVariance[k])} ± {Format(split.IntrinsicStandardError[k])}",
+                $"{Format(average.Intrinsic![k, column])} ± {Format(average.IntrinsicStandardError![k, column])}",
+                Deviation(split.IntrinsicVariance[k], average.Intrinsic[k, column], Combined(split.IntrinsicStandardError[k], average.IntrinsicStandardError[k, column]), z),
+                $"{Format(split.ExtrinsicVariance[k])} ± {Format(split.ExtrinsicStandardError[k])}",
+                $"{Format(average.Extrinsic![k, column])} ± {Format(average.ExtrinsicStandardError![k, column])}",
+                Deviation(split.ExtrinsicVariance[k], average.Extrinsic[k, column], Combined(split.ExtrinsicStandardError[k], average.ExtrinsicStandardError![k, column]), z),
+            ]);
+        }
+        return new ReportTable(["quantity", "intrinsic variance (ensemble)", "LNA over cells", "difference", "extrinsic variance (ensemble)", "LNA over cells", "difference"], rows,
+            $"At the final time t = {Format(run.Times[k])} {(timeUnit == "time" ? "" : timeUnit)}".TrimEnd() + "; variances in the quantity's units squared.");
+    }
+
+    private static double Combined(double a, double b) => Math.Sqrt(a * a + b * b);
 
     private static string Deviation(double mean, double reference, double error, double z)
     {

@@ -32,7 +32,7 @@ public sealed record RunContrastResult(
     /// </summary>
     public CellAverage? CellAverage { get; init; }
 
-    /// <summary>Why <see cref="CellAverage"/> is missing although parameters vary (a cell's rate equations failed); null otherwise.</summary>
+    /// <summary>Why <see cref="CellAverage"/> is missing although parameters vary (a cell's rate equations failed), or why its LNA parts are; null otherwise.</summary>
     public string? CellAverageFailure { get; init; }
 
     /// <summary>The intrinsic/extrinsic split of each pair of identical reporters the contrast was asked for (<c>--dual-reporters</c>); empty otherwise.</summary>
@@ -127,7 +127,20 @@ public static class RunContrast
         {
             try
             {
-                cellAverage = CellAverageRateEquations.Solve(network, grid, solver ?? new SolverOptions(), manifest.Seed);
+                // The LNA over the cells as well, where it describes the network at the mean cell: it predicts the noise split.
+                cellAverage = CellAverageRateEquations.Solve(network, grid, solver ?? new SolverOptions(), manifest.Seed, withNoise: expansion is not null);
+            }
+            catch (Exception e) when (expansion is not null && e is SolverFailureException or AnalysisInputException or ArithmeticException)
+            {
+                try
+                {
+                    cellAverage = CellAverageRateEquations.Solve(network, grid, solver ?? new SolverOptions(), manifest.Seed);
+                    cellAverageFailure = $"the linear noise approximation over cells could not be computed ({e.Message}); the rate equations could";
+                }
+                catch (Exception inner) when (inner is SolverFailureException or ArithmeticException)
+                {
+                    cellAverageFailure = inner.Message;
+                }
             }
             catch (Exception e) when (e is SolverFailureException or ArithmeticException)
             {

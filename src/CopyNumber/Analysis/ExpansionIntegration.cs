@@ -17,7 +17,7 @@ namespace CopyNumber.Analysis;
 /// </summary>
 internal static class ExpansionIntegration
 {
-    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options, bool withMeanCorrection)
+    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options, bool withMeanCorrection, IReadOnlyList<double>? parameterValues = null)
     {
         ArgumentNullException.ThrowIfNull(network);
         ArgumentNullException.ThrowIfNull(grid);
@@ -26,6 +26,12 @@ internal static class ExpansionIntegration
         ModelSupport.RequireRateEquations(network);
 
         var system = new ExpansionSystem(network, withMeanCorrection);
+        if (parameterValues is not null)
+        {
+            if (parameterValues.Count != network.Parameters.Count)
+                throw new ArgumentException($"{parameterValues.Count} parameter values for {network.Parameters.Count} parameters", nameof(parameterValues));
+            for (var p = 0; p < parameterValues.Count; p++) system.SetParameter(p, parameterValues[p]);
+        }
         var s = system.SpeciesCount;
         var y = new double[system.Dimension];
         for (var i = 0; i < s; i++) y[i] = network.InitialAmounts[i]; // C(0) = 0 and δ(0) = 0: a deterministic start

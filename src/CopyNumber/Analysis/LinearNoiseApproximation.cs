@@ -26,6 +26,8 @@ public static class LinearNoiseApproximation
     /// <returns>φ, the variances of species and readouts, and C at every grid point; <see cref="SystemSizeExpansionSolution.CorrectedMean"/> is NaN.</returns>
     /// <exception cref="ArgumentException">The options are unusable.</exception>
     /// <exception cref="SolverFailureException">The integration failed; the message names the time and the species or covariance.</exception>
-    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options) =>
-        ExpansionIntegration.Solve(network, grid, options, withMeanCorrection: false);
+    /// <param name="parameterValues">Values of every parameter at time 0 in place of the model's (one cell's draw of the
+    /// parameters that vary per cell); null for the model's own.</param>
+    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options, IReadOnlyList<double>? parameterValues = null) =>
+        ExpansionIntegration.Solve(network, grid, options, withMeanCorrection: false, parameterValues);
 }

@@ -42,6 +42,19 @@ public sealed class NoiseSectionTests
             var share = double.Parse(cells[6].Replace("\\", "", StringComparison.Ordinal).TrimEnd('%'), CultureInfo.InvariantCulture) / 100;
             Assert.InRange(share, 0.6, 0.95); // exact c²/(1/x + c²) = 0.83
             Assert.Contains("noise-split.png", report);
+
+            // The LNA over the run's first 200 cells predicts the same split in variance units: for this linear network each
+            // cell's LNA is exact (Poisson with mean k·u), so the intrinsic part is E[k]·u = x and the extrinsic part
+            // Var(k)·u² = (x·c)² (law of total variance), up to the Monte Carlo error over 200 gamma draws.
+            var split = report.Split('\n').Where(l => l.StartsWith("| X | ", StringComparison.Ordinal))
+                .Select(l => l.Split('|', StringSplitOptions.TrimEntries)[1..^1]).Single(c => c.Length == 7 && c[1] != "cells");
+            var (lnaIntrinsic, lnaIntrinsicSe) = ValueAndError(split[2]);
+            var (lnaExtrinsic, lnaExtrinsicSe) = ValueAndError(split[5]);
+            Assert.True(Math.Abs(lnaIntrinsic - x) <= 5 * lnaIntrinsicSe, $"LNA intrinsic {lnaIntrinsic} ± {lnaIntrinsicSe}, exact {x}");
+            Assert.True(Math.Abs(lnaExtrinsic - x * x * Cv * Cv) <= 5 * lnaExtrinsicSe, $"LNA extrinsic {lnaExtrinsic} ± {lnaExtrinsicSe}, exact {x * x * Cv * Cv}");
+            Assert.True(lnaExtrinsicSe < 0.3 * x * x * Cv * Cv, split[5]);
+            Assert.EndsWith("(within error)", split[3], StringComparison.Ordinal);
+            Assert.EndsWith("(within error)", split[6], StringComparison.Ordinal);
         }
         finally
         {
@@ -163,8 +176,8 @@ public sealed class NoiseSectionTests
             Assert.InRange(exact, 26.0, 26.7); // by hand: just below k/(1 − CV²) = 26.67, the transient of the slowest cells
 
             var report = File.ReadAllText(Path.Combine(folder, "run", "report.md")).Replace("\\", "", StringComparison.Ordinal);
-            var row = report.Split('\n').Single(l => l.StartsWith("| X | ", StringComparison.Ordinal) && l.Contains("resolved", StringComparison.Ordinal));
-            var cells = row.Split('|', StringSplitOptions.TrimEntries)[1..^1];
+            var cells = report.Split('\n').Where(l => l.StartsWith("| X | ", StringComparison.Ordinal))
+                .Select(l => l.Split('|', StringSplitOptions.TrimEntries)[1..^1]).Single(c => c.Length == 6 && c[3].EndsWith(")", StringComparison.Ordinal)); // the mean cell against the average of cells
             var (mean, meanSe) = ValueAndError(cells[1]);
             Assert.Equal(20, double.Parse(cells[2], CultureInfo.InvariantCulture), 6);
             Assert.EndsWith("(resolved)", cells[3], StringComparison.Ordinal);
