@@ -240,7 +240,9 @@ public sealed class FiniteStateProjection
     private void EnsureGenerator()
     {
         if (_generator is not null && _generator.States == _space.Count) return;
-        _generator = Generator.Build(_space, _network, _constants, _parameters, _parallel);
+        // A grown projection (the only way states are added while a generator stands) re-derives its frontier rows only.
+        _generator = _generator is null ? Generator.Build(_space, _network, _constants, _parameters, _parallel)
+            : _generator.Extend(_space, _network, _constants, _parameters, _parallel);
         _propagator = new Uniformisation(_generator, _parallel);
         _largestRate = Math.Max(_largestRate, _propagator.Rate);
     }

@@ -13,9 +13,16 @@ namespace CopyNumber.MasterEquation;
 /// </summary>
 public sealed class Generator
 {
-    private Generator(int states, int[] rowStart, int[] source, double[] rate, double[] exit, double[] leak, int[] leakReactions)
+    // Each state's outgoing transitions, m slots per state (target, or −1 outside the projection or at a zero propensity),
+    // kept so that a grown projection re-derives only the rows that changed (see Extend).
+    private readonly int[] _targets;
+    private readonly double[] _rates;
+
+    private Generator(int states, int[] targets, double[] rates, int[] rowStart, int[] source, double[] rate, double[] exit, double[] leak, int[] leakReactions)
     {
         States = states;
+        _targets = targets;
+        _rates = rates;
         RowStart = rowStart;
         Source = source;
         Rate = rate;
@@ -58,20 +65,59 @@ public sealed class Generator
     /// <exception cref="MasterEquationException">A rate law is negative or not finite on some state, or drives a count below zero.</exception>
     public static Generator Build(StateSpace space, ReactionNetwork network, double[] constants, double[] parameters, ParallelOptions parallel)
     {
+        ArgumentNullException.ThrowIfNull(space);
+        ArgumentNullException.ThrowIfNull(network);
         var n = space.Count;
         var m = network.Reactions.Count;
-        var targets = new int[(long)n * m];
-        var rates = new double[(long)n * m];
-        var exit = new double[n];
-        var leak = new double[n];
-        var leakReactions = new int[n];
+        var rows = new Rows(new int[(long)n * m], new double[(long)n * m], new double[n], new double[n], new int[n]);
+        Derive(space, network, constants, parameters, parallel, rows, 0, n, _ => true);
+        return Assemble(n, m, rows);
+    }
+
+    /// <summary>
+    /// The generator on <paramref name="space"/> after the projection grew from this one's states (states are only ever
+    /// appended, and the constants and parameters are those this one was built with): only the new states' rows and those of
+    /// the states that had a transition leaving the old projection are derived again; the rest are copied. The result is
+    /// identical, entry for entry and bit for bit, to <see cref="Build"/> on the grown space (the same propensities in the
+    /// same order); it saves the propensity evaluations and state lookups of the interior, most of a rebuild's cost.
+    /// </summary>
+    /// <exception cref="MasterEquationException">As <see cref="Build"/>.</exception>
+    public Generator Extend(StateSpace space, ReactionNetwork network, double[] constants, double[] parameters, ParallelOptions parallel)
+    {
+        ArgumentNullException.ThrowIfNull(space);
+        ArgumentNullException.ThrowIfNull(network);
+        var n = space.Count;
+        var m = network.Reactions.Count;
+        if (n < States || _targets.LongLength != (long)States * m) throw new ArgumentException("the space does not extend the one this generator was built on", nameof(space));
+        var rows = new Rows(new int[(long)n * m], new double[(long)n * m], new double[n], new double[n], new int[n]);
+        Array.Copy(_targets, rows.Targets, _targets.LongLength);
+        Array.Copy(_rates, rows.Rates, _rates.LongLength);
+        Array.Copy(Exit, rows.Exit, States);
+        Array.Copy(Leak, rows.Leak, States);
+        Array.Copy(LeakReactions, rows.LeakReactions, States);
+        var oldStates = States;
+        var oldLeak = Leak;
+        Derive(space, network, constants, parameters, parallel, rows, 0, n, i => i >= oldStates || oldLeak[i] > 0);
+        return Assemble(n, m, rows);
+    }
+
+    /// <summary>Per state, its m outgoing slots, total exit rate, rate and reactions of leaving.</summary>
+    private sealed record Rows(int[] Targets, double[] Rates, double[] Exit, double[] Leak, int[] LeakReactions);
+
+    /// <summary>Derives the rows of the states in [from, to) that <paramref name="derive"/> selects.</summary>
+    private static void Derive(StateSpace space, ReactionNetwork network, double[] constants, double[] parameters, ParallelOptions parallel, Rows rows, int from, int to, Func<int, bool> derive)
+    {
+        var m = network.Reactions.Count;
+        var (targets, rates, exit, leak, leakReactions) = (rows.Targets, rows.Rates, rows.Exit, rows.Leak, rows.LeakReactions);
         string? failure = null;
+        var n = to - from;
         Parallel.For(0, Chunks(n), parallel, () => (new long[network.Species.Count], new int[space.Dimension]), (chunk, _, scratch) =>
         {
             var (counts, key) = scratch;
-            var (from, to) = ChunkRange(chunk, n);
-            for (var i = from; i < to; i++)
+            var (first, end) = ChunkRange(chunk, n);
+            for (var i = from + first; i < from + end; i++)
             {
+                if (!derive(i)) continue;
                 space.Counts(i, counts);
                 double total = 0, outside = 0;
                 var mask = 0;
@@ -79,6 +125,7 @@ public sealed class Generator
                 {
                     var slot = (long)i * m + j;
                     targets[slot] = -1;
+                    rates[slot] = 0;
                     var a = network.Propensities.Evaluate(j, counts, constants, parameters);
                     if (a == 0) continue;
                     if (!(a > 0) || double.IsInfinity(a))
@@ -109,8 +156,12 @@ public sealed class Generator
             return scratch;
         }, _ => { });
         if (failure is not null) throw new MasterEquationException(failure);
+    }
 
-        // Counting sort of the transitions by target: rows of incoming entries.
+    /// <summary>Counting sort of the transitions by target: rows of incoming entries.</summary>
+    private static Generator Assemble(int n, int m, Rows rows)
+    {
+        var targets = rows.Targets;
         var rowStart = new int[n + 1];
         foreach (var t in targets) if (t >= 0) rowStart[t + 1]++;
         for (var k = 0; k < n; k++) rowStart[k + 1] += rowStart[k];
@@ -123,9 +174,9 @@ public sealed class Generator
             if (t < 0) continue;
             var e = fill[t]++;
             source[e] = (int)(s / m);
-            rate[e] = rates[s];
+            rate[e] = rows.Rates[s];
         }
-        return new Generator(n, rowStart, source, rate, exit, leak, leakReactions);
+        return new Generator(n, targets, rows.Rates, rowStart, source, rate, rows.Exit, rows.Leak, rows.LeakReactions);
     }
 
     /// <summary>Rows are handed to threads in this many chunks: enough for balance, few enough to keep scheduling cheap.</summary>
