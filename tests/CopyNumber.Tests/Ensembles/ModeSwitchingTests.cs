@@ -246,6 +246,35 @@ public sealed class ModeSwitchingTests
         Assert.Equal(Run(network, SimulationMethod.Direct, 10, 300, GeneCores(network), seed: 9, every: 1).ModeSwitching[0], loaded);
     }
 
+    [Fact]
+    public void An_interrupted_run_resumed_carries_the_counts_of_the_uninterrupted_run()
+    {
+        using var scratch = new ScratchFolder();
+        var path = scratch.File("telegraph.cnet");
+        File.WriteAllText(path, Telegraph(KOn, KOff));
+        var model = ModelLoader.Load(path).Model!;
+        Runs.SimulationOutcome Simulate(string folder, bool resume, CancellationToken cancel, Action<long>? blockFinished = null)
+        {
+            var specification = new Runs.RunSpecification
+            {
+                Model = model, Grid = new TimeGrid(5, 0.5), Replicates = 1000, Seed = 21, MethodRequested = "direct", Threads = 1,
+                Switching = "gene_on=0..1", SwitchingSource = "option",
+            };
+            var request = new Runs.SimulationRequest(Runs.RunPlan.Make(specification), folder) { Resume = resume };
+            return Runs.SimulationRun.Execute(request, new EnsembleMonitor { BlockFinished = blockFinished }, cancel);
+        }
+        var whole = Directory.CreateDirectory(scratch.File("whole")).FullName;
+        Simulate(whole, resume: false, CancellationToken.None);
+        var resumed = Directory.CreateDirectory(scratch.File("resumed")).FullName;
+        using (var cancel = new CancellationTokenSource())
+            Assert.Equal(StopReason.Interrupted, Simulate(resumed, false, cancel.Token, block => { if (block == 3) cancel.Cancel(); }).StopReason);
+        var partial = Assert.Single(StoredRun.Open(resumed).Load(model.Network).ModeSwitching);
+        Assert.InRange(partial.Replicates, 64, 999);
+        Assert.Equal(StopReason.Finished, Simulate(resumed, true, CancellationToken.None).StopReason);
+        Assert.Equal(StoredRun.Open(whole).Load(model.Network).ModeSwitching, StoredRun.Open(resumed).Load(model.Network).ModeSwitching);
+        Resilience.RunFolders.AssertSameCells(whole, resumed, RunFiles.Switching);
+    }
+
     private sealed class Discard : ITrajectoryObserver
     {
         public void Record(int gridIndex, double time, long[] counts, double[] parameters)
