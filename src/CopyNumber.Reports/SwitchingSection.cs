@@ -33,6 +33,7 @@ internal static class SwitchingSection
                 + "its time counts, its end does not; the mean residence is the total time in the mode over the completed residences (the maximum-likelihood estimate "
                 + "for exponential residences), with the standard error of this ratio over replicates. ± is one standard error.");
             paragraphs.AddRange(switching.Select(s => SwitchingSentence.Describe(s, contrast.SwitchingSource, unit) + "."));
+            // Narrow enough for a page 800 pixels wide: the switches per replicate are in the sentences above.
             var rows = new List<IReadOnlyList<string>>();
             foreach (var s in switching)
                 for (var m = 0; m < 2; m++)
@@ -41,13 +42,10 @@ internal static class SwitchingSection
                         $"{Format(s.MeanResidence(m))} ± {Format(s.ResidenceStandardError(m))}",
                         s.Mode(m).Exits.ToString(CultureInfo.InvariantCulture), s.Mode(m).Censored.ToString(CultureInfo.InvariantCulture),
                         Format(s.TimeFraction(m)),
-                        $"{Format(s.MeanSwitches)} ± {Format(s.SwitchesStandardError)}", Format(s.SwitchingRate),
-                        s.Replicates.ToString(CultureInfo.InvariantCulture),
                     ]);
             tables.Add(new ReportTable(
-                ["quantity", "mode", "core (copies)", $"mean residence ({timeUnit})", "completed residences", "censored", "share of time",
-                    "switches per replicate", $"switches per {(unit ?? "time unit")}", "replicates"], rows,
-                "switching.parquet holds these numbers."));
+                ["quantity", "mode", "core", $"mean residence ({timeUnit})", "completed", "censored", "time share"], rows,
+                "Residences per mode; switching.parquet holds these numbers and the switches per replicate."));
         }
         paragraphs.AddRange(contrast.SwitchingHints.Select(h => h + "."));
         return new ReportSection("Switching between modes", paragraphs, tables, []);
