@@ -5,6 +5,7 @@ using CopyNumber.Analysis.Phases;
 using System.Globalization;
 using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Deterministic;
+using CopyNumber.Ensembles;
 using CopyNumber.Network;
 using CopyNumber.Storage;
 
@@ -40,6 +41,15 @@ public sealed record RunContrastResult(
 
     /// <summary>The oscillation analysis (rate equations, sample paths, spectra; docs/methods-analysis.md, section 7), or null for an exact run.</summary>
     public RunOscillation? Oscillation { get; init; }
+
+    /// <summary>The switching between modes of the species the run followed at its events (<c>--switching</c> or steady-state cores); empty otherwise.</summary>
+    public IReadOnlyList<ModeSwitching> ModeSwitching { get; init; } = [];
+
+    /// <summary>Where the cores came from ("option" or "steady-states"), as the manifest records; null without cores.</summary>
+    public string? SwitchingSource { get; init; }
+
+    /// <summary>For each multimodal quantity whose switching was not followed: how to ask for its switching statistics.</summary>
+    public IReadOnlyList<string> SwitchingHints { get; init; } = [];
 
     /// <summary>
     /// When the expansion stopped at a state-triggered change, the sentence saying so and that the
@@ -177,9 +187,49 @@ public static class RunContrast
             if (points.Count > 0) contrasts.Add(Contrast.Analyze(series.Name, points, thresholds, QuantityLattice.For(network, grid, series.Name), zeroOne.GetValueOrDefault(series.Name),
                 OscillationOf(oscillation, series.Name, thresholdsInForce), phases));
         }
+        IReadOnlyList<ModeSwitching> modeSwitching = exact ? [] : ModeSwitchingOf(run, network, grid.Until);
         return new RunContrastResult(run, network, contrasts, expansion, failure)
             { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation, DualReporters = reporterSplits,
-              CellAverage = cellAverage, CellAverageFailure = cellAverageFailure };
+              CellAverage = cellAverage, CellAverageFailure = cellAverageFailure, ModeSwitching = modeSwitching,
+              SwitchingSource = modeSwitching.Count > 0 ? manifest.Arguments.GetValueOrDefault(ManifestFields.SwitchingSourceArgument) : null,
+              SwitchingHints = exact ? [] : SwitchingHints(contrasts, network, modeSwitching) };
+    }
+
+    /// <summary>The switching statistics the run's manifest records for the cores it followed; empty when it followed none.</summary>
+    private static IReadOnlyList<ModeSwitching> ModeSwitchingOf(RunFolder run, ReactionNetwork network, double until)
+    {
+        if (!run.Manifest.Arguments.TryGetValue(ManifestFields.SwitchingArgument, out var text)) return [];
+        IReadOnlyList<ModeCore> cores;
+        try
+        {
+            cores = ModeCore.Parse(text, network);
+        }
+        catch (ArgumentException e)
+        {
+            throw new RunFolderException($"'{run.Path}/manifest.json' records the switching cores '{text}', which do not read: {e.Message}", run.Path);
+        }
+        return ModeSwitchingJson.Read(run.Manifest, cores, until);
+    }
+
+    // A multimodal species not followed gets the option with cores from its two outermost modes at the last grid time
+    // that had two or more; a multimodal readout, the pointer to the option (switching is followed for species).
+    private static IReadOnlyList<string> SwitchingHints(IReadOnlyList<QuantityContrast> contrasts, ReactionNetwork network, IReadOnlyList<ModeSwitching> followed)
+    {
+        var hints = new List<string>();
+        foreach (var c in contrasts)
+        {
+            if (!c.Verdicts.Any(v => v.Kind == VerdictKind.Multimodal) || followed.Any(f => f.Species == c.Name)) continue;
+            if (network.SpeciesIndex(c.Name) < 0)
+            {
+                if (followed.Count > 0) continue; // a readout of followed species (U − V) switches with them
+                hints.Add($"{c.Name} is multimodal: switching statistics are counted for species; name a species and its cores with --switching NAME=LOW..HIGH");
+                continue;
+            }
+            var last = c.Modes.LastOrDefault(m => m is { Count: > 1 });
+            if (last is null) continue;
+            if (SwitchingSentence.Hint(c.Name, last.Modes.Min(m => m.Value), last.Modes.Max(m => m.Value)) is { } hint) hints.Add(hint);
+        }
+        return hints;
     }
 
     /// <summary>The dual-reporter split of species <paramref name="first"/> and <paramref name="second"/> at every grid time, from the run's moments and covariances.</summary>

@@ -65,6 +65,18 @@ public sealed record RunSpecification
     /// </summary>
     public int ReplicatesPerDraw { get; init; } = Ensembles.EnsembleOptions.DefaultReplicatesPerDraw;
 
+    /// <summary>
+    /// The cores whose modes are followed at the events, resolved (<c>--switching</c> syntax, "U=9..21,V=9..21"; see
+    /// <see cref="ModeCore.Parse"/>); null or "none" for none.
+    /// </summary>
+    public string? Switching { get; init; }
+
+    /// <summary>Where <see cref="Switching"/> came from: "option" or "steady-states"; null when there are no cores.</summary>
+    public string? SwitchingSource { get; init; }
+
+    /// <summary>The cores of <see cref="Switching"/> for the model.</summary>
+    public IReadOnlyList<ModeCore> SwitchingCores => Switching is { } text ? ModeCore.Parse(text, Model.Network) : [];
+
     /// <summary>Wall-clock limit after which the run stops like an interruption; null for none. Not a setting of the result.</summary>
     public TimeSpan? WallLimit { get; init; }
 
@@ -96,6 +108,11 @@ public sealed record RunSpecification
         if (CovariancePairs is { } pairs) arguments[ManifestFields.CovariancePairsArgument] = pairs;
         // Recorded whenever it shapes the result (the grouping of draws and the decomposition's cells in readout-state.parquet).
         if (Model.Network.Variability.Any) arguments[ManifestFields.ReplicatesPerDrawArgument] = Invariant((long)ReplicatesPerDraw);
+        if (Switching is { } cores && cores != "none")
+        {
+            arguments[ManifestFields.SwitchingArgument] = cores;
+            if (SwitchingSource is { } source) arguments[ManifestFields.SwitchingSourceArgument] = source;
+        }
         return arguments;
     }
 
@@ -109,7 +126,7 @@ public sealed record RunSpecification
         Replicates = Replicates,
         Seed = Seed,
         Method = method,
-        Simulator = new Stochastic.SimulatorOptions(Epsilon: Epsilon, MaxEvents: MaxEvents ?? long.MaxValue),
+        Simulator = new Stochastic.SimulatorOptions(Epsilon: Epsilon, MaxEvents: MaxEvents ?? long.MaxValue) { Modes = SwitchingCores },
         Threads = Threads,
         PathReplicates = PathReplicates,
         Shard = Shard,
@@ -171,6 +188,12 @@ public sealed record StoredSettings
     /// <summary>The stored group size of the nested design, when the run recorded one.</summary>
     public int? ReplicatesPerDraw { get; init; }
 
+    /// <summary>The stored cores whose modes the run followed, or null when it followed none.</summary>
+    public string? Switching { get; init; }
+
+    /// <summary>Where the stored cores came from ("option" or "steady-states").</summary>
+    public string? SwitchingSource { get; init; }
+
     /// <summary>Reads the settings a run folder's manifest records.</summary>
     /// <exception cref="RunFolderException">A recorded value does not read.</exception>
     public static StoredSettings Read(StoredRun stored)
@@ -210,6 +233,8 @@ public sealed record StoredSettings
             ValidationReplicates = Get(ValidationKey, Whole),
             CovariancePairs = arguments.GetValueOrDefault(ManifestFields.CovariancePairsArgument),
             ReplicatesPerDraw = Get(ManifestFields.ReplicatesPerDrawArgument, t => checked((int)Whole(t))),
+            Switching = arguments.GetValueOrDefault(ManifestFields.SwitchingArgument),
+            SwitchingSource = arguments.GetValueOrDefault(ManifestFields.SwitchingSourceArgument),
         };
     }
 }

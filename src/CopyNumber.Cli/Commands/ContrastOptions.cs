@@ -127,6 +127,8 @@ internal sealed class ContrastOptions
                     perPhase.Add(p.Phase.Index.ToString(CultureInfo.InvariantCulture), p.Phase.Span, q.Name, v.Label, v.Sentence);
             phases = "verdicts per phase of the schedule:\n" + perPhase;
         }
-        return table + phases + $"error bars: {contrast.ErrorSource}\n" + (contrast.ExpansionStop is { } stop ? stop + "\n" : "") + Contrast.Caution + "\n";
+        // Switching is followed at the run's events; a multimodal quantity not followed gets the option that would follow it.
+        var switching = string.Concat(contrast.SwitchingHints.Select(h => $"hint: {h}\n"));
+        return table + phases + $"error bars: {contrast.ErrorSource}\n" + (contrast.ExpansionStop is { } stop ? stop + "\n" : "") + switching + Contrast.Caution + "\n";
     }
 }

@@ -29,6 +29,7 @@ internal sealed class EnsembleOptionSet
     private readonly Option<long?> _validationReplicates;
     private readonly Option<string?> _covariancePairs;
     private readonly Option<int?> _replicatesPerDraw;
+    private readonly Option<string?>? _switching;
 
     /// <param name="replicatesText">What --replicates means for this command.</param>
     /// <param name="withShard">Whether the command takes --shard (a sweep does not).</param>
@@ -52,12 +53,19 @@ internal sealed class EnsembleOptionSet
         {
             Description = $"When parameters vary from cell to cell: replicates simulated with each cell's draw, for the intrinsic/extrinsic noise split (2, 4, 8, 16 or 32; default {EnsembleOptions.DefaultReplicatesPerDraw}).",
         };
+        // One run's cores: a sweep or scan changes the counts from point to point, so they have no option there.
+        if (withShard) _switching = new("--switching")
+        {
+            Description = "Follow the switching of species between a low and a high mode at every event: NAME=LOW..HIGH, several separated by commas "
+                + "(e.g. U=9..21: low core U <= 9, high core U >= 21; a switch is an entry into the other core), or 'none'. "
+                + "Default: cores from the rate equations' stable steady states when the model is bistable, none otherwise. Writes switching.parquet.",
+        };
         _validationReplicates = CountOption.Create("--validation-replicates", "Exact replicates in the validation sample of a tau-leaping run (default: as many as about 10% of the run's time allows, at most 1024; see docs/methods.md).");
     }
 
     public void AddTo(Command command)
     {
-        foreach (var option in new Option?[] { _replicates, _method, _epsilon, _seed, _threads, _paths, _maxEvents, _maxWall, _shard, _validationReplicates, _covariancePairs, _replicatesPerDraw })
+        foreach (var option in new Option?[] { _replicates, _method, _epsilon, _seed, _threads, _paths, _maxEvents, _maxWall, _shard, _validationReplicates, _covariancePairs, _replicatesPerDraw, _switching })
             if (option is not null) command.Options.Add(option);
     }
 
@@ -108,6 +116,7 @@ internal sealed class EnsembleOptionSet
             throw new UserInputException("--replicates-per-draw applies only to a model whose parameters vary from cell to cell ('varies' in its parameters section); this one varies none");
         if (!EnsembleOptions.FitsBlock(perDraw, EnsembleOptions.DefaultBlockSize))
             throw new UserInputException($"--replicates-per-draw must be 2, 4, 8, 16 or 32, so that two groups fill a block of {EnsembleOptions.DefaultBlockSize} replicates (got {perDraw})");
+        var (switching, switchingSource) = Switching(parsed, model, stored);
         return new RunSpecification
         {
             Model = model,
@@ -124,9 +133,43 @@ internal sealed class EnsembleOptionSet
             ValidationReplicates = sample,
             CovariancePairs = pairs,
             ReplicatesPerDraw = perDraw,
+            Switching = switching,
+            SwitchingSource = switchingSource,
             WallLimit = wall is { } seconds ? TimeSpan.FromSeconds(seconds) : null,
             Threads = threads,
         };
+    }
+
+    /// <summary>
+    /// The cores whose modes the run follows, in order: --switching as given, the stored run's, or cores from the rate
+    /// equations' stable steady states when the model is bistable (a simulate command only); null for none.
+    /// </summary>
+    private (string? Text, string? Source) Switching(ParseResult parsed, LoadedModel model, StoredSettings? stored)
+    {
+        if (_switching is null) return (null, null);
+        if (parsed.GetResult(_switching) is { Implicit: false })
+        {
+            var text = parsed.GetValue(_switching) ?? "none";
+            try
+            {
+                return (ModeCore.Text(ModeCore.Parse(text, model.Network)), "option");
+            }
+            catch (ArgumentException e)
+            {
+                throw new UserInputException($"--switching: {e.Message}");
+            }
+        }
+        if (stored is not null) return (stored.Switching, stored.SwitchingSource);
+        IReadOnlyList<ModeCore> found;
+        try
+        {
+            found = Analysis.SteadyStates.SwitchingCores.Find(model.Network);
+        }
+        catch (Exception e) when (e is CopyNumberException or Deterministic.SolverFailureException or ArithmeticException)
+        {
+            return (null, null); // no steady states, no cores: the run goes on without switching statistics
+        }
+        return found.Count > 0 ? (ModeCore.Text(found), "steady-states") : (null, null);
     }
 
     /// <summary>

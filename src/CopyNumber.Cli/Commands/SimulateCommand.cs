@@ -2,6 +2,7 @@ using CopyNumber.Runs;
 using System.CommandLine;
 using System.Globalization;
 using System.Security.Cryptography;
+using CopyNumber.Analysis.Verdicts;
 using CopyNumber.Cli.Rendering;
 using CopyNumber.Deterministic;
 using CopyNumber.Ensembles;
@@ -132,6 +133,14 @@ internal static class SimulateCommand
             error.WriteLine($"error: {outcome.PathsFailure}; the summary tables and manifest.json were written without them (manifest: {ManifestFields.PathsFailure})");
         writer.Write(RenderFinal(outcome));
         writer.WriteLine($"{result.ReplicatesFinished} replicates, {result.EventsFired} events in {result.WallTime.TotalSeconds:0.00} s ({Numbers.Format(outcome.Manifest.EventsPerSecond ?? 0, 3)} events/s); wrote {Paths.Shown(folder)}");
+        if (result.ModeSwitching.Count > 0)
+        {
+            var manifest = outcome.Manifest;
+            var unit = manifest.Extra.TryGetValue(ManifestFields.TimeUnit, out var declared) ? declared?.ToString() : null;
+            var source = manifest.Arguments.GetValueOrDefault(ManifestFields.SwitchingSourceArgument);
+            foreach (var s in result.ModeSwitching)
+                writer.WriteLine($"switching of {SwitchingSentence.Describe(s, source, unit)} ({RunFiles.Switching})");
+        }
         if (result.ReplicatesStoppedEarly > 0)
             error.WriteLine($"warning: {result.ReplicatesStoppedEarly} replicates reached --max-events before the final time; they count at the times they reached and are missing from later ones (manifest: replicates_stopped_early)");
         var covered = $"summaries cover the {result.ReplicatesFinished} replicates finished and are marked partial";

@@ -56,6 +56,23 @@ public static class ManifestFields
     /// </summary>
     public const string Switching = "switching";
 
+    /// <summary>
+    /// Switching between the low and high modes of each species given cores (array of objects, one per species,
+    /// written by <see cref="ModeSwitchingJson"/>: species, cores, replicates, switches and residence times per
+    /// mode with the exact integer sums behind them; see <see cref="Ensembles.ModeSwitching"/>). The sums are read
+    /// back to resume and merge runs exactly.
+    /// </summary>
+    public const string ModeSwitching = "mode_switching";
+
+    /// <summary>
+    /// The argument recording the cores whose modes a run follows (<c>--switching</c> text, resolved: "U=9..21,V=9..21"
+    /// or "none"); absent when the run followed none.
+    /// </summary>
+    public const string SwitchingArgument = "switching";
+
+    /// <summary>Where the recorded cores came from: "option" (<c>--switching</c>) or "steady-states" (the rate equations' stable steady states).</summary>
+    public const string SwitchingSourceArgument = "switching_source";
+
     /// <summary>The folders a merged run was made from (array of full paths).</summary>
     public const string MergedFrom = "merged_from";
 

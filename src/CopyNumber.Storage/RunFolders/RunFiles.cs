@@ -7,7 +7,8 @@ public static class RunFiles
     public const string Moments = "moments.parquet", Distributions = "distributions.parquet",
         Deterministic = "deterministic.parquet", Paths = "paths.parquet", Manifest = "manifest.json",
         ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet",
-        Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet";
+        Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet",
+        Switching = "switching.parquet";
 
     /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files, each with its SVG).</summary>
     public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
@@ -34,7 +35,7 @@ public static class RunFiles
     public const string Claim = ".copynumber-claim", Lock = ".copynumber-lock";
 
     /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>
-    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances];
+    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances, Switching];
 
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="Paths"/>.</summary>
     internal const string ResumedPaths = "paths-resumed.parquet";
@@ -49,7 +50,7 @@ public static class RunFiles
     /// </summary>
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
-        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances,
+        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances, Switching,
         Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Pair, Claim, Lock,
     };
 

@@ -254,7 +254,10 @@ public sealed class StoredRun
             Grid, quantities, histograms, tree, Manifest.ReplicatesFinished, Manifest.EventsFired, stoppedEarly,
             finished, BlockSize, Manifest.ReplicatesRequested, Shard,
             !EnsembleResult.Covers(finished, Shard.Blocks(TotalBlocks)), TimeSpan.FromSeconds(Manifest.WallSeconds),
-            SwitchingJson.Read(Manifest, network, Grid.Until), pairs, replicatesPerDraw);
+            SwitchingJson.Read(Manifest, network, Grid.Until), pairs, replicatesPerDraw)
+        {
+            ModeSwitching = ModeSwitchingJson.Read(Manifest, SwitchingCores(network), Grid.Until),
+        };
     }
 
     /// <summary>
@@ -268,6 +271,25 @@ public sealed class StoredRun
         if (!network.Variability.Any || !Manifest.Arguments.TryGetValue(ManifestFields.ReplicatesPerDrawArgument, out var text)) return 0;
         if (int.TryParse(text, NumberStyles.None, CultureInfo.InvariantCulture, out var g) && EnsembleOptions.FitsBlock(g, BlockSize)) return g;
         throw new RunFolderException($"'{Folder}/manifest.json' records {ManifestFields.ReplicatesPerDrawArgument} '{text}', which is not a group size for blocks of {BlockSize}; it was edited or damaged.", Folder);
+    }
+
+    /// <summary>
+    /// The cores whose modes the run followed: those its manifest records under <see cref="ManifestFields.SwitchingArgument"/>,
+    /// none when it records none.
+    /// </summary>
+    /// <exception cref="RunFolderException">The recorded cores do not read against the run's model.</exception>
+    public IReadOnlyList<ModeCore> SwitchingCores(ReactionNetwork network)
+    {
+        ArgumentNullException.ThrowIfNull(network);
+        if (!Manifest.Arguments.TryGetValue(ManifestFields.SwitchingArgument, out var text)) return [];
+        try
+        {
+            return ModeCore.Parse(text, network);
+        }
+        catch (ArgumentException e)
+        {
+            throw new RunFolderException($"'{Folder}/manifest.json' records the switching cores '{text}', which do not read: {e.Message}", Folder);
+        }
     }
 
     /// <summary>

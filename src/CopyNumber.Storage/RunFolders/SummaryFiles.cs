@@ -54,6 +54,12 @@ internal static class SummaryFiles
             NoiseTable.Write(path, result, provenance);
             files.Add(path);
         }
+        if (result.ModeSwitching.Count > 0)
+        {
+            var path = Path.Combine(folder, RunFiles.Switching);
+            SwitchingTable.Write(path, result.ModeSwitching, provenance);
+            files.Add(path);
+        }
         if (validation is not null)
         {
             var path = Path.Combine(folder, RunFiles.Validation);
@@ -111,6 +117,7 @@ internal static class SummaryFiles
         manifest.Extra[ManifestFields.FinishedBlocks] = BlockRanges.Format(result.FinishedBlocks);
         manifest.Extra[ManifestFields.StopReason] = stop.Name();
         manifest.Extra[ManifestFields.Switching] = SwitchingJson.Write(result.Switching);
+        if (result.ModeSwitching.Count > 0) manifest.Extra[ManifestFields.ModeSwitching] = ModeSwitchingJson.Write(result.ModeSwitching);
         if (failure is not null) manifest.Extra[ManifestFields.Failure] = failure;
         if (identity.TimeUnit is not null) manifest.Extra[ManifestFields.TimeUnit] = identity.TimeUnit;
         if (deterministicFailure is not null) manifest.Extra[ManifestFields.DeterministicFailure] = deterministicFailure;

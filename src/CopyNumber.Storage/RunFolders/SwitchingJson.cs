@@ -53,12 +53,12 @@ internal static class SwitchingJson
         return read.Count == twoState.Count ? read : [];
     }
 
-    private static bool TryLong(JsonElement item, string name, out long value)
+    internal static bool TryLong(JsonElement item, string name, out long value)
     {
         value = 0;
         return item.TryGetProperty(name, out var element) && element.ValueKind == JsonValueKind.Number && element.TryGetInt64(out value);
     }
 
     // JSON has no NaN: an undefined statistic is written as null.
-    private static double? Finite(double value) => double.IsFinite(value) ? value : null;
+    internal static double? Finite(double value) => double.IsFinite(value) ? value : null;
 }

@@ -132,6 +132,12 @@ public sealed class EnsembleResult
     public IReadOnlyList<SwitchingStatistics> Switching { get; }
 
     /// <summary>
+    /// Switching between the low and high modes of each species given cores (<see cref="Stochastic.SimulatorOptions.Modes"/>;
+    /// empty without), counted at the events; see <see cref="Ensembles.ModeSwitching"/>.
+    /// </summary>
+    public IReadOnlyList<ModeSwitching> ModeSwitching { get; init; } = [];
+
+    /// <summary>
     /// The species pairs whose covariance is accumulated (<see cref="Covariance"/>): the moments of each pair's sum x + y
     /// are cells of <see cref="MomentTree"/>, after the real readouts at each grid point.
     /// </summary>
@@ -234,7 +240,17 @@ public sealed class EnsembleResult
             finished, first.BlockSize, first.ReplicatesRequested, shard,
             !Covers(finished, shard.Blocks(first.TotalBlocks)),
             first.WallTime + second.WallTime,
-            CombineSwitching(first.Switching, second.Switching), first.Pairs, first.ReplicatesPerDraw);
+            CombineSwitching(first.Switching, second.Switching), first.Pairs, first.ReplicatesPerDraw)
+        {
+            ModeSwitching = CombineModes(first.ModeSwitching, second.ModeSwitching),
+        };
+    }
+
+    private static ModeSwitching[] CombineModes(IReadOnlyList<ModeSwitching> first, IReadOnlyList<ModeSwitching> second)
+    {
+        // A part without the statistics (stored before they existed, or its record unreadable) would make the sum wrong: none is given.
+        if (first.Count != second.Count) return [];
+        return first.Zip(second, (a, b) => a.Add(b)).ToArray();
     }
 
     private static SwitchingStatistics[] CombineSwitching(IReadOnlyList<SwitchingStatistics> first, IReadOnlyList<SwitchingStatistics> second)

@@ -99,7 +99,10 @@ public static class EnsembleRunner
                 grid, quantities, histograms, moments,
                 workers.Sum(w => w.Replicates), workers.Sum(w => w.Events), workers.Sum(w => w.StoppedEarly),
                 finished, options.BlockSize, options.Replicates, options.Shard, finished.Length < toRun, clock.Elapsed,
-                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()), pairs, replicatesPerDraw);
+                SwitchingAccumulator.Combine(workers.Select(w => w.Switching).ToArray()), pairs, replicatesPerDraw)
+            {
+                ModeSwitching = ModeSwitchingAccumulator.Combine(workers.Select(w => w.Modes).ToArray()),
+            };
         }
 
         // A checkpoint is taken between blocks with every worker held, so it is one consistent state;
@@ -272,6 +275,7 @@ public static class EnsembleRunner
             _grid = options.Grid;
             Cancel = cancel;
             Switching = new SwitchingAccumulator(network, options.Grid.Until);
+            Modes = new ModeSwitchingAccumulator(options.Simulator.Modes, options.Grid.Until);
             Histograms = new CountHistogram[options.Grid.Count * countQuantities];
             for (var h = 0; h < Histograms.Length; h++) Histograms[h] = new CountHistogram();
         }
@@ -293,6 +297,7 @@ public static class EnsembleRunner
         public CancellationToken Cancel { get; }
         public CountHistogram[] Histograms { get; }
         public SwitchingAccumulator Switching { get; }
+        public ModeSwitchingAccumulator Modes { get; }
         public List<long> FinishedBlocks { get; } = [];
         public long Replicates { get; private set; }
         public long Events { get; private set; }
@@ -314,6 +319,7 @@ public static class EnsembleRunner
             _pendingEvents = 0;
             _pendingStoppedEarly = 0;
             Switching.StartBlock();
+            Modes.StartBlock();
             for (var slot = 0; slot < block.Length; slot++)
             {
                 if (Cancel.IsCancellationRequested) return false;
@@ -338,6 +344,7 @@ public static class EnsembleRunner
                 _pendingEvents += result.Events;
                 if (result.HitEventLimit) _pendingStoppedEarly++;
                 Switching.AddReplicate(result);
+                Modes.AddReplicate(result);
                 _monitor.AddReplicate(result.Events);
             }
             return true;
@@ -358,6 +365,7 @@ public static class EnsembleRunner
             Events += _pendingEvents;
             StoppedEarly += _pendingStoppedEarly;
             Switching.CommitBlock();
+            Modes.CommitBlock();
             FinishedBlocks.Add(index);
         }
     }

@@ -41,10 +41,10 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
     /// generated for the network (<see cref="CompiledDirectLoop"/>) whenever that applies.
     /// </summary>
     internal DirectMethod(ReactionNetwork network, SimulatorOptions options, bool compiled)
-        : this(new SimulatorState(network), new ReactionEffects(network, includeFired: false), options.MaxEvents)
+        : this(new SimulatorState(network, options.Modes), new ReactionEffects(network, includeFired: false), options.MaxEvents)
     {
         _guard = new RunawayGuard(options.RunawayEvents);
-        if (compiled && typeof(TSelection) == typeof(LinearSelection)) _compiled = CompiledDirectLoop.For(network);
+        if (compiled && typeof(TSelection) == typeof(LinearSelection)) _compiled = CompiledDirectLoop.For(network, options.Modes);
     }
 
     /// <summary>
@@ -136,6 +136,7 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
             ref var header = ref Unsafe.Add(ref header0, j);
             program.Fire(ref header, j, ref count0, state, effects, t);
             if (header.CountsSwitch) state.Switches.Fired(j);
+            if (header.WatchesMode) state.Modes.Fired(j, counts, t);
             // The event's change of a0 is summed here, in a register, and added once.
             var change = 0.0;
             var u = header.UpdateStart;

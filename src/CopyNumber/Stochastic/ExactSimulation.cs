@@ -45,10 +45,11 @@ internal abstract class ExactSimulation : IStochasticSimulator
             var cellEvent = _cell?.NextTime ?? double.PositiveInfinity;
             var horizon = Math.Min(Math.Min(scheduled, cellEvent), grid.Until);
             var end = Advance(ref rng, ref time, horizon, _recorder, ref events, _maxEvents);
-            if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true) { Switches = State.Switches.Finish() };
+            if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true) { Switches = State.Switches.Finish(), Modes = State.Modes.Finish(time) };
             if (end == SegmentEnd.Triggered)
             {
                 State.Triggers.FirePending(State, time);
+                if (State.Modes.Watching) State.Modes.ObserveAll(State.Counts, time);
                 AfterSchedule(time);
                 continue;
             }
@@ -57,6 +58,7 @@ internal abstract class ExactSimulation : IStochasticSimulator
             {
                 _cell!.Apply(time, State);
                 State.Triggers.AfterTimedChanges(State, time);
+                if (State.Modes.Watching) State.Modes.ObserveAll(State.Counts, time);
                 AfterSchedule(time);
                 continue;
             }
@@ -64,11 +66,12 @@ internal abstract class ExactSimulation : IStochasticSimulator
             {
                 _schedule.ApplyDue(time, State);
                 State.Triggers.AfterTimedChanges(State, time);
+                if (State.Modes.Watching) State.Modes.ObserveAll(State.Counts, time);
                 AfterSchedule(time);
                 continue;
             }
             _recorder.RecordThrough(grid.Until, State.Counts);
-            return new ReplicateResult(events, events, false) { Switches = State.Switches.Finish() };
+            return new ReplicateResult(events, events, false) { Switches = State.Switches.Finish(), Modes = State.Modes.Finish(grid.Until) };
         }
     }
 

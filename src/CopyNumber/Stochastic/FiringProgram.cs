@@ -70,6 +70,7 @@ internal sealed class FiringProgram
                 MakesBurst = state.Network.Bursts.Makes(j),
                 CheckConsumption = effects.MayMakeNegative[j],
                 CountsSwitch = state.Switches.TwoState.ChangedBy(j),
+                WatchesMode = state.Modes.WatchedBy(j),
                 ChecksTriggers = state.Triggers.WatchedBy(j),
                 Broad = effects.IsBroad[j],
             };
@@ -213,6 +214,8 @@ internal sealed class FiringProgram
         public bool CheckConsumption;
         /// <summary>The reaction changes a two-state species: its firing is a switch (<see cref="TransitionCounter"/>).</summary>
         public bool CountsSwitch;
+        /// <summary>The reaction changes a species whose modes are watched (<see cref="ModeWatch"/>).</summary>
+        public bool WatchesMode;
         /// <summary>A firing may change a state-triggered change's condition (<see cref="TriggerWatch.WatchedBy"/>).</summary>
         public bool ChecksTriggers;
         /// <summary>The update range is set at each firing by <see cref="CollectBroad"/>.</summary>

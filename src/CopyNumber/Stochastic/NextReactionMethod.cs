@@ -29,7 +29,7 @@ internal sealed class NextReactionMethod : ExactSimulation
     private RunawayGuard _guard;
 
     public NextReactionMethod(ReactionNetwork network, SimulatorOptions options)
-        : base(new SimulatorState(network), options.MaxEvents)
+        : base(new SimulatorState(network, options.Modes), options.MaxEvents)
     {
         _guard = new RunawayGuard(options.RunawayEvents);
         _effects = new ReactionEffects(network, includeFired: true);
@@ -99,6 +99,7 @@ internal sealed class NextReactionMethod : ExactSimulation
             ref var header = ref Unsafe.Add(ref header0, mu);
             program.Fire(ref header, mu, ref count0, state, effects, t);
             if (header.CountsSwitch) state.Switches.Fired(mu);
+            if (header.WatchesMode) state.Modes.Fired(mu, counts, t);
             for (var u = header.UpdateStart; u < header.UpdateEnd; u++)
             {
                 ref var update = ref Unsafe.Add(ref update0, u);

@@ -17,4 +17,11 @@ public readonly record struct ReplicateResult(long Events, long Steps, bool HitE
     /// valid until its next replicate.
     /// </summary>
     public ReadOnlyMemory<long> Switches { get; init; }
+
+    /// <summary>
+    /// Visits to the modes of each species given cores (slot s is the s-th core of
+    /// <see cref="SimulatorOptions.Modes"/>), followed at the events; empty without cores. A view of the
+    /// simulator's buffer, valid until its next replicate.
+    /// </summary>
+    public ReadOnlyMemory<ModeVisits> Modes { get; init; }
 }

@@ -30,6 +30,13 @@ public sealed record SimulatorOptions(double Epsilon = 0.03, long MaxEvents = lo
     /// </summary>
     public double RunawayEvents { get; init; } = RunawayGuard.EventBound;
 
+    /// <summary>
+    /// The species whose switching between a low and a high mode is followed at the events, with their
+    /// cores (<see cref="Network.ModeCore"/>); empty for none, which costs the event loops nothing but a
+    /// branch on a flag they already load.
+    /// </summary>
+    public IReadOnlyList<Network.ModeCore> Modes { get; init; } = [];
+
     /// <summary>Throws <see cref="ArgumentOutOfRangeException"/> with a readable message when a setting is out of range.</summary>
     public void Validate()
     {

@@ -16,7 +16,9 @@ internal sealed class SimulatorState
     private readonly ReactionNetwork _network;
     private readonly Propensities _propensities;
 
-    public SimulatorState(ReactionNetwork network)
+    /// <param name="network">The network simulated.</param>
+    /// <param name="cores">The species whose modes are watched at the events (<see cref="ModeWatch"/>); null or empty for none.</param>
+    public SimulatorState(ReactionNetwork network, IReadOnlyList<ModeCore>? cores = null)
     {
         _network = network;
         _propensities = network.Propensities;
@@ -34,6 +36,7 @@ internal sealed class SimulatorState
         Constants = new double[reactions];
         Terms = new PropensityTerm[reactions];
         Switches = new TransitionCounter(network);
+        Modes = new ModeWatch(network, cores ?? []);
         _burstMeans = new double[network.Bursts.All.Count];
         _burstLogRatio = new double[_burstMeans.Length];
         Triggers = new TriggerWatch(network);
@@ -61,6 +64,9 @@ internal sealed class SimulatorState
 
     /// <summary>This replicate's switches of the two-state species, counted at the events.</summary>
     public TransitionCounter Switches { get; }
+
+    /// <summary>This replicate's visits to the modes of the species given cores, followed at the events.</summary>
+    public ModeWatch Modes { get; }
 
     /// <summary>This replicate's state-triggered changes: which conditions hold, which wait to apply.</summary>
     public TriggerWatch Triggers { get; }
@@ -93,6 +99,7 @@ internal sealed class SimulatorState
         schedule.Start(grid);
         schedule.ApplyDue(0.0, this);
         Triggers.Start(this);
+        if (Modes.Watching) Modes.Start(Counts);
         recorder.Start(grid, observer, Parameters);
     }
 

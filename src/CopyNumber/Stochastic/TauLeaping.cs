@@ -61,7 +61,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
     /// <summary>Tau-leaping with the given Poisson variates (tests may supply their own).</summary>
     internal TauLeaping(ReactionNetwork network, SimulatorOptions options, PoissonDraw poisson)
     {
-        _state = new SimulatorState(network);
+        _state = new SimulatorState(network, options.Modes);
         _effects = new ReactionEffects(network, includeFired: false);
         _exact = new DirectMethod<TSelection>(_state, _effects, options.MaxEvents);
         _time = network.TimeDependence;
@@ -108,9 +108,10 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
                 {
                     _schedule.ApplyDue(t, _state);
                     _state.Triggers.AfterTimedChanges(_state, t);
+                    if (_state.Modes.Watching) _state.Modes.ObserveAll(counts, t);
                 }
                 _recorder.RecordThrough(t, counts);
-                if (_recorder.Finished) return new ReplicateResult(events, steps, false) { Switches = _state.Switches.Finish() };
+                if (_recorder.Finished) return new ReplicateResult(events, steps, false) { Switches = _state.Switches.Finish(), Modes = _state.Modes.Finish(grid.Until) };
                 continue;
             }
             var a0 = EvaluateAll(t);
@@ -130,7 +131,7 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
                 tauPrime = Math.Min(_stepSize.Select(counts, _propensity, _critical.IsCritical, skipEquilibrium: true), growthCap);
             if (_thinned is not null) tauPrime = TimeCap(t, tauPrime);
             if (!Step(ref rng, ref t, stop, a0, a0c, tauPrime, ref events, ref steps))
-                return new ReplicateResult(events, steps, true) { Switches = _state.Switches.Finish() };
+                return new ReplicateResult(events, steps, true) { Switches = _state.Switches.Finish(), Modes = _state.Modes.Finish(t) };
         }
     }
 
@@ -204,6 +205,8 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             else ExplicitLeaps++;
             // A crossing the guard's rule did not foresee still fires, at the leap's end.
             if (_triggerGuard.Any && _state.Triggers.CheckAll(_state)) _state.Triggers.FirePending(_state, t);
+            // A leap's firings are not ordered in time: its modes are seen at its end (docs/methods-analysis.md).
+            if (_state.Modes.Watching) _state.Modes.ObserveAll(counts, t);
             return true;
         }
     }
@@ -224,7 +227,11 @@ internal sealed class TauLeaping<TSelection> : IStochasticSimulator
             end = _exact.Advance(ref rng, ref t, stop, ExactStepBurst, _recorder, ref events, _maxEvents);
         }
         steps += events - before;
-        if (end == SegmentEnd.Triggered) _state.Triggers.FirePending(_state, t);
+        if (end == SegmentEnd.Triggered)
+        {
+            _state.Triggers.FirePending(_state, t);
+            if (_state.Modes.Watching) _state.Modes.ObserveAll(_state.Counts, t);
+        }
         return end != SegmentEnd.EventLimit;
     }
 

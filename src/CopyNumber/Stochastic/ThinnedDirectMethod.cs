@@ -43,7 +43,7 @@ internal sealed class ThinnedDirectMethod : ExactSimulation
     private double _timedSum;
 
     public ThinnedDirectMethod(ReactionNetwork network, SimulatorOptions options)
-        : this(new SimulatorState(network), new ReactionEffects(network, includeFired: false), options.MaxEvents)
+        : this(new SimulatorState(network, options.Modes), new ReactionEffects(network, includeFired: false), options.MaxEvents)
     {
         _guard = new RunawayGuard(options.RunawayEvents);
     }
@@ -139,6 +139,7 @@ internal sealed class ThinnedDirectMethod : ExactSimulation
             ref var header = ref Unsafe.Add(ref header0, j);
             _program.Fire(ref header, j, ref count0, state, _effects, t);
             if (header.CountsSwitch) state.Switches.Fired(j);
+            if (header.WatchesMode) state.Modes.Fired(j, counts, t);
             for (var u = header.UpdateStart; u < header.UpdateEnd; u++)
             {
                 var k = Unsafe.Add(ref update0, u).Reaction;

@@ -43,7 +43,9 @@ internal sealed class CompiledDirectLoop
     /// <summary>Most species a generated loop keeps in locals.</summary>
     public const int SpeciesLimit = 64;
 
-    private static readonly ConditionalWeakTable<ReactionNetwork, CompiledDirectLoop> Cache = new();
+    // Per network, one loop per list of watched species (their order is the slot order the code calls with);
+    // the cores' bounds are read from the state at run time, so they need no loop of their own.
+    private static readonly ConditionalWeakTable<ReactionNetwork, System.Collections.Concurrent.ConcurrentDictionary<string, CompiledDirectLoop>> Cache = new();
 
     private readonly double[] _constants;
 
@@ -60,8 +62,16 @@ internal sealed class CompiledDirectLoop
     /// <summary>The generated loop; null when <see cref="Refusal"/> says why not.</summary>
     public CompiledAdvance? Advance { get; }
 
-    /// <summary>The loop for <paramref name="network"/>, generated on first use and shared afterwards.</summary>
-    public static CompiledDirectLoop For(ReactionNetwork network) => Cache.GetValue(network, Generate);
+    /// <summary>
+    /// The loop for <paramref name="network"/> following the modes of the species given <paramref name="cores"/>
+    /// (none when null or empty), generated on first use and shared afterwards.
+    /// </summary>
+    public static CompiledDirectLoop For(ReactionNetwork network, IReadOnlyList<ModeCore>? cores = null)
+    {
+        cores ??= [];
+        var loops = Cache.GetValue(network, _ => new());
+        return loops.GetOrAdd(string.Join(",", cores.Select(c => c.Species)), _ => Generate(network, cores));
+    }
 
     /// <summary>True when the state's constants are the ones folded into the code (always, unless parameters were replaced).</summary>
     public bool Matches(SimulatorState state)
@@ -91,12 +101,12 @@ internal sealed class CompiledDirectLoop
         return null;
     }
 
-    private static CompiledDirectLoop Generate(ReactionNetwork network)
+    private static CompiledDirectLoop Generate(ReactionNetwork network, IReadOnlyList<ModeCore> cores)
     {
         var refusal = RefusalFor(network);
         if (refusal is not null) return new CompiledDirectLoop(refusal, null, []);
         // The general loop's program, built as the simulator builds it: its update order is the order to copy.
-        var state = new SimulatorState(network);
+        var state = new SimulatorState(network, cores);
         state.Reset();
         state.RefreshConstants();
         var effects = new ReactionEffects(network, includeFired: false);

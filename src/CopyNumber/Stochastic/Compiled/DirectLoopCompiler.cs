@@ -55,6 +55,7 @@ internal sealed class DirectLoopCompiler
     private readonly ParameterExpression _countArray = Variable(typeof(long[]), "countArray");
     private readonly ParameterExpression _valueArray = Variable(typeof(double[]), "valueArray");
     private readonly ParameterExpression _switches = Variable(typeof(TransitionCounter), "switches");
+    private readonly ParameterExpression _modes = Variable(typeof(ModeWatch), "modes");
     private readonly ParameterExpression[] _counts;
     private readonly ParameterExpression[] _propensities;
 
@@ -91,7 +92,7 @@ internal sealed class DirectLoopCompiler
         body.Add(_end);
         var locals = new List<ParameterExpression>
         {
-            _random, _t, _next, _fired, _total, _peak, _untilResum, _nextGrid, _point, _change, _end, _countArray, _valueArray, _switches,
+            _random, _t, _next, _fired, _total, _peak, _untilResum, _nextGrid, _point, _change, _end, _countArray, _valueArray, _switches, _modes,
         };
         locals.AddRange(_counts);
         locals.AddRange(_propensities);
@@ -104,6 +105,7 @@ internal sealed class DirectLoopCompiler
     {
         yield return Assign(_countArray, Property(_stateArgument, nameof(SimulatorState.Counts)));
         yield return Assign(_switches, Property(_stateArgument, nameof(SimulatorState.Switches)));
+        yield return Assign(_modes, Property(_stateArgument, nameof(SimulatorState.Modes)));
         yield return Assign(_valueArray, Field(_selectionArgument, nameof(LinearSelection._values)));
         yield return Assign(_random, _rngArgument);
         yield return Assign(_t, _timeArgument);
@@ -174,7 +176,7 @@ internal sealed class DirectLoopCompiler
         yield return Goto(_exit);
     }
 
-    /// <summary>Reaction j's firing: count changes with their overflow headroom, the switch count, its propensity updates.</summary>
+    /// <summary>Reaction j's firing: count changes with their overflow headroom, the switch count, the watched modes, its propensity updates.</summary>
     private IEnumerable<Expression> Fire(int j)
     {
         yield return Label(_fire[j]);
@@ -192,6 +194,9 @@ internal sealed class DirectLoopCompiler
         }
         if (header.CountsSwitch)
             yield return Call(_switches, typeof(TransitionCounter).GetMethod(nameof(TransitionCounter.Fired))!, Constant(j), Constant(1L));
+        // The watched species' new counts are in locals here, so they are handed over directly.
+        foreach (var slot in _state.Modes.SlotsChangedBy(j).ToArray())
+            yield return Call(_modes, typeof(ModeWatch).GetMethod(nameof(ModeWatch.Observe))!, Constant(slot), _counts[_state.Modes.Cores[slot].Species], _t);
         yield return Assign(_change, Constant(0.0));
         for (var u = header.UpdateStart; u < header.UpdateEnd; u++)
         {
