@@ -2,6 +2,7 @@ using CopyNumber.Ensembles;
 using CopyNumber.Network;
 using CopyNumber.Tests.Stochastic;
 using MathNet.Numerics.Distributions;
+using Xunit.Abstractions;
 
 namespace CopyNumber.Tests.Ensembles;
 
@@ -11,7 +12,7 @@ namespace CopyNumber.Tests.Ensembles;
 /// growing tree followed, for a fixed and a gamma cycle length; the latter shares nothing with the engine's
 /// weighting (it has no weights, no ancestral law and its own random numbers).
 /// </summary>
-public sealed class PopulationSnapshotTests
+public sealed class PopulationSnapshotTests(ITestOutputHelper log)
 {
     private const double T = CellCycleTests.T, Phase = CellCycleTests.Phase;
 
@@ -48,6 +49,7 @@ public sealed class PopulationSnapshotTests
                 second += AgeAverage(density, a => s2 + Lambda(a) + Math.Pow(mu + Lambda(a), 2)) / cycles;
             }
             var variance = second - mean * mean;
+            log.WriteLine($"{name}: mean {law.Mean} (exact {mean:G6}), variance {law.Variance} (exact {variance:G6}), CV² {law.Cv2}, Fano {law.Fano}");
             Within(law.Mean, mean, $"{name} mean");
             Within(law.Variance, variance, $"{name} variance");
             Within(law.Cv2, variance / (mean * mean), $"{name} CV²");
@@ -89,6 +91,7 @@ public sealed class PopulationSnapshotTests
         Assert.Equal(121.6, stationaryCulture.Mean, 0.05);
         Assert.Equal(794, stationaryLineage.Variance, 0.5);
         Assert.Equal(742, stationaryCulture.Variance, 0.5);
+        log.WriteLine($"population − lineage: mean {result.MeanDifference[p]}, variance {result.VarianceDifference[p]}");
         // The difference is resolved: the snapshot's mean is lower than the lineage's by many standard errors.
         Assert.True(result.MeanDifference[p].Value < -10 * result.MeanDifference[p].StandardError,
             $"population − lineage = {result.MeanDifference[p].Value:G4} ± {result.MeanDifference[p].StandardError:G3}");
@@ -192,6 +195,8 @@ public sealed class PopulationSnapshotTests
         var varianceError = Math.Sqrt(Enumerable.Range(0, cultures).Sum(k =>
             Math.Pow((s2[k] - second * n[k]) / perCulture - 2 * mean * (s1[k] - mean * n[k]) / perCulture, 2)) / (cultures * (cultures - 1.0)));
 
+        log.WriteLine($"culture: mean {mean:G6} ± {meanError:G3}, variance {variance:G6} ± {varianceError:G3}, {cells / cultures:G4} cells per culture; " +
+            $"snapshot {population.Mean} {population.Variance}; lineage {lineage.Mean} {lineage.Variance}");
         Assert.True(Math.Abs(population.Mean.Value - mean) <= 5 * Math.Sqrt(meanError * meanError + Math.Pow(population.Mean.StandardError, 2)),
             $"snapshot mean {population.Mean.Value:G5} ± {population.Mean.StandardError:G3}, culture {mean:G5} ± {meanError:G3} ({cells / cultures:G4} cells per culture)");
         Assert.True(Math.Abs(population.Variance.Value - variance) <= 5 * Math.Sqrt(varianceError * varianceError + Math.Pow(population.Variance.StandardError, 2)),
