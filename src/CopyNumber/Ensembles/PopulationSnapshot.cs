@@ -136,15 +136,15 @@ public static class PopulationSnapshot
         {
             cancel.ThrowIfCancellationRequested();
             var end = Math.Min(blocks, first + perRound);
-            var done = new ReplicateRecords[(end - first) * BlockSize][];
+            var done = new ReplicateRecords[(end - first) * BlockSize];
             Parallel.For(first, end, new ParallelOptions { MaxDegreeOfParallelism = options.Threads, CancellationToken = cancel }, block =>
             {
                 if (!workers.TryTake(out var worker)) worker = new Lineages(network, options, growth, seed);
                 for (var r = block * BlockSize; r < Math.Min(options.Replicates, (block + 1) * BlockSize); r++)
-                    done[r - first * BlockSize] = [worker.Run(r)];
+                    done[r - first * BlockSize] = worker.Run(r);
                 workers.Add(worker);
             });
-            for (var r = first * BlockSize; r < Math.Min(options.Replicates, end * BlockSize); r++) sums.Add(r, done[r - first * BlockSize][0]);
+            for (var r = first * BlockSize; r < Math.Min(options.Replicates, end * BlockSize); r++) sums.Add(r, done[r - first * BlockSize]);
         }
         var laws = new List<(SnapshotLaw, SnapshotLaw)>();
         var meanDifference = new List<Estimate>();

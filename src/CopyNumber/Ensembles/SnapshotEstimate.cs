@@ -157,11 +157,11 @@ internal sealed class SnapshotSums
         var h = (int)view * _species + species;
         var p = Pooled(h);
         var v = p.Second - p.Mean * p.Mean;
-        Estimate Of(double value, Func<(double Mean, double Variance, double Cv2, double Fano), double> pick) =>
-            new(value, Error(r => pick(Residuals(this.Of(r, h), p))));
+        Estimate Estimated(double value, Func<(double Mean, double Variance, double Cv2, double Fano), double> pick) =>
+            new(value, Error(r => pick(Residuals(Of(r, h), p))));
         var totalWeight = p.MeanWeight * Replicates;
         var sumW2 = 0.0;
-        for (var r = 0L; r < Replicates; r++) sumW2 += this.Of(r, h).W * this.Of(r, h).W;
+        for (var r = 0L; r < Replicates; r++) sumW2 += Of(r, h).W * Of(r, h).W;
         var counts = _histograms[h].Keys.ToArray();
         var probabilities = new double[counts.Length];
         var errors = new double[counts.Length];
@@ -174,8 +174,8 @@ internal sealed class SnapshotSums
             var spread = Math.Max(0, s2 - 2 * q * sw + q * q * sumW2);
             errors[i++] = Replicates > 1 ? Math.Sqrt(spread / (Replicates * (double)(Replicates - 1))) / p.MeanWeight : double.NaN;
         }
-        return new SnapshotLaw(name, view, Of(p.Mean, e => e.Mean), Of(v, e => e.Variance), Of(v / (p.Mean * p.Mean), e => e.Cv2),
-            Of(v / p.Mean, e => e.Fano), counts, probabilities, errors);
+        return new SnapshotLaw(name, view, Estimated(p.Mean, e => e.Mean), Estimated(v, e => e.Variance), Estimated(v / (p.Mean * p.Mean), e => e.Cv2),
+            Estimated(v / p.Mean, e => e.Fano), counts, probabilities, errors);
     }
 
     /// <summary>Population minus lineage, of the mean and of the variance, with errors from the paired residuals.</summary>

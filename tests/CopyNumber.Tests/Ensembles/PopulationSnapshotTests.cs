@@ -206,6 +206,47 @@ public sealed class PopulationSnapshotTests(ITestOutputHelper log)
             $"lineage mean {lineage.Mean.Value:G5} ± {lineage.Mean.StandardError:G3} should differ from the culture's {mean:G5} ± {meanError:G3}");
     }
 
+    /// <summary>
+    /// A gene copied at phase φ of a gamma-distributed cycle (CV 0.25) has one copy before φτ and two after, whatever
+    /// else happens, so its law in each view is exact. Along the mother machine's lineage, weighted by time: one copy
+    /// for the fraction φ of the time (renewal-reward, common practice). In the culture, with the snapshot's age and
+    /// length density Λ·2e^(−Λa) f(τ) 1{a &lt; τ} (Powell 1956): P(one copy) = E_f[2(1 − e^(−Λφτ))] = 2 − 2(1 + Λθφ)^(−k)
+    /// for the gamma law of shape k and scale θ (derived here), with Λ found here by bisection on the Euler–Lotka
+    /// equation integrated numerically, not from the engine.
+    /// </summary>
+    [Fact]
+    public void AGenesCopiesInACultureFollowTheSnapshotsAgeAndLengthLaw()
+    {
+        const double cv = 0.25, length = 30, phase = 0.3;
+        var network = ModelLoader.LoadText($"""
+            species
+              gene = 1
+              P = 0
+            reactions
+              make: gene -> gene + P  mass 0.1
+              decay: P -> 0  mass 0.1
+            cycle
+              length {length} gamma cv {cv}
+              genes gene double at {phase}
+            """, "gene.cnet").Model!.Network;
+        var result = PopulationSnapshot.Run(network, new SnapshotOptions(3000, 78, BurnIn: 1, Cycles: 6, Threads: 2));
+        var (lineage, population) = result.Species[network.SpeciesIndex("gene")];
+        var (k, theta) = (1 / (cv * cv), length * cv * cv);
+        var f = new Gamma(k, 1 / theta);
+        double Lotka(double rate) => MathNet.Numerics.Integrate.OnClosedInterval(t => 2 * Math.Exp(f.DensityLn(t) - rate * t), 1e-9, 20 * length, 1e-12) - 1;
+        double low = 0, high = 1 / theta;
+        for (var i = 0; i < 100; i++) (low, high) = Lotka((low + high) / 2) > 0 ? ((low + high) / 2, high) : (low, (low + high) / 2);
+        var growth = (low + high) / 2;
+        var oneCopy = 2 - 2 * Math.Pow(1 + growth * theta * phase, -k);
+        foreach (var (law, single, name) in new[] { (lineage, phase, "lineage"), (population, oneCopy, "population") })
+        {
+            log.WriteLine($"{name}: P(one copy) {law.Probabilities[0]:G6} ± {law.ProbabilityErrors[0]:G3}, exact {single:G6}; mean {law.Mean}");
+            Assert.Equal([1L, 2L], law.Counts);
+            Assert.True(Math.Abs(law.Probabilities[0] - single) <= Math.Max(5 * law.ProbabilityErrors[0], 1e-12), $"{name}: P(one copy) {law.Probabilities[0]} ± {law.ProbabilityErrors[0]}, exact {single}");
+            Assert.True(Math.Abs(law.Mean.Value - (2 - single)) <= Math.Max(5 * law.Mean.StandardError, 1e-12), $"{name}: mean {law.Mean}, exact {2 - single}");
+        }
+    }
+
     private static double Lambda(double a) => CellCycleTests.Produced(a, "exponential");
 
     private static (double Mean, double Variance) Stationary(Func<double, double> density, double lambda)
