@@ -33,6 +33,13 @@ internal static class SnapshotSection
             "Each species' law in a snapshot of a growing culture (what flow cytometry sees) and along one lineage averaged over time (what a mother machine sees); dashed: the means.",
             SnapshotFigure.Render(laws, 1200, 420 * Math.Max(1, (laws.Length + 2) / 3)));
         var inv = CultureInfo.InvariantCulture;
+        var drifting = snapshot.Moments.Where(m => m.View == "population" && Math.Abs(m.Settling.Value) > SnapshotResult.SettlingLimit * m.Settling.StandardError)
+            .Select(m => $"{m.Species} ({Pm(m.Settling)})").ToArray();
+        var settling = drifting.Length == 0
+            ? "No species' population mean differs between the earlier and the later half of the sampled cycles beyond "
+              + string.Create(inv, $"{SnapshotResult.SettlingLimit:G} standard errors (the lineages had settled after the burn-in, as far as this check sees).")
+            : $"Caution: the population mean still drifts between the earlier and the later half of the sampled cycles for {string.Join(", ", drifting)} "
+              + string.Create(inv, $"(later minus earlier half): the lineages had not settled after the burn-in of {snapshot.BurnIn} divisions, so these values are biased towards the start; rerun with a larger --burn-in and --until.");
         return new ReportSection(
             "Population snapshot",
             [
@@ -40,6 +47,7 @@ internal static class SnapshotSection
                 + "its snapshot weighs every age by the culture's age density, and for a random cycle length also follows the ancestors' shorter cycles (docs/methods.md, Growth and division). "
                 + string.Create(inv, $"Estimated from {snapshot.Replicates} independent lineages, each sampled at {snapshot.AgesPerCycle} random ages of each of {snapshot.Cycles} cycles after a burn-in of {snapshot.BurnIn} divisions; ")
                 + "standard errors from the spread between lineages (snapshot.parquet, snapshot-moments.parquet).",
+                settling,
             ],
             [new ReportTable(["species", "view", "mean", "variance", "CV²", "Fano factor"], rows)],
             [figure]);

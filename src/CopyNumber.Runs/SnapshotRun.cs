@@ -79,6 +79,18 @@ public static class SnapshotRun
         return text.ToString();
     }
 
+    /// <summary>
+    /// A warning per species whose population mean still drifts between the earlier and the later half of the
+    /// sampled cycles (<see cref="SnapshotResult.Unsettled"/>), or nothing.
+    /// </summary>
+    public static IEnumerable<string> Warnings(SnapshotResult result)
+    {
+        ArgumentNullException.ThrowIfNull(result);
+        return result.Unsettled().Select(u => string.Create(CultureInfo.InvariantCulture,
+            $"the population snapshot of {u.Species} is still drifting: its mean over the later half of the sampled cycles differs from the earlier half's by {Pm(u.Drift)}, " +
+            $"so the lineages had not settled after the burn-in of {result.BurnIn} divisions; raise --burn-in (and --until)"));
+    }
+
     private static string Pm(Estimate e) => string.Create(CultureInfo.InvariantCulture, $"{e.Value:G5} ± {e.StandardError:G2}");
 
     private static string Text(double value) => value.ToString("G6", CultureInfo.InvariantCulture);

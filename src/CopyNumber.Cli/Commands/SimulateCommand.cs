@@ -115,7 +115,9 @@ internal static class SimulateCommand
             if (population && code == ExitCodes.Done && outcome.StopReason == StopReason.Finished)
             {
                 error.WriteLine("population snapshot: simulating the lineages of a growing culture (the run's tables are complete; an interruption here loses nothing)");
-                writer.Write(SnapshotRun.Describe(SnapshotRun.Run(folder, specification, parsed.GetValue(burnIn), session.Interrupt)));
+                var snapshot = SnapshotRun.Run(folder, specification, parsed.GetValue(burnIn), session.Interrupt);
+                writer.Write(SnapshotRun.Describe(snapshot));
+                foreach (var warning in SnapshotRun.Warnings(snapshot)) error.WriteLine($"warning: {warning}");
             }
             // A shard is only part of a run: its contrast waits for the merged folder.
             if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && !parsed.GetValue(noContrast))

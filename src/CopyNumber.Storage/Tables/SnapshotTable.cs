@@ -9,7 +9,10 @@ namespace CopyNumber.Storage;
 /// <c>count</c>, <c>probability</c> and <c>probability_se</c>. <c>snapshot-moments.parquet</c>: one row per
 /// (species, view) with <c>mean</c>, <c>variance</c>, <c>cv2</c> (variance over squared mean) and <c>fano</c>
 /// (variance over mean), each with its <c>_se</c>, then <c>difference_mean</c> and <c>difference_variance</c>
-/// (population − lineage, on the population's row; 0 on the lineage's) with their <c>_se</c>, and the
+/// (population − lineage, on the population's row; 0 on the lineage's) with their <c>_se</c>, <c>settling</c>
+/// (the population mean over the later half of the sampled cycles minus that over the earlier half, near 0 when
+/// the lineages had settled after the burn-in; NaN on the lineage's row and for one sampled cycle) with its
+/// <c>_se</c>, and the
 /// settings: <c>replicates</c>, <c>burn_in</c> (divisions), <c>cycles</c> (sampled per lineage),
 /// <c>ages_per_cycle</c> and <c>growth_rate</c> (Λ, per model time unit).
 /// </summary>
@@ -22,7 +25,7 @@ public static class SnapshotTable
     public static readonly IReadOnlyList<string> MomentColumns =
     [
         "species", "view", "mean", "mean_se", "variance", "variance_se", "cv2", "cv2_se", "fano", "fano_se",
-        "difference_mean", "difference_mean_se", "difference_variance", "difference_variance_se",
+        "difference_mean", "difference_mean_se", "difference_variance", "difference_variance_se", "settling", "settling_se",
         "replicates", "burn_in", "cycles", "ages_per_cycle", "growth_rate",
     ];
 
@@ -65,6 +68,8 @@ public static class SnapshotTable
                 Column(i => laws[i].Fano.Value), Column(i => laws[i].Fano.StandardError),
                 Column(i => difference[i].Item1.Value), Column(i => difference[i].Item1.StandardError),
                 Column(i => difference[i].Item2.Value), Column(i => difference[i].Item2.StandardError),
+                Column(i => laws[i].View == CellView.Population ? result.Settling[i / 2].Value : double.NaN),
+                Column(i => laws[i].View == CellView.Population ? result.Settling[i / 2].StandardError : double.NaN),
                 Setting(result.Replicates), Setting(result.BurnIn), Setting(result.Cycles), Setting(result.AgesPerCycle),
                 Column(_ => result.GrowthRate),
             ]);
@@ -87,10 +92,11 @@ public static class SnapshotTable
         {
             var species = table.Strings("species");
             var view = table.Strings("view");
-            var values = MomentColumns.Skip(2).Take(12).Select(c => table.Doubles(c)).ToArray();
+            var values = MomentColumns.Skip(2).Take(14).Select(c => table.Doubles(c)).ToArray();
             for (var r = 0; r < species.Length; r++)
                 rows.Add(new StoredSnapshotMoments(species[r], view[r], new(values[0][r], values[1][r]), new(values[2][r], values[3][r]),
-                    new(values[4][r], values[5][r]), new(values[6][r], values[7][r]), new(values[8][r], values[9][r]), new(values[10][r], values[11][r])));
+                    new(values[4][r], values[5][r]), new(values[6][r], values[7][r]), new(values[8][r], values[9][r]), new(values[10][r], values[11][r]),
+                    new(values[12][r], values[13][r])));
             if (species.Length == 0) throw table.Damaged($"{RunFiles.SnapshotMoments} has no rows");
             (replicates, burnIn, cycles, ages, growth) = (table.Longs("replicates")[0], (int)table.Longs("burn_in")[0], (int)table.Longs("cycles")[0],
                 (int)table.Longs("ages_per_cycle")[0], table.Doubles("growth_rate")[0]);
@@ -120,8 +126,9 @@ public static class SnapshotTable
 /// <param name="Fano">Fano factor.</param>
 /// <param name="DifferenceMean">Population − lineage mean (0 on a lineage row).</param>
 /// <param name="DifferenceVariance">Population − lineage variance (0 on a lineage row).</param>
+/// <param name="Settling">Later minus earlier half of the sampled cycles, of the population mean (NaN on a lineage row).</param>
 public sealed record StoredSnapshotMoments(string Species, string View, Estimate Mean, Estimate Variance, Estimate Cv2, Estimate Fano,
-    Estimate DifferenceMean, Estimate DifferenceVariance);
+    Estimate DifferenceMean, Estimate DifferenceVariance, Estimate Settling);
 
 /// <summary>A run's population snapshot as read back: the moments' rows, the laws by (species, view), and the settings.</summary>
 /// <param name="Moments">The rows of <c>snapshot-moments.parquet</c>.</param>

@@ -162,6 +162,7 @@ public static class PopulationSnapshot
             Species = laws,
             MeanDifference = meanDifference,
             VarianceDifference = varianceDifference,
+            Settling = Enumerable.Range(0, species).Select(sums.Settling).ToArray(),
             Replicates = options.Replicates,
             BurnIn = options.BurnIn,
             Cycles = options.Cycles,
@@ -192,12 +193,12 @@ public static class PopulationSnapshot
             var agesSeed = rng.NextUInt64();
             if (network.Cycle!.LengthCv == 0)
             {
-                Lineage(ref rng, agesSeed, 1.0, new Both(records, growth), replicate);
+                Lineage(ref rng, agesSeed, 1.0, new Both(records, growth, options.Cycles), replicate);
                 return records;
             }
             // A random length: the mother machine's lineage (weight τ: time along it), then the ancestral one.
-            Lineage(ref rng, agesSeed, 1.0, new One(records, CellView.Lineage, (_, length) => length), replicate);
-            Lineage(ref rng, rng.NextUInt64(), _ancestral, new One(records, CellView.Population, (age, length) => BalancedGrowth.SnapshotWeight(growth, age, length)), replicate);
+            Lineage(ref rng, agesSeed, 1.0, new One(records, CellView.Lineage, (_, length) => length, options.Cycles), replicate);
+            Lineage(ref rng, rng.NextUInt64(), _ancestral, new One(records, CellView.Population, (age, length) => BalancedGrowth.SnapshotWeight(growth, age, length), options.Cycles), replicate);
             return records;
         }
 
@@ -218,17 +219,20 @@ public static class PopulationSnapshot
     }
 
     // A fixed length: one lineage is both the mother machine's and the ancestral one.
-    private sealed class Both(ReplicateRecords records, double growth) : ICycleRecord
+    // Which half of the sampled cycles a record is from, for the settling check; null for a single cycle.
+    private static bool? Half(int cycle, int cycles) => cycles >= 2 ? cycle >= cycles / 2 : null;
+
+    private sealed class Both(ReplicateRecords records, double growth, int cycles) : ICycleRecord
     {
         public void Record(int cycle, double age, double length, long[] counts)
         {
-            records.Add(CellView.Lineage, counts, 1.0);
-            records.Add(CellView.Population, counts, BalancedGrowth.SnapshotWeight(growth, age, length));
+            records.Add(CellView.Lineage, counts, 1.0, null);
+            records.Add(CellView.Population, counts, BalancedGrowth.SnapshotWeight(growth, age, length), Half(cycle, cycles));
         }
     }
 
-    private sealed class One(ReplicateRecords records, CellView view, Func<double, double, double> weight) : ICycleRecord
+    private sealed class One(ReplicateRecords records, CellView view, Func<double, double, double> weight, int cycles) : ICycleRecord
     {
-        public void Record(int cycle, double age, double length, long[] counts) => records.Add(view, counts, weight(age, length));
+        public void Record(int cycle, double age, double length, long[] counts) => records.Add(view, counts, weight(age, length), Half(cycle, cycles));
     }
 }

@@ -63,6 +63,19 @@ public sealed record SnapshotResult
     /// <summary>Per species, population variance − lineage variance.</summary>
     public required IReadOnlyList<Estimate> VarianceDifference { get; init; }
 
+    /// <summary>
+    /// Per species, the population mean over the later half of the sampled cycles minus that over the earlier half
+    /// (<see cref="SettlingLimit"/> standard errors or more: the lineages had not settled after the burn-in); NaN for one sampled cycle.
+    /// </summary>
+    public required IReadOnlyList<Estimate> Settling { get; init; }
+
+    /// <summary>Standard errors beyond which <see cref="Settling"/> is reported as not settled.</summary>
+    public const double SettlingLimit = 4.0;
+
+    /// <summary>The species whose <see cref="Settling"/> is resolved beyond <see cref="SettlingLimit"/> standard errors.</summary>
+    public IEnumerable<(string Species, Estimate Drift)> Unsettled() =>
+        Species.Select((s, i) => (s.Population.Species, Settling[i])).Where(d => Math.Abs(d.Item2.Value) > SettlingLimit * d.Item2.StandardError);
+
     /// <summary>Independent replicates (lineages, or pairs of lineages for a random cycle length).</summary>
     public required long Replicates { get; init; }
 
@@ -88,6 +101,8 @@ internal sealed class SnapshotSums
     // Per replicate: W, A, B (see SnapshotLaw), for each (view, species).
     private readonly double[] _perReplicate;
     private readonly int _species;
+    // Per replicate and species: the population view's W and A over the earlier and the later half of the cycles.
+    private readonly double[] _halves;
     // Per (view, species) and count: Σ_r S_rn, Σ_r S_rn², Σ_r S_rn·W_r, S_rn the replicate's weight on count n.
     private readonly SortedDictionary<long, (double S, double S2, double SW)>[] _histograms;
 
@@ -95,6 +110,7 @@ internal sealed class SnapshotSums
     {
         _species = species;
         _perReplicate = new double[replicates * 2 * species * 3];
+        _halves = new double[replicates * species * 4];
         _histograms = new SortedDictionary<long, (double, double, double)>[2 * species];
         for (var h = 0; h < _histograms.Length; h++) _histograms[h] = [];
     }
@@ -107,6 +123,11 @@ internal sealed class SnapshotSums
             var (w, a, b) = records.Sums(h);
             var at = (replicate * _histograms.Length + h) * 3;
             (_perReplicate[at], _perReplicate[at + 1], _perReplicate[at + 2]) = (w, a, b);
+            if (h < _species)
+            {
+                var at2 = (replicate * _species + h) * 4;
+                (_halves[at2], _halves[at2 + 1], _halves[at2 + 2], _halves[at2 + 3]) = records.Halves(h);
+            }
             foreach (var (count, s) in records.Histogram(h))
             {
                 var (s1, s2, sw) = _histograms[h].GetValueOrDefault(count);
@@ -178,6 +199,29 @@ internal sealed class SnapshotSums
             Estimated(v / p.Mean, e => e.Fano), counts, probabilities, errors);
     }
 
+    /// <summary>
+    /// The population view's mean over the later half of the sampled cycles minus that over the earlier half, with
+    /// its error from each replicate's paired residuals: near 0 when the lineages had settled after the burn-in;
+    /// NaN when there are no halves (one sampled cycle).
+    /// </summary>
+    public Estimate Settling(int species)
+    {
+        double ew = 0, ea = 0, lw = 0, la = 0;
+        for (var r = 0L; r < Replicates; r++)
+        {
+            var at = (r * _species + species) * 4;
+            (ew, ea, lw, la) = (ew + _halves[at], ea + _halves[at + 1], lw + _halves[at + 2], la + _halves[at + 3]);
+        }
+        if (!(ew > 0 && lw > 0)) return new Estimate(double.NaN, double.NaN);
+        var (early, late) = (ea / ew, la / lw);
+        var (meanEarlyW, meanLateW) = (ew / Replicates, lw / Replicates);
+        return new Estimate(late - early, Error(r =>
+        {
+            var at = (r * _species + species) * 4;
+            return (_halves[at + 3] - late * _halves[at + 2]) / meanLateW - (_halves[at + 1] - early * _halves[at]) / meanEarlyW;
+        }));
+    }
+
     /// <summary>Population minus lineage, of the mean and of the variance, with errors from the paired residuals.</summary>
     public (Estimate Mean, Estimate Variance) Difference(int species, double lineageMean, double populationMean, double lineageVariance, double populationVariance)
     {
@@ -193,13 +237,23 @@ internal sealed class SnapshotSums
 internal sealed class ReplicateRecords(int species)
 {
     private readonly double[] _sums = new double[2 * species * 3];
+    // The population view's W and A over the earlier and the later half of the sampled cycles, per species.
+    private readonly double[] _halves = new double[species * 4];
     private readonly Dictionary<long, double>[] _weights = Enumerable.Range(0, 2 * species).Select(_ => new Dictionary<long, double>()).ToArray();
 
-    /// <summary>Adds a record with weight <paramref name="weight"/> in <paramref name="view"/>.</summary>
-    public void Add(CellView view, long[] counts, double weight)
+    /// <summary>
+    /// Adds a record with weight <paramref name="weight"/> in <paramref name="view"/>; <paramref name="late"/> says
+    /// whether it is from the later half of the sampled cycles (null: there is one cycle, no halves).
+    /// </summary>
+    public void Add(CellView view, long[] counts, double weight, bool? late)
     {
         for (var s = 0; s < species; s++)
         {
+            if (view == CellView.Population && late is { } half)
+            {
+                _halves[4 * s + (half ? 2 : 0)] += weight;
+                _halves[4 * s + (half ? 3 : 1)] += weight * counts[s];
+            }
             var h = (int)view * species + s;
             double x = counts[s];
             _sums[3 * h] += weight;
@@ -210,6 +264,9 @@ internal sealed class ReplicateRecords(int species)
     }
 
     public (double W, double A, double B) Sums(int h) => (_sums[3 * h], _sums[3 * h + 1], _sums[3 * h + 2]);
+
+    public (double EarlyW, double EarlyA, double LateW, double LateA) Halves(int species) =>
+        (_halves[4 * species], _halves[4 * species + 1], _halves[4 * species + 2], _halves[4 * species + 3]);
 
     public IEnumerable<KeyValuePair<long, double>> Histogram(int h) => _weights[h];
 }

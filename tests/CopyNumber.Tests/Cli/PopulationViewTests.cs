@@ -43,6 +43,8 @@ public sealed class PopulationViewTests
                 "--view", "population", "--burn-in", "3", "--check-exact", "false", "--out", folder);
             Assert.True(run.ExitCode == 0, run.Error);
             Assert.Contains("population snapshot (100 lineages, 7 cycles each after 3 divisions", run.Output);
+            // P starts near its level (made at about 1.4 per unit time, lost at 0.01 + ln 2/20): no drift to warn of.
+            Assert.DoesNotContain("still drifting", run.Error);
             // The tables carry checksums in the manifest, so the folder reads back (RunFolder verifies every table it lists).
             Assert.NotNull(RunFolder.Read(folder));
             var snapshot = SnapshotTable.Read(folder)!;
@@ -52,6 +54,7 @@ public sealed class PopulationViewTests
             foreach (var (_, law) in snapshot.Laws) Assert.Equal(1.0, law.Probabilities.Sum(), 1e-9);
             var report = File.ReadAllText(Path.Combine(folder, RunFiles.ReportMarkdown));
             Assert.Contains("## Population snapshot", report);
+            Assert.Contains("No species' population mean differs between the earlier and the later half", report);
             Assert.True(File.Exists(Path.Combine(folder, RunFiles.Figures, "population-snapshot.png")));
             return File.ReadAllBytes(Path.Combine(folder, RunFiles.Snapshot));
         }
@@ -65,6 +68,22 @@ public sealed class PopulationViewTests
         var path = scratch.File(name);
         File.WriteAllBytes(path, bytes);
         return path;
+    }
+
+    [Fact]
+    public void ALineageThatHasNotSettledIsWarnedOf()
+    {
+        // From P = 300 the mean relaxes towards some 32 copies at rate 0.01 + ln 2/20 ≈ 0.045 per unit time (e-fold in 22):
+        // with no burn-in the earlier half of the sampled cycles lies far above the later one.
+        using var scratch = new ScratchFolder();
+        var model = Model(scratch, "far");
+        File.WriteAllText(model, File.ReadAllText(model).Replace("P = 30", "P = 300"));
+        var folder = scratch.File("out");
+        var run = CliRun.Of("simulate", model, "--until", "140", "--every", "10", "--replicates", "64", "--seed", "2", "--view", "population", "--burn-in", "0",
+            "--check-exact", "false", "--out", folder);
+        Assert.True(run.ExitCode == 0, run.Error);
+        Assert.Contains("warning: the population snapshot of P is still drifting", run.Error);
+        Assert.Contains("Caution: the population mean still drifts", File.ReadAllText(Path.Combine(folder, RunFiles.ReportMarkdown)));
     }
 
     [Theory]

@@ -247,6 +247,27 @@ public sealed class PopulationSnapshotTests(ITestOutputHelper log)
         }
     }
 
+    /// <summary>
+    /// The settling check: the stable protein starts at P = 50 while its birth mean is λ = 88.85 at the fixed point,
+    /// and the birth mean's distance to λ halves at each division (the map μ' = (μ + λ)/2, derived in
+    /// CellCycleTests). With no burn-in, the first half of 8 sampled cycles lies some 18 copies below the second on
+    /// average (38.85·(1 + ½ + ¼ + ⅛)/4 − 38.85·2^(−4)·(1 + ½ + ¼ + ⅛)/4): flagged. After 14 divisions the distance
+    /// is 0.002 copies, far below the standard error: not flagged.
+    /// </summary>
+    [Fact]
+    public void TheSettlingCheckFlagsAShortBurnInOnly()
+    {
+        var network = CellCycleTests.Network();
+        var p = network.SpeciesIndex("P");
+        var early = PopulationSnapshot.Run(network, new SnapshotOptions(300, 5, BurnIn: 0, Cycles: 8, Threads: 2));
+        log.WriteLine($"burn-in 0: later − earlier half {early.Settling[p]}");
+        Assert.Contains(early.Unsettled(), u => u.Species == "P");
+        Assert.InRange(early.Settling[p].Value, 10, 30);
+        var settled = PopulationSnapshot.Run(network, new SnapshotOptions(300, 5, BurnIn: 14, Cycles: 4, Threads: 2));
+        log.WriteLine($"burn-in 14: later − earlier half {settled.Settling[p]}");
+        Assert.DoesNotContain(settled.Unsettled(), u => u.Species == "P");
+    }
+
     private static double Lambda(double a) => CellCycleTests.Produced(a, "exponential");
 
     private static (double Mean, double Variance) Stationary(Func<double, double> density, double lambda)
