@@ -88,6 +88,17 @@ internal static class FigureLook
     public static FigureImage Render(Plot plot, int width, int height) => Render([plot], 1, width, height);
 
     /// <summary>
+    /// The layout of <paramref name="count"/> panels sharing width × height: up to 3 in a row, else about a square,
+    /// and the text scale, which shrinks with the panel but not below what is still legible.
+    /// </summary>
+    public static (int Columns, float Scale) PanelGrid(int count, int width, int height)
+    {
+        var columns = count <= 3 ? Math.Max(1, count) : (int)Math.Ceiling(Math.Sqrt(count));
+        var rows = Math.Max(1, (count + columns - 1) / columns);
+        return (columns, (float)Math.Clamp(Math.Min(width / (double)columns / 600.0, height / (double)rows / 420.0), 0.6, 1.0));
+    }
+
+    /// <summary>
     /// Panels laid out row by row, <paramref name="columns"/> to a row, filling width × height, drawn twice from the
     /// same plots: once to PNG for the reports, once to SVG (vector, for papers).
     /// </summary>

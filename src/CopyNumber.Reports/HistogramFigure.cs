@@ -29,10 +29,7 @@ internal static class HistogramFigure
             return ([empty], 1);
         }
 
-        int columns = snapshots.Count <= 3 ? snapshots.Count : (int)Math.Ceiling(Math.Sqrt(snapshots.Count));
-        int rows = (snapshots.Count + columns - 1) / columns;
-        // Text shrinks with the panel, but not below what is still legible.
-        float scale = (float)Math.Clamp(Math.Min(width / (double)columns / 600.0, height / (double)rows / 420.0), 0.6, 1.0);
+        var (columns, scale) = FigureLook.PanelGrid(snapshots.Count, width, height);
         var limits = SharedLimits(snapshots);
 
         var panels = new List<Plot>(snapshots.Count);

@@ -26,12 +26,24 @@ internal static class SimulateCommand
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
         var checkExact = new Option<bool?>("--check-exact") { Description = "Also solve the master equation on the grid and test the ensemble against the exact law (default: only when that solve is small; 'false' turns it off)." };
+        var view = new Option<string>("--view")
+        {
+            Description = "For a model with a cycle: 'lineage' (default) follows one lineage, what a mother machine sees; 'population' adds, after the run, "
+                + "the snapshot of a culture in balanced exponential growth, what flow cytometry sees, beside the lineage's time average (snapshot.parquet, snapshot-moments.parquet; docs/methods.md).",
+            DefaultValueFactory = _ => "lineage",
+        };
+        view.AcceptOnlyFromAmong("lineage", "population");
+        var burnIn = new Option<int>("--burn-in")
+        {
+            Description = $"With --view population: divisions each lineage goes through before its cycles are sampled (default {PopulationSnapshot.DefaultBurnIn}); the whole mean cycles of --until after them are sampled.",
+            DefaultValueFactory = _ => PopulationSnapshot.DefaultBurnIn,
+        };
 
         var command = new Command("simulate", "Run an ensemble of stochastic replicates and summarise it on the time grid beside the rate equations.");
         command.Arguments.Add(model);
         grid.AddTo(command);
         ensemble.AddTo(command);
-        foreach (var option in new Option[] { output, force, resume, noContrast, takeOver, checkExact })
+        foreach (var option in new Option[] { output, force, resume, noContrast, takeOver, checkExact, view, burnIn })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
@@ -61,6 +73,12 @@ internal static class SimulateCommand
             var error = parsed.InvocationConfiguration.Error;
             var writer = parsed.InvocationConfiguration.Output;
             stored?.EnsureSameRun(specification.Settings(EnsembleOptions.DefaultBlockSize));
+            // The population view is checked before anything runs, so a run that cannot have it writes nothing.
+            var population = parsed.GetValue(view) == "population";
+            if (!population && parsed.GetResult(burnIn) is { Implicit: false })
+                throw new UserInputException("--burn-in applies to --view population only");
+            if (population && SnapshotRun.Problem(specification, parsed.GetValue(burnIn)) is { } snapshotProblem)
+                throw new UserInputException($"--view population: {snapshotProblem}");
             if (stored is not null && !stored.NeedsResuming)
             {
                 error.WriteLine($"nothing to resume: the run in {Paths.Shown(stored.Folder)} has all its {stored.Manifest.ReplicatesFinished} replicates");
@@ -94,6 +112,14 @@ internal static class SimulateCommand
             // The exact check (issue 11): the master equation on the run's grid against the finished ensemble.
             if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && parsed.GetValue(checkExact) is not false)
                 writer.Write(ExactCheck.Run(folder, loaded.Network, timeGrid, parsed.GetValue(checkExact) is true, specification.Threads, session.Interrupt).Describe());
+            // The population snapshot (issue 13): its own lineages, after the finished run, before the report that shows it.
+            if (population && code == ExitCodes.Done && outcome.StopReason == StopReason.Finished)
+            {
+                error.WriteLine("population snapshot: simulating the lineages of a growing culture (the run's tables are complete; an interruption here loses nothing)");
+                var snapshot = SnapshotRun.Run(folder, specification, parsed.GetValue(burnIn), session.Interrupt);
+                writer.Write(SnapshotRun.Describe(snapshot));
+                foreach (var warning in SnapshotRun.Warnings(snapshot)) error.WriteLine($"warning: {warning}");
+            }
             // A shard is only part of a run: its contrast waits for the merged folder.
             if (code == ExitCodes.Done && outcome.StopReason == StopReason.Finished && specification.Shard.IsWhole && !parsed.GetValue(noContrast))
             {

@@ -10,6 +10,9 @@ public static class RunFiles
         Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet",
         Switching = "switching.parquet";
 
+    /// <summary>What <c>simulate --view population</c> adds: the population snapshot's laws and moments beside the lineage's (<see cref="SnapshotTable"/>).</summary>
+    public const string Snapshot = "snapshot.parquet", SnapshotMoments = "snapshot-moments.parquet";
+
     /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files, each with its SVG).</summary>
     public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
 
@@ -35,7 +38,7 @@ public static class RunFiles
     public const string Claim = ".copynumber-claim", Lock = ".copynumber-lock";
 
     /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>
-    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances, Switching];
+    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances, Switching, Snapshot, SnapshotMoments];
 
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="Paths"/>.</summary>
     internal const string ResumedPaths = "paths-resumed.parquet";
@@ -51,6 +54,7 @@ public static class RunFiles
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
         Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances, Switching,
+        Snapshot, SnapshotMoments,
         Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Pair, Claim, Lock,
     };
 

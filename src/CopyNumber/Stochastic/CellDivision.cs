@@ -30,6 +30,19 @@ internal sealed class CellDivision(CellCycle cycle)
     /// <summary>Divisions since the replicate's start.</summary>
     public long Divisions { get; private set; }
 
+    /// <summary>The current cycle's birth time.</summary>
+    public double Birth => _birth;
+
+    /// <summary>The current cycle's length.</summary>
+    public double Length => _length;
+
+    /// <summary>
+    /// A factor on every drawn cycle length: 1 for the lineage a mother machine follows; for the population
+    /// snapshot's ancestral lineage, the scale that turns the gamma law f into 2e^(−Λτ)f(τ)
+    /// (<see cref="Network.BalancedGrowth.AncestralScale"/>). Set before <see cref="Start"/>.
+    /// </summary>
+    public double LengthScale { get; set; } = 1.0;
+
     /// <summary>Seeds the cycle's stream from one draw of <paramref name="rng"/> and starts the first cycle at t = 0 (a newborn cell).</summary>
     public void Start(ref Xoshiro256StarStar rng, SimulatorState state)
     {
@@ -55,7 +68,7 @@ internal sealed class CellDivision(CellCycle cycle)
     private void NewCycle(double birth, SimulatorState state)
     {
         _birth = birth;
-        _length = cycle.DrawLength(ref _stream);
+        _length = cycle.DrawLength(ref _stream) * LengthScale;
         _doubling = cycle.Genes.Count > 0 ? birth + cycle.GenePhase * _length : double.PositiveInfinity;
         state.Parameters[cycle.BirthSlot] = birth;
         state.Parameters[cycle.LengthSlot] = _length;

@@ -31,11 +31,39 @@ internal abstract class ExactSimulation : IStochasticSimulator
 
     public void StartFrom(double[]? parameters) => State.StartParameters = parameters;
 
-    public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer)
+    public ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer) => Run(ref rng, grid, observer, null);
+
+    // The lineage of a population snapshot records nothing on a grid: one of two points, both before any division.
+    private static readonly TimeGrid LineageGrid = new(until: 1e-300, every: 1e-300);
+
+    /// <summary>
+    /// Runs one lineage for the population snapshot: cycle lengths scaled by <paramref name="lengthScale"/>
+    /// (<see cref="CellDivision.LengthScale"/>), the state handed to <paramref name="sink"/> at the ages
+    /// <paramref name="sampler"/> draws (seeded with <paramref name="agesSeed"/>), until its last record. The
+    /// network has a cell cycle and no timed changes (the caller checks).
+    /// </summary>
+    internal ReplicateResult RunLineage(ref Xoshiro256StarStar rng, CycleSampler sampler, ulong agesSeed, double lengthScale, ICycleRecord sink)
+    {
+        _cell!.LengthScale = lengthScale;
+        sampler.Start(agesSeed, sink);
+        try
+        {
+            return Run(ref rng, LineageGrid, NoRecords.Instance, sampler);
+        }
+        finally
+        {
+            _cell.LengthScale = 1.0;
+        }
+    }
+
+    private ReplicateResult Run(ref Xoshiro256StarStar rng, TimeGrid grid, ITrajectoryObserver observer, CycleSampler? sampler)
     {
         State.StartReplicate(_schedule, _recorder, grid, observer);
         State.SeedBursts(ref rng);
         _cell?.Start(ref rng, State);
+        sampler?.NewCycle(0, 0.0, _cell!.Length);
+        // A lineage for the snapshot runs until its sampler is done, past the grid.
+        var until = sampler is null ? grid.Until : double.PositiveInfinity;
         var time = 0.0;
         var events = 0L;
         Begin(ref rng, time);
@@ -43,7 +71,8 @@ internal abstract class ExactSimulation : IStochasticSimulator
         {
             var scheduled = _schedule.NextTime;
             var cellEvent = _cell?.NextTime ?? double.PositiveInfinity;
-            var horizon = Math.Min(Math.Min(scheduled, cellEvent), grid.Until);
+            var sample = sampler?.NextTime ?? double.PositiveInfinity;
+            var horizon = Math.Min(Math.Min(Math.Min(scheduled, cellEvent), sample), until);
             var end = Advance(ref rng, ref time, horizon, _recorder, ref events, _maxEvents);
             if (end == SegmentEnd.EventLimit) return new ReplicateResult(events, events, true) { Switches = State.Switches.Finish(), Modes = State.Modes.Finish(time) };
             if (end == SegmentEnd.Triggered)
@@ -53,16 +82,26 @@ internal abstract class ExactSimulation : IStochasticSimulator
                 AfterSchedule(time);
                 continue;
             }
-            // A division (or the genes' doubling) is a stop like a timed change; at a tie it comes first.
-            if (cellEvent <= grid.Until && cellEvent <= scheduled)
+            // A snapshot record reads the state and changes nothing; the pending candidate was discarded at the stop.
+            if (sampler is not null && sample <= cellEvent && sample <= scheduled)
             {
-                _cell!.Apply(time, State);
+                sampler.Take(State.Counts);
+                if (sampler.Done) return new ReplicateResult(events, events, false) { Switches = State.Switches.Finish() };
+                AfterSchedule(time);
+                continue;
+            }
+            // A division (or the genes' doubling) is a stop like a timed change; at a tie it comes first.
+            if (cellEvent <= until && cellEvent <= scheduled)
+            {
+                var divisions = _cell!.Divisions;
+                _cell.Apply(time, State);
+                if (sampler is not null && _cell.Divisions != divisions) sampler.NewCycle(_cell.Divisions, _cell.Birth, _cell.Length);
                 State.Triggers.AfterTimedChanges(State, time);
                 if (State.Modes.Watching) State.Modes.ObserveAll(State.Counts, time);
                 AfterSchedule(time);
                 continue;
             }
-            if (scheduled <= grid.Until)
+            if (scheduled <= until)
             {
                 _schedule.ApplyDue(time, State);
                 State.Triggers.AfterTimedChanges(State, time);
@@ -73,6 +112,12 @@ internal abstract class ExactSimulation : IStochasticSimulator
             _recorder.RecordThrough(grid.Until, State.Counts);
             return new ReplicateResult(events, events, false) { Switches = State.Switches.Finish(), Modes = State.Modes.Finish(grid.Until) };
         }
+    }
+
+    private sealed class NoRecords : ITrajectoryObserver
+    {
+        public static readonly NoRecords Instance = new();
+        public void Record(int gridIndex, double time, long[] counts, double[] parameters) { }
     }
 
     /// <summary>Evaluates every propensity from the (reset) state and sets up the pending event(s).</summary>
