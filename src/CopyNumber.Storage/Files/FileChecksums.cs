@@ -101,7 +101,10 @@ public static class FileChecksums
             warnings.Add($"'{folder}' was written by a version of CopyNumber without checksums: it is read as before, but damage to its tables cannot be detected.");
             return;
         }
-        Verify(sums, folder, Path.Combine(folder, RunFiles.Manifest), [.. RunFiles.Tables]);
+        Verify(sums, folder, Path.Combine(folder, RunFiles.Manifest), [.. RunFiles.Tables.Except(RunFiles.AddedAfterRun)]);
+        foreach (var name in RunFiles.AddedAfterRun)
+            if (!sums.ContainsKey(name) && File.Exists(Path.Combine(folder, name)))
+                warnings.Add($"'{Path.Combine(folder, name)}' has no checksum in the manifest: it was being added when the process stopped, so it is ignored; run 'simulate --view population' again to remake it.");
     }
 
     private static bool IsSha256(string text) => text.Length == 64 && text.All(char.IsAsciiHexDigitLower);

@@ -37,6 +37,21 @@ public static class RunFiles
     /// </summary>
     public const string Claim = ".copynumber-claim", Lock = ".copynumber-lock";
 
+    /// <summary>
+    /// Tables a later step adds to a finished run (<c>simulate --view population</c> after its ensemble): written, then
+    /// recorded in the manifest. A kill between the two leaves them unrecorded; readers then ignore them with a warning
+    /// instead of refusing the whole folder, whose own tables are whole.
+    /// </summary>
+    public static readonly IReadOnlyList<string> AddedAfterRun = [Snapshot, SnapshotMoments];
+
+    /// <summary>True when <paramref name="name"/>, one of <see cref="AddedAfterRun"/>, is recorded among the checksums of the manifest in <paramref name="folder"/>.</summary>
+    public static bool RecordedAddOn(string folder, string name)
+    {
+        var manifest = Path.Combine(folder, Manifest);
+        if (!File.Exists(manifest)) return false;
+        return FileChecksums.Recorded(RunManifest.Read(manifest), ManifestFields.Files, folder)?.ContainsKey(name) ?? false;
+    }
+
     /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>
     public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances, Switching, Snapshot, SnapshotMoments];
 

@@ -84,6 +84,8 @@ public static class SnapshotTable
         var lawsPath = Path.Combine(folder, RunFiles.Snapshot);
         var momentsPath = Path.Combine(folder, RunFiles.SnapshotMoments);
         if (!File.Exists(lawsPath) || !File.Exists(momentsPath)) return null;
+        // Tables the manifest does not record were cut off before it recorded them (a kill between the two writes): not used.
+        if (!RunFiles.RecordedAddOn(folder, RunFiles.Snapshot) || !RunFiles.RecordedAddOn(folder, RunFiles.SnapshotMoments)) return null;
         var rows = new List<StoredSnapshotMoments>();
         int burnIn, cycles, ages;
         long replicates;

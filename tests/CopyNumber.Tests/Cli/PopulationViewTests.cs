@@ -63,6 +63,31 @@ public sealed class PopulationViewTests
         for (var c = 0; c < one.Values.Length; c++) Assert.Equal(one.Values[c], two.Values[c]);
     }
 
+    [Fact]
+    public void A_snapshot_cut_off_before_the_manifest_recorded_it_is_ignored_with_a_warning_and_the_run_still_reads()
+    {
+        // The snapshot's tables are written after the ensemble, then recorded in the manifest; a kill between the two
+        // (made here by taking the records out again) left a folder every reader refused, although its own tables were whole.
+        using var scratch = new ScratchFolder();
+        var model = Model(scratch, "protein");
+        var folder = scratch.File("run");
+        var run = CliRun.Of("simulate", model, "--until", "200", "--every", "10", "--replicates", "64", "--seed", "5",
+            "--view", "population", "--burn-in", "3", "--check-exact", "false", "--out", folder);
+        Assert.True(run.ExitCode == 0, run.Error);
+        var manifestPath = Path.Combine(folder, RunFiles.Manifest);
+        var manifest = RunManifest.Read(manifestPath);
+        var sums = new SortedDictionary<string, string>(FileChecksums.Recorded(manifest, ManifestFields.Files, folder)!.ToDictionary(), StringComparer.Ordinal);
+        Assert.True(sums.Remove(RunFiles.Snapshot) && sums.Remove(RunFiles.SnapshotMoments));
+        manifest.Extra[ManifestFields.Files] = sums;
+        manifest.WriteAtomic(manifestPath);
+
+        var contrast = CliRun.Of("contrast", folder);
+        Assert.True(contrast.ExitCode == 0, contrast.Error);
+        Assert.Contains("it was being added when the process stopped, so it is ignored", contrast.Error);
+        Assert.Null(SnapshotTable.Read(folder));
+        Assert.DoesNotContain("## Population snapshot", File.ReadAllText(Path.Combine(folder, RunFiles.ReportMarkdown)));
+    }
+
     private static string WriteBytes(ScratchFolder scratch, string name, byte[] bytes)
     {
         var path = scratch.File(name);
