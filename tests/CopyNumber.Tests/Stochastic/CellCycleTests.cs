@@ -26,7 +26,7 @@ public sealed class CellCycleTests
     private const double K = 1.0, Q = 0.5, V0 = 1.0, T = 40, Phase = 0.5;
     private const long Start = 50;
 
-    private static ReactionNetwork Network(string growth = "exponential", string split = "binomial", string length = "40") => ModelLoader.LoadText($"""
+    internal static ReactionNetwork Network(string growth = "exponential", string split = "binomial", string length = "40") => ModelLoader.LoadText($"""
         # a stable protein in a growing, dividing cell; illustrative
         size {V0}
         species
@@ -46,7 +46,7 @@ public sealed class CellCycleTests
         """, "cells.cnet").Model!.Network;
 
     // Λ(a): the mean production from birth to age a.
-    private static double Produced(double a, string growth, double length = T)
+    internal static double Produced(double a, string growth, double length = T)
     {
         var gene = a < Phase * length ? K * a : K * Phase * length + 2 * K * (a - Phase * length);
         var volume = growth == "exponential" ? Q * V0 * length * (Math.Pow(2, a / length) - 1) / Math.Log(2) : Q * V0 * (a + a * a / (2 * length));
@@ -54,7 +54,7 @@ public sealed class CellCycleTests
     }
 
     // The birth-to-birth map of mean and variance under binomial partitioning, from a fixed start.
-    private static (double Mean, double Variance) BirthMoments(int divisions, double lambda, double lambdaVariance = 0)
+    internal static (double Mean, double Variance) BirthMoments(int divisions, double lambda, double lambdaVariance = 0)
     {
         double mu = Start, s2 = 0;
         for (var c = 0; c < divisions; c++) (mu, s2) = ((mu + lambda) / 2, (s2 + lambda + lambdaVariance) / 4 + (mu + lambda) / 4);
@@ -62,7 +62,7 @@ public sealed class CellCycleTests
     }
 
     // The law at birth after each of `divisions` divisions, as a probability vector (Poisson production, then the split).
-    private static double[] BirthLaw(int divisions, double lambda, bool binomial)
+    internal static double[] BirthLaw(int divisions, double lambda, bool binomial)
     {
         var law = new double[Start + 1];
         law[Start] = 1;
