@@ -101,27 +101,14 @@ public sealed class PartitionControl
 /// </param>
 public readonly record struct VarianceEstimate(long Replicates, double Mean, double Variance, double StandardError)
 {
-    /// <summary>The estimate from a histogram of counts.</summary>
+    /// <summary>The estimate from a histogram of counts (its moments by <see cref="CellMoments.Of"/>).</summary>
     public static VarianceEstimate From(CountHistogram histogram)
     {
-        ArgumentNullException.ThrowIfNull(histogram);
-        var n = histogram.Total;
-        if (n < 2) return new VarianceEstimate(n, n == 1 ? histogram.Minimum : double.NaN, double.NaN, double.NaN);
-        double sum = 0;
-        foreach (var f in histogram) sum += (double)f.Value * f.Frequency;
-        var mean = sum / n;
-        double m2 = 0, m4 = 0;
-        foreach (var f in histogram)
-        {
-            var d = f.Value - mean;
-            var d2 = d * d;
-            m2 += d2 * f.Frequency;
-            m4 += d2 * d2 * f.Frequency;
-        }
-        var variance = m2 / (n - 1);
-        m4 /= n;
-        var error = n < 4 ? double.NaN : Math.Sqrt(Math.Max(m4 - variance * variance * (n - 3) / (n - 1), 0) / n);
-        return new VarianceEstimate(n, mean, variance, error);
+        var m = CellMoments.Of(histogram);
+        var n = m.Count;
+        if (n < 2) return new VarianceEstimate(n, m.Mean, double.NaN, double.NaN);
+        var error = n < 4 ? double.NaN : Math.Sqrt(Math.Max(m.FourthCentral - m.Variance * m.Variance * (n - 3) / (n - 1), 0) / n);
+        return new VarianceEstimate(n, m.Mean, m.Variance, error);
     }
 }
 
