@@ -59,6 +59,12 @@ public sealed record RunSpecification
     /// </summary>
     public string? CovariancePairs { get; init; }
 
+    /// <summary>
+    /// Also run the control ensemble whose cells split in halves, for the variance binomial partitioning adds
+    /// (<c>--partition-noise</c>; <see cref="Ensembles.PartitionControl"/>): twice the replicates' cost.
+    /// </summary>
+    public bool PartitionNoise { get; init; }
+
     /// <summary>Wall-clock limit after which the run stops like an interruption; null for none. Not a setting of the result.</summary>
     public TimeSpan? WallLimit { get; init; }
 
@@ -88,6 +94,7 @@ public sealed record RunSpecification
         // Recorded only when given, so that folders written before the option existed still agree.
         if (ValidationReplicates is { } sample) arguments[StoredSettings.ValidationKey] = Invariant(sample);
         if (CovariancePairs is { } pairs) arguments[ManifestFields.CovariancePairsArgument] = pairs;
+        if (PartitionNoise) arguments[ManifestFields.PartitionArgument] = "halves";
         return arguments;
     }
 
@@ -159,6 +166,9 @@ public sealed record StoredSettings
     /// <summary>The stored <c>--covariance-pairs</c> text, or null when the run used the default pairs.</summary>
     public string? CovariancePairs { get; init; }
 
+    /// <summary>Whether the stored run had the control ensemble of <c>--partition-noise</c>.</summary>
+    public bool PartitionNoise { get; init; }
+
     /// <summary>Reads the settings a run folder's manifest records.</summary>
     /// <exception cref="RunFolderException">A recorded value does not read.</exception>
     public static StoredSettings Read(StoredRun stored)
@@ -197,6 +207,7 @@ public sealed record StoredSettings
                 : null,
             ValidationReplicates = Get(ValidationKey, Whole),
             CovariancePairs = arguments.GetValueOrDefault(ManifestFields.CovariancePairsArgument),
+            PartitionNoise = arguments.ContainsKey(ManifestFields.PartitionArgument),
         };
     }
 }

@@ -7,13 +7,17 @@ public static class RunFiles
     public const string Moments = "moments.parquet", Distributions = "distributions.parquet",
         Deterministic = "deterministic.parquet", Paths = "paths.parquet", Manifest = "manifest.json",
         ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet",
-        Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet";
+        Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet",
+        Partition = "partition.parquet";
 
     /// <summary>What <c>contrast</c> writes into a run folder: its table, the Markdown and HTML reports, and the folder of the Markdown report's figures (PNG files, each with its SVG).</summary>
     public const string Contrast = "contrast.parquet", ReportMarkdown = "report.md", ReportHtml = "report.html", Figures = "figures";
 
     /// <summary>What <c>contrast</c> adds when the rate equations oscillate or ring: the averaged and LNA spectra, and the per-replicate periods and amplitudes.</summary>
     public const string OscillationSpectrum = "oscillation-spectrum.parquet", OscillationReplicates = "oscillation-replicates.parquet";
+
+    /// <summary>What <c>contrast</c> adds when the cells divide: the LNA's variance split into the reactions' and the partitioning's parts (<see cref="PartitionLnaTable"/>).</summary>
+    public const string PartitionLna = "partition-lna.parquet";
 
     /// <summary>What <c>contrast</c> adds when the schedule cuts the run into more than one phase: the verdicts per phase.</summary>
     public const string Phases = "phases.parquet";
@@ -34,7 +38,7 @@ public static class RunFiles
     public const string Claim = ".copynumber-claim", Lock = ".copynumber-lock";
 
     /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>
-    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances];
+    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances, Partition];
 
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="Paths"/>.</summary>
     internal const string ResumedPaths = "paths-resumed.parquet";
@@ -49,8 +53,8 @@ public static class RunFiles
     /// </summary>
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
-        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances,
-        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Pair, Claim, Lock,
+        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances, Partition,
+        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Pair, PartitionLna, Claim, Lock,
     };
 
     /// <summary>Whether <paramref name="name"/> is a file name we write into a run folder: one of <see cref="Known"/> or a temporary sibling of one.</summary>

@@ -11,6 +11,9 @@ namespace CopyNumber.Ensembles;
 /// (Huh &amp; Paulsson 2011, Nat. Genet. 43:95) adds beyond the least partitioning error integer counts allow (the
 /// ½ of an odd count, at most ¼ per division). The two ensembles are independent, so the difference's standard
 /// error is √(se_b² + se_h²), each from the sample's own fourth moment, with no assumption on the laws' shape.
+/// When parameters vary per cell, replicates that share a draw are not independent: each variance is then the nested
+/// design's intrinsic + extrinsic estimate over its independent pairs of groups (<see cref="NoiseDecomposition"/>) and
+/// its standard error the sum of the two parts' (an upper bound, by Cauchy–Schwarz: their covariance is not kept).
 /// </summary>
 /// <remarks>
 /// For a linear network the moments are additive in the sources, so the difference is the propagated
@@ -86,7 +89,7 @@ public sealed class PartitionControl
         var estimates = new PartitionEstimate[model.Grid.Count, model.CountQuantities.Count];
         for (var k = 0; k < model.Grid.Count; k++)
             for (var q = 0; q < model.CountQuantities.Count; q++)
-                estimates[k, q] = new PartitionEstimate(VarianceEstimate.From(model.Histogram(k, q)), VarianceEstimate.From(control.Histogram(k, q)));
+                estimates[k, q] = new PartitionEstimate(VarianceEstimate.Of(model, k, q), VarianceEstimate.Of(control, k, q));
         return new PartitionControl(model.Grid, model.CountQuantities, estimates);
     }
 }
@@ -101,7 +104,21 @@ public sealed class PartitionControl
 /// </param>
 public readonly record struct VarianceEstimate(long Replicates, double Mean, double Variance, double StandardError)
 {
-    /// <summary>The estimate from a histogram of counts (its moments by <see cref="CellMoments.Of"/>).</summary>
+    /// <summary>
+    /// The estimate for count quantity <paramref name="quantity"/> at grid point <paramref name="point"/> of <paramref name="result"/>:
+    /// from its histogram when the replicates are independent, from the nested design's pairs of groups when parameters vary per cell
+    /// (the type's remarks in <see cref="PartitionControl"/>).
+    /// </summary>
+    public static VarianceEstimate Of(EnsembleResult result, int point, int quantity)
+    {
+        ArgumentNullException.ThrowIfNull(result);
+        var sample = From(result.Histogram(point, quantity));
+        if (result.Noise is not { } noise || noise.Pairs(point, quantity) < 2) return sample;
+        var (intrinsic, extrinsic) = (noise.Intrinsic(point, quantity), noise.Extrinsic(point, quantity));
+        return sample with { Variance = intrinsic.Mean + extrinsic.Mean, StandardError = intrinsic.StandardError + extrinsic.StandardError };
+    }
+
+    /// <summary>The estimate from a histogram of independent counts (its moments by <see cref="CellMoments.Of"/>).</summary>
     public static VarianceEstimate From(CountHistogram histogram)
     {
         var m = CellMoments.Of(histogram);

@@ -24,12 +24,8 @@ public sealed class PartitionControlTests
     public void TheControlEstimatesTheVarianceThatBinomialPartitioningAdds()
     {
         var network = CellCycleTests.Network();
-        var options = new EnsembleOptions { Grid = new TimeGrid(until: Divisions * T, every: T), Replicates = 6_000, Seed = 2011, Threads = 2 };
-        var run = EnsembleRunner.Run(network, options);
-        var control = PartitionControl.Run(network, options, run)!;
-        var p = control.Quantities.Select(q => q.Name).ToList().IndexOf("P");
+        var (options, _, estimate) = AtBirth(network, 6_000, 2011);
         var last = options.Grid.Count - 1;
-        var estimate = control.At(last, p);
 
         var lambda = CellCycleTests.Produced(T, "exponential");
         var (_, binomialVariance) = CellCycleTests.BirthMoments(Divisions, lambda);
@@ -60,6 +56,41 @@ public sealed class PartitionControlTests
         double parity = 0;
         for (var c = 0; c < Divisions; c++) parity = parity / 4 + 0.125;
         Assert.Equal(added, lna.Sources!.Partitioning(last, column) - parity, 0.2);
+    }
+
+    [Fact]
+    public void WhenCellsDifferTheGroupsOfADrawCarryTheError()
+    {
+        // k varies from cell to cell (gamma, mean 1, CV 0.1; 8 replicates per draw). Given k the network is the one above with
+        // λ(k) = λ(1) + (k − 1)·T·(2 − φ), φ = ½ (the gene makes k per copy, doubled for the second half of the cycle), and both
+        // splits keep the mean given k, so Var_binomial − Var_halves = E_k[Var_binomial(k) − Var_halves(k)] (law of total
+        // variance, common practice), computed here by the midpoint rule over 200 quantiles of the gamma law.
+        var (options, run, estimate) = AtBirth(CellCycleTests.Network(variation: "  varies gamma cv 0.1"), 12_000, 95);
+        var last = options.Grid.Count - 1;
+
+        var law = new MathNet.Numerics.Distributions.Gamma(100, 100);
+        const int nodes = 200;
+        var added = Enumerable.Range(0, nodes).Average(i =>
+        {
+            var lambda = CellCycleTests.Produced(T, "exponential") + (law.InverseCumulativeDistribution((i + 0.5) / nodes) - 1) * T * 1.5;
+            var halves = CellCycleTests.BirthLaw(Divisions, lambda, binomial: false);
+            var mean = halves.Select((pr, n) => pr * n).Sum();
+            return CellCycleTests.BirthMoments(Divisions, lambda).Variance - halves.Select((pr, n) => pr * (n - mean) * (n - mean)).Sum();
+        });
+        Assert.True(Math.Abs(estimate.Added - added) < 5 * estimate.AddedStandardError,
+            $"added {estimate.Added:G5} ± {estimate.AddedStandardError:G3}, exact {added:G5}");
+        // The error comes from the pairs of groups, not from the histogram, whose formula takes the replicates as independent.
+        var independent = VarianceEstimate.From(run.Histogram(last, run.CountQuantities.Select(q => q.Name).ToList().IndexOf("P")));
+        Assert.True(estimate.Model.StandardError > independent.StandardError, $"{estimate.Model.StandardError:G3} against {independent.StandardError:G3}");
+    }
+
+    // The run and its control over 6 cycles, and the estimate for P at the last birth.
+    private static (EnsembleOptions Options, EnsembleResult Run, PartitionEstimate Estimate) AtBirth(ReactionNetwork network, long replicates, ulong seed)
+    {
+        var options = new EnsembleOptions { Grid = new TimeGrid(until: Divisions * T, every: T), Replicates = replicates, Seed = seed, Threads = 2 };
+        var run = EnsembleRunner.Run(network, options);
+        var control = PartitionControl.Run(network, options, run)!;
+        return (options, run, control.At(options.Grid.Count - 1, control.Quantities.Select(q => q.Name).ToList().IndexOf("P")));
     }
 
     [Fact]
