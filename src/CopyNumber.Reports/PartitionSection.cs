@@ -34,7 +34,8 @@ internal static class PartitionSection
             paragraphs.Add($"The linear noise approximation's split could not be computed: {contrast.NoiseSourcesFailure ?? contrast.ExpansionFailure ?? "the expansion is missing"}.");
         if (ensemble.Count > 0)
             paragraphs.Add("The run also has its control (--partition-noise): as many replicates whose cells split every count in halves (⌊n/2⌋ or ⌈n/2⌉ for odd n), "
-                + "on independent streams. The difference of the two variances is what binomial partitioning adds beyond the least error integer counts allow, "
+                + "on independent streams; gene copies are shared as in the run, so their partitioning is not in this difference (it is in the LNA's part). "
+                + "The difference of the two variances is what binomial partitioning adds beyond the least error integer counts allow, "
                 + "± one standard error from the two samples' fourth moments (partition.parquet). For a nonlinear network the sources interact (a partition error "
                 + "changes the rates the reactions then run at), so the difference is the whole effect of binomial partitioning, interactions included.");
         if (ensemble.Count > 0 && contrast.Network.Variability.Any)
