@@ -61,26 +61,6 @@ public sealed class PartitionSectionTests
         }
     }
 
-    [Fact]
-    public void The_control_is_refused_where_nothing_is_partitioned_binomially()
-    {
-        var folder = Path.Combine(Path.GetTempPath(), $"copynumber-partition-refused-{Guid.NewGuid():N}");
-        Directory.CreateDirectory(folder);
-        try
-        {
-            var halves = Path.Combine(folder, "halves.cnet");
-            File.WriteAllText(halves, CellCycleTests.ModelText(split: "halves"));
-            var run = CliRun.Of("simulate", halves, "--until", "40", "--every", "40", "--replicates", "64", "--partition-noise", "--out", Path.Combine(folder, "run"));
-            Assert.Equal(2, run.ExitCode);
-            Assert.Contains("--partition-noise: the model's cells already split in halves", run.Error);
-            Assert.False(Directory.Exists(Path.Combine(folder, "run")) && Directory.EnumerateFiles(Path.Combine(folder, "run")).Any(f => f.EndsWith(".parquet", StringComparison.Ordinal)));
-        }
-        finally
-        {
-            Directory.Delete(folder, recursive: true);
-        }
-    }
-
     private static double Number(string text) => double.Parse(text, CultureInfo.InvariantCulture);
 
     private static (double Value, double Error) ValueAndError(string cell)
