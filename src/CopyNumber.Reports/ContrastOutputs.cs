@@ -51,6 +51,12 @@ public static class ContrastOutputs
             OscillationReplicatesTable.Write(replicates, oscillation, metadata);
             written.AddRange([spectrum, replicates]);
         }
+        if (contrast.NoiseSources is { } sources)
+        {
+            var partitionLna = Path.Combine(folder, RunFiles.PartitionLna);
+            PartitionLnaTable.Write(partitionLna, sources, metadata);
+            written.Add(partitionLna);
+        }
         PairHistogram? joint = null;
         if (pair is { } chosen && (joint = PairHistogram.Of(run, chosen.First, chosen.Second)) is not null)
         {

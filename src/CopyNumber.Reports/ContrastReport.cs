@@ -104,6 +104,7 @@ public static class ContrastReport
 
         if (OscillationSection.Build(contrast.Oscillation, contrast.Network, timeUnit) is { } oscillationSection) sections.Add(oscillationSection);
         if (NoiseSection.For(contrast, timeUnit, scheduleChanges, thresholds.Z) is { } noiseSection) sections.Add(noiseSection);
+        if (PartitionSection.For(contrast, timeUnit, scheduleChanges) is { } partitionSection) sections.Add(partitionSection);
         if (SwitchingSection.For(contrast, timeUnit) is { } switchingSection) sections.Add(switchingSection);
         if (SnapshotSection.For(run.Path) is { } snapshotSection) sections.Add(snapshotSection);
 

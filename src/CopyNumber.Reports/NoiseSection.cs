@@ -165,7 +165,7 @@ internal static class NoiseSection
         return plot;
     }
 
-    private static void Part(Plot plot, double[] times, double[] centre, double[] error, Color colour, string label)
+    internal static void Part(Plot plot, double[] times, double[] centre, double[] error, Color colour, string label)
     {
         var lower = centre.Select((c, k) => c - 2 * error[k]).ToArray();
         var upper = centre.Select((c, k) => c + 2 * error[k]).ToArray();
@@ -173,8 +173,8 @@ internal static class NoiseSection
         MeanBandFigure.Lines(plot, times, centre, colour, 2.5f, LinePattern.Solid, ConnectStyle.Straight, label, MarkerShape.FilledCircle);
     }
 
-    private static string Format(double value) => double.IsFinite(value) ? value.ToString("0.####", CultureInfo.InvariantCulture) : "-";
+    internal static string Format(double value) => double.IsFinite(value) ? value.ToString("0.####", CultureInfo.InvariantCulture) : "-";
 
     // Rounded first, so a share that rounds to zero prints "0%", never "-0%".
-    private static string Percent(double fraction) => (Math.Round(fraction * 100, 1) + 0.0).ToString("0.#", CultureInfo.InvariantCulture) + "%";
+    internal static string Percent(double fraction) => (Math.Round(fraction * 100, 1) + 0.0).ToString("0.#", CultureInfo.InvariantCulture) + "%";
 }

@@ -39,6 +39,15 @@ public sealed record RunContrastResult(
     /// <summary>The intrinsic/extrinsic split of each pair of identical reporters the contrast was asked for (<c>--dual-reporters</c>); empty otherwise.</summary>
     public IReadOnlyList<DualReporterSplit> DualReporters { get; init; } = [];
 
+    /// <summary>
+    /// When the cells divide: the linear noise approximation with its variance split into the part fed by the reactions and
+    /// the part fed by partitioning (<see cref="SystemSizeExpansionSolution.Sources"/>); null otherwise or when it failed.
+    /// </summary>
+    public SystemSizeExpansionSolution? NoiseSources { get; init; }
+
+    /// <summary>Why <see cref="NoiseSources"/> is missing although the cells divide and the expansion solved; null otherwise.</summary>
+    public string? NoiseSourcesFailure { get; init; }
+
     /// <summary>The oscillation analysis (rate equations, sample paths, spectra; docs/methods-analysis.md, section 7), or null for an exact run.</summary>
     public RunOscillation? Oscillation { get; init; }
 
@@ -157,6 +166,21 @@ public static class RunContrast
                 cellAverageFailure = e.Message;
             }
         }
+        // The split by source is its own integration (three covariances in one state), so it costs nothing where no cell divides.
+        SystemSizeExpansionSolution? sources = null;
+        string? sourcesFailure = null;
+        if (network.Cycle is not null && expansion is not null)
+        {
+            try
+            {
+                sources = LinearNoiseApproximation.SolveBySource(network, grid, solver ?? new SolverOptions());
+            }
+            catch (Exception e) when (e is SolverFailureException or ArithmeticException)
+            {
+                // The plain expansion solved; a failure of the larger system leaves out the split and nothing else.
+                sourcesFailure = e.Message;
+            }
+        }
         var switching = SwitchingJson.Read(manifest, network, grid.Until).Where(x => x.Replicates > 0).ToDictionary(x => x.Species);
         // The phases between the schedule's changes, cut where the timeline cuts (its coincidence rule): verdicts per phase.
         var phases = ModelPhase.Of(Timeline.Of(network, grid));
@@ -190,7 +214,7 @@ public static class RunContrast
         IReadOnlyList<ModeSwitching> modeSwitching = exact ? [] : ModeSwitchingOf(run, network, grid.Until);
         return new RunContrastResult(run, network, contrasts, expansion, failure)
             { ErrorSource = exact ? ExactRun.ExactErrorKind : SamplingErrorSource, Oscillation = oscillation, DualReporters = reporterSplits,
-              CellAverage = cellAverage, CellAverageFailure = cellAverageFailure, ModeSwitching = modeSwitching,
+              CellAverage = cellAverage, CellAverageFailure = cellAverageFailure, ModeSwitching = modeSwitching, NoiseSources = sources, NoiseSourcesFailure = sourcesFailure,
               SwitchingSource = modeSwitching.Count > 0 ? manifest.Arguments.GetValueOrDefault(ManifestFields.SwitchingSourceArgument) : null,
               SwitchingHints = exact ? [] : SwitchingHints(contrasts, network, modeSwitching) };
     }

@@ -77,6 +77,12 @@ public sealed record RunSpecification
     /// <summary>The cores of <see cref="Switching"/> for the model.</summary>
     public IReadOnlyList<ModeCore> SwitchingCores => Switching is { } text ? ModeCore.Parse(text, Model.Network) : [];
 
+    /// <summary>
+    /// Also run the control ensemble whose cells split in halves, for the variance binomial partitioning adds
+    /// (<c>--partition-noise</c>; <see cref="Ensembles.PartitionControl"/>): twice the replicates' cost.
+    /// </summary>
+    public bool PartitionNoise { get; init; }
+
     /// <summary>Wall-clock limit after which the run stops like an interruption; null for none. Not a setting of the result.</summary>
     public TimeSpan? WallLimit { get; init; }
 
@@ -113,6 +119,7 @@ public sealed record RunSpecification
             arguments[ManifestFields.SwitchingArgument] = cores;
             if (SwitchingSource is { } source) arguments[ManifestFields.SwitchingSourceArgument] = source;
         }
+        if (PartitionNoise) arguments[ManifestFields.PartitionArgument] = "halves";
         return arguments;
     }
 
@@ -194,6 +201,9 @@ public sealed record StoredSettings
     /// <summary>Where the stored cores came from ("option" or "steady-states").</summary>
     public string? SwitchingSource { get; init; }
 
+    /// <summary>Whether the stored run had the control ensemble of <c>--partition-noise</c>.</summary>
+    public bool PartitionNoise { get; init; }
+
     /// <summary>Reads the settings a run folder's manifest records.</summary>
     /// <exception cref="RunFolderException">A recorded value does not read.</exception>
     public static StoredSettings Read(StoredRun stored)
@@ -235,6 +245,7 @@ public sealed record StoredSettings
             ReplicatesPerDraw = Get(ManifestFields.ReplicatesPerDrawArgument, t => checked((int)Whole(t))),
             Switching = arguments.GetValueOrDefault(ManifestFields.SwitchingArgument),
             SwitchingSource = arguments.GetValueOrDefault(ManifestFields.SwitchingSourceArgument),
+            PartitionNoise = arguments.ContainsKey(ManifestFields.PartitionArgument),
         };
     }
 }

@@ -84,6 +84,12 @@ public sealed record SimulationOutcome(
     /// <summary>The method the summaries come from: the request's, or the direct method after a fallback.</summary>
     public SimulationMethod Method { get; init; }
 
+    /// <summary>The control of the partitioning noise (<c>--partition-noise</c>), when it was asked for and finished; null otherwise.</summary>
+    public PartitionControl? Partition { get; init; }
+
+    /// <summary>Why <see cref="Partition"/> is missing although it was asked for (a control replicate failed, or an interruption); null otherwise.</summary>
+    public string? PartitionFailure { get; init; }
+
     /// <summary>Why paths.parquet could not be written (e.g. the disk filled); the paths were dropped, the summaries written, and the manifest says so. Null when the paths were written or not asked for.</summary>
     public string? PathsFailure { get; init; }
 }
@@ -190,6 +196,9 @@ public static class SimulationRun
         var pathsFailure = options.PathReplicates > 0 ? pathsStore.WritePaths(pathsFile) : null;
         if (options.PathReplicates > 0 && pathsFailure is null) files.Add(pathsFile);
         files.AddRange(SummaryFiles.WriteTables(request.Folder, combined, deterministic, identity, validation is { Action: not ValidationAction.FellBack } ? validation : null));
+        var (partition, partitionFailure) = request.Plan.Specification.PartitionNoise && failure is null && combined.IsComplete && !combined.Interrupted
+            ? RunPartitionControl(request, options, combined, identity, files, monitor, stop.Token)
+            : (null, null);
 
         var reason = failure is not null ? StopReason.Failed
             : !combined.Interrupted ? StopReason.Finished
@@ -197,6 +206,7 @@ public static class SimulationRun
             : StopReason.Interrupted;
         var manifest = SummaryFiles.Manifest(identity, combined, method.ToString(), options.Threads, reason, failure, methodReason, deterministicFailure, validation);
         if (pathsFailure is not null) manifest.Extra[ManifestFields.PathsFailure] = pathsFailure;
+        if (partitionFailure is not null) manifest.Extra[ManifestFields.PartitionFailure] = partitionFailure;
         SummaryFiles.RecordChecksums(manifest, request.Folder, files);
         var manifestPath = Path.Combine(request.Folder, RunFiles.Manifest);
         manifest.WriteAtomic(manifestPath);
@@ -212,7 +222,34 @@ public static class SimulationRun
             ValidationFailure = validationFailure,
             Method = method,
             PathsFailure = pathsFailure,
+            Partition = partition,
+            PartitionFailure = partitionFailure,
         };
+    }
+
+    /// <summary>
+    /// The control ensemble of <c>--partition-noise</c> (cells split in halves, independent streams; docs/methods.md
+    /// "Partitioning noise") over the whole run, and partition.parquet. It keeps no checkpoint: a run interrupted in it
+    /// keeps its own tables and says that the split is missing.
+    /// </summary>
+    private static (PartitionControl?, string?) RunPartitionControl(SimulationRequest request, EnsembleOptions options, EnsembleResult combined,
+        RunIdentity identity, List<string> files, EnsembleMonitor? monitor, CancellationToken cancel)
+    {
+        monitor?.Restart();
+        PartitionControl? partition;
+        try
+        {
+            partition = PartitionControl.Run(request.Model.Network, options with { SkipBlocks = new HashSet<long>() }, combined, monitor, cancel);
+        }
+        catch (EnsembleFailureException e)
+        {
+            return (null, $"a replicate of the control ensemble (cells split in halves) failed: {e.Message}");
+        }
+        if (partition is null) return (null, "the control ensemble (cells split in halves) was interrupted before it finished; rerun with --partition-noise for the split");
+        var path = Path.Combine(request.Folder, RunFiles.Partition);
+        PartitionTable.Write(path, partition, identity.Provenance(combined));
+        files.Add(path);
+        return (partition, null);
     }
 
     /// <summary>Runs the ensemble (checkpoints and paths going to <paramref name="store"/>) and combines it with the resumed part; the failure message, if a replicate failed.</summary>

@@ -110,6 +110,20 @@ internal sealed class ContrastOptions
         return pairs;
     }
 
+    /// <summary>
+    /// When the cells divide, one line: the LNA's variance at the final time split into the reactions' and the partitioning's
+    /// parts, for each quantity that varies (docs/methods-analysis.md §1, "Noise by source").
+    /// </summary>
+    private static string RenderSources(RunContrastResult contrast)
+    {
+        if (contrast.NoiseSources is not { Sources: { } sources } lna) return "";
+        var last = lna.Grid.Count - 1;
+        var parts = Enumerable.Range(0, lna.Columns.Count).Where(c => lna.Variance(last, c) > 1e-9).Select(c =>
+            $"{lna.Columns[c]} {Numbers.Format(lna.Variance(last, c), 4)} = {Numbers.Format(sources.Reactions(last, c), 4)} + {Numbers.Format(sources.Partitioning(last, c), 4)} " +
+            $"({Numbers.Format(100 * sources.Partitioning(last, c) / lna.Variance(last, c), 3)}%)").ToArray();
+        return parts.Length == 0 ? "" : $"LNA variance at t = {Numbers.Format(lna.Grid[last], 6)}, reactions + partitioning (share; partition-lna.parquet): {string.Join("; ", parts)}\n";
+    }
+
     /// <summary>The verdict table printed at the end of contrast and simulate.</summary>
     public static string RenderVerdicts(RunContrastResult contrast)
     {
@@ -129,6 +143,6 @@ internal sealed class ContrastOptions
         }
         // Switching is followed at the run's events; a multimodal quantity not followed gets the option that would follow it.
         var switching = string.Concat(contrast.SwitchingHints.Select(h => $"hint: {h}\n"));
-        return table + phases + $"error bars: {contrast.ErrorSource}\n" + (contrast.ExpansionStop is { } stop ? stop + "\n" : "") + switching + Contrast.Caution + "\n";
+        return table + phases + RenderSources(contrast) + $"error bars: {contrast.ErrorSource}\n" + (contrast.ExpansionStop is { } stop ? stop + "\n" : "") + switching + Contrast.Caution + "\n";
     }
 }

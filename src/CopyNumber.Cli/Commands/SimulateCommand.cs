@@ -25,6 +25,11 @@ internal static class SimulateCommand
         var resume = new Option<string?>("--resume") { Description = "Continue the interrupted run in this folder; MODEL and every option may be left out (they take the stored values), options given must agree with the stored run; finished blocks are kept." };
         var noContrast = new Option<bool>("--no-contrast") { Description = "Skip the contrast with the rate equations at the end (run 'copynumber contrast DIR' later)." };
         var contrastOptions = new ContrastOptions();
+        var partitionNoise = new Option<bool>("--partition-noise")
+        {
+            Description = "For a model whose cells divide with 'split binomial': also run a control ensemble of as many replicates whose cells split in halves "
+                + "(independent streams; twice the cost) and write partition.parquet, the variance binomial partitioning adds with its standard error.",
+        };
         var checkExact = new Option<bool?>("--check-exact") { Description = "Also solve the master equation on the grid and test the ensemble against the exact law (default: only when that solve is small; 'false' turns it off)." };
         var view = new Option<string>("--view")
         {
@@ -43,7 +48,7 @@ internal static class SimulateCommand
         command.Arguments.Add(model);
         grid.AddTo(command);
         ensemble.AddTo(command);
-        foreach (var option in new Option[] { output, force, resume, noContrast, takeOver, checkExact, view, burnIn })
+        foreach (var option in new Option[] { output, force, resume, noContrast, takeOver, checkExact, view, burnIn, partitionNoise })
             command.Options.Add(option);
         contrastOptions.AddTo(command);
 
@@ -67,6 +72,11 @@ internal static class SimulateCommand
             var pair = contrastOptions.PairOf(parsed, loaded.Network.Species);
             var reporters = contrastOptions.DualReportersOf(parsed, loaded.Network.Species);
             var specification = ensemble.Bind(parsed, loaded, timeGrid, storedSettings, "simulate");
+            specification = specification with { PartitionNoise = parsed.GetValue(partitionNoise) || storedSettings?.PartitionNoise == true };
+            if (specification.PartitionNoise && Ensembles.PartitionControl.Refusal(loaded.Network) is { } refusal)
+                throw new UserInputException($"--partition-noise: {refusal}");
+            if (specification.PartitionNoise && !specification.Shard.IsWhole)
+                throw new UserInputException("--partition-noise runs its control over the whole run; it cannot be combined with --shard");
             // A joint histogram is counted over stored paths: with --pair and no --paths, every replicate's path is kept.
             if (pair is not null && stored is null && !ensemble.PathsGiven(parsed))
                 specification = specification with { PathReplicates = specification.Replicates };
@@ -103,6 +113,7 @@ internal static class SimulateCommand
                 var method = MethodChoice.NameOf(plan.Method);
                 error.WriteLine(stored is null
                     ? $"simulating {loaded.Network.Name}: {specification.Replicates} replicates{shardText}, method {method} ({plan.MethodReason}), seed {specification.Seed}, {specification.Threads} threads -> {Paths.Shown(folder)}"
+                      + (specification.PartitionNoise ? $"; then as many again whose cells split in halves (--partition-noise)" : "")
                     : $"resuming {loaded.Network.Name} in {Paths.Shown(folder)}: {stored.Manifest.ReplicatesFinished} replicates kept, {toRun} to run{shardText}, method {method}, seed {specification.Seed}, {specification.Threads} threads");
                 var monitor = new EnsembleMonitor();
                 using (new ProgressDisplay(monitor, toRun, error, terminal: !Console.IsErrorRedirected && error == Console.Error))
@@ -155,6 +166,8 @@ internal static class SimulateCommand
         }
         if (outcome.ValidationFailure is not null)
             error.WriteLine($"warning: the validation sample could not be run ({outcome.ValidationFailure}); the leaping error is not measured");
+        if (outcome.PartitionFailure is not null)
+            error.WriteLine($"warning: {outcome.PartitionFailure}; partition.parquet was not written (manifest: {ManifestFields.PartitionFailure})");
         if (outcome.PathsFailure is not null)
             error.WriteLine($"error: {outcome.PathsFailure}; the summary tables and manifest.json were written without them (manifest: {ManifestFields.PathsFailure})");
         writer.Write(RenderFinal(outcome));
@@ -218,7 +231,25 @@ internal static class SimulateCommand
         }
         // The heading says the time the rows are for, in the model's declared unit (manifest: time_unit).
         var unit = outcome.Manifest.Extra.TryGetValue(ManifestFields.TimeUnit, out var declared) && declared?.ToString() is { Length: > 0 } text ? " " + text : "";
-        return $"at t = {Numbers.Format(result.Grid[last], 6)}{unit}:\n{table}{RenderNoise(result, last)}";
+        return $"at t = {Numbers.Format(result.Grid[last], 6)}{unit}:\n{table}{RenderNoise(result, last)}{RenderPartition(outcome.Partition, last)}";
+    }
+
+    /// <summary>
+    /// With <c>--partition-noise</c>, at the final time: each varying count's variance, the control's (cells split in halves) and what
+    /// binomial partitioning adds, ± standard errors, and its share (docs/methods.md, "Partitioning noise").
+    /// </summary>
+    private static string RenderPartition(PartitionControl? partition, int last)
+    {
+        if (partition is null) return "";
+        var table = new TextTable("quantity", "variance", "halves", "partitioning adds", "± s.e.", "share");
+        for (var q = 0; q < partition.Quantities.Count; q++)
+        {
+            var e = partition.At(last, q);
+            if (!(e.Model.Variance > 0)) continue; // a count that never varies (a gene copy number) has nothing to split
+            table.Add(partition.Quantities[q].Name, Numbers.Format(e.Model.Variance, 4), Numbers.Format(e.Control.Variance, 4),
+                Numbers.Format(e.Added, 4), Numbers.Format(e.AddedStandardError, 2), $"{Numbers.Format(100 * e.Share, 3)} ± {Numbers.Format(100 * e.ShareStandardError, 2)}%");
+        }
+        return $"\npartitioning noise (binomial split against a control whose cells split in halves; partition.parquet):\n{table}";
     }
 
     /// <summary>

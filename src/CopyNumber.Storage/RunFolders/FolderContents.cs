@@ -38,7 +38,7 @@ public static class FolderContents
     /// <exception cref="OutputException">A file could not be removed.</exception>
     public static void RemoveContrastOutputs(string folder)
     {
-        foreach (var name in new[] { RunFiles.Contrast, RunFiles.ReportMarkdown, RunFiles.ReportHtml, RunFiles.OscillationSpectrum, RunFiles.OscillationReplicates, RunFiles.Phases, RunFiles.Pair })
+        foreach (var name in new[] { RunFiles.Contrast, RunFiles.ReportMarkdown, RunFiles.ReportHtml, RunFiles.OscillationSpectrum, RunFiles.OscillationReplicates, RunFiles.Phases, RunFiles.Pair, RunFiles.PartitionLna })
             Delete(Path.Combine(folder, name));
         RemoveFigures(Path.Combine(folder, RunFiles.Figures));
     }

@@ -111,6 +111,15 @@ public static class ManifestFields
     /// </summary>
     public const string ReplicatesPerDrawArgument = "replicates_per_draw";
 
+    /// <summary>
+    /// The argument recording that the run has a control ensemble whose cells split in halves (<c>--partition-noise</c>; value
+    /// "halves"); absent otherwise.
+    /// </summary>
+    public const string PartitionArgument = "partition_noise";
+
+    /// <summary>Why partition.parquet is missing although the control was asked for (a control replicate failed, or it was interrupted).</summary>
+    public const string PartitionFailure = "partition_failure";
+
     /// <summary>Argument key of the command that made the folder.</summary>
     public const string CommandArgument = "command";
 }

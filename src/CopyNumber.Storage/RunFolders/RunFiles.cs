@@ -8,7 +8,7 @@ public static class RunFiles
         Deterministic = "deterministic.parquet", Paths = "paths.parquet", Manifest = "manifest.json",
         ReadoutState = "readout-state.parquet", Validation = "validation.parquet", Stationary = "stationary.parquet",
         Joint = "joint.parquet", Noise = "noise.parquet", Covariances = "covariances.parquet",
-        Switching = "switching.parquet";
+        Switching = "switching.parquet", Partition = "partition.parquet";
 
     /// <summary>What <c>simulate --view population</c> adds: the population snapshot's laws and moments beside the lineage's (<see cref="SnapshotTable"/>).</summary>
     public const string Snapshot = "snapshot.parquet", SnapshotMoments = "snapshot-moments.parquet";
@@ -18,6 +18,9 @@ public static class RunFiles
 
     /// <summary>What <c>contrast</c> adds when the rate equations oscillate or ring: the averaged and LNA spectra, and the per-replicate periods and amplitudes.</summary>
     public const string OscillationSpectrum = "oscillation-spectrum.parquet", OscillationReplicates = "oscillation-replicates.parquet";
+
+    /// <summary>What <c>contrast</c> adds when the cells divide: the LNA's variance split into the reactions' and the partitioning's parts (<see cref="PartitionLnaTable"/>).</summary>
+    public const string PartitionLna = "partition-lna.parquet";
 
     /// <summary>What <c>contrast</c> adds when the schedule cuts the run into more than one phase: the verdicts per phase.</summary>
     public const string Phases = "phases.parquet";
@@ -53,7 +56,7 @@ public static class RunFiles
     }
 
     /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>
-    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances, Switching, Snapshot, SnapshotMoments];
+    public static readonly IReadOnlyList<string> Tables = [Deterministic, Moments, Distributions, ReadoutState, Validation, Paths, Noise, Covariances, Switching, Snapshot, SnapshotMoments, Partition];
 
     /// <summary>Where a resumed run writes its own paths before they are merged into <see cref="Paths"/>.</summary>
     internal const string ResumedPaths = "paths-resumed.parquet";
@@ -68,9 +71,9 @@ public static class RunFiles
     /// </summary>
     public static readonly IReadOnlySet<string> Known = new HashSet<string>(StringComparer.Ordinal)
     {
-        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances, Switching,
+        Moments, Distributions, Deterministic, Paths, Manifest, ReadoutState, Validation, Stationary, Joint, ResumedPaths, Noise, Covariances, Switching, Partition,
         Snapshot, SnapshotMoments,
-        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Pair, Claim, Lock,
+        Contrast, ReportMarkdown, ReportHtml, OscillationSpectrum, OscillationReplicates, Phases, Pair, PartitionLna, Claim, Lock,
     };
 
     /// <summary>Whether <paramref name="name"/> is a file name we write into a run folder: one of <see cref="Known"/> or a temporary sibling of one.</summary>

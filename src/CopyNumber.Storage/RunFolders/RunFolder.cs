@@ -72,6 +72,9 @@ public sealed class RunFolder
     /// </summary>
     public IReadOnlyList<StoredNoiseSplit> Noise { get; private init; } = [];
 
+    /// <summary>The variance binomial partitioning adds, per count quantity (<c>partition.parquet</c>), when the run had its control; empty otherwise.</summary>
+    public IReadOnlyList<StoredPartitionSplit> Partition { get; private init; } = [];
+
     /// <summary>The covariances of species pairs (<c>covariances.parquet</c>), when the run accumulated any; empty otherwise.</summary>
     public IReadOnlyList<StoredCovariance> Covariances { get; private init; } = [];
 
@@ -191,8 +194,9 @@ public sealed class RunFolder
         }
         var noise = ReadOptional(folder, RunFiles.Noise, tables, table => NoiseTable.Read(table, times));
         var covariances = ReadOptional(folder, RunFiles.Covariances, tables, table => CovariancesTable.Read(table, times));
+        var partition = ReadOptional(folder, RunFiles.Partition, tables, table => PartitionTable.Read(table, times));
         return new RunFolder(folder, manifest, modelText, times, quantities, distributions, paths)
-            { Warnings = warnings, PartOfRun = partOfRun, Noise = noise, Covariances = covariances };
+            { Warnings = warnings, PartOfRun = partOfRun, Noise = noise, Covariances = covariances, Partition = partition };
     }
 
     /// <summary>A table the run writes only in some cases (a decomposition, covariances): read when present, checked against the manifest like the others; empty when absent.</summary>

@@ -62,31 +62,9 @@ public static class NoiseTable
     /// (NaN where the table has no row).
     /// </summary>
     /// <exception cref="RunFolderException">The table holds a time that is not in <paramref name="times"/>.</exception>
-    internal static IReadOnlyList<StoredNoiseSplit> Read(ParquetTableReader table, IReadOnlyList<double> times)
-    {
-        ArgumentNullException.ThrowIfNull(table);
-        var index = times.Select((t, k) => (t, k)).ToDictionary(p => p.t, p => p.k);
-        var time = table.Doubles("time");
-        var name = table.Strings("quantity");
-        var perDraw = table.Longs("replicates_per_draw");
-        string[] valueColumns = ["mean", "intrinsic_variance", "intrinsic_se", "extrinsic_variance", "extrinsic_se"];
-        var values = valueColumns.Select(c => table.Doubles(c)).ToArray();
-        var splits = new Dictionary<string, (long PerDraw, double[][] Columns)>();
-        var order = new List<string>();
-        for (var row = 0; row < time.Length; row++)
-        {
-            if (!index.TryGetValue(time[row], out var k))
-                throw table.Damaged($"{RunFiles.Noise} has time {time[row].ToString("R", System.Globalization.CultureInfo.InvariantCulture)}, which the run's grid does not have");
-            if (!splits.TryGetValue(name[row], out var split))
-            {
-                split = (perDraw[row], valueColumns.Select(_ => Enumerable.Repeat(double.NaN, times.Count).ToArray()).ToArray());
-                splits.Add(name[row], split);
-                order.Add(name[row]);
-            }
-            for (var c = 0; c < valueColumns.Length; c++) split.Columns[c][k] = values[c][row];
-        }
-        return order.Select(n => new StoredNoiseSplit(n, splits[n].PerDraw, splits[n].Columns[0], splits[n].Columns[1], splits[n].Columns[2], splits[n].Columns[3], splits[n].Columns[4])).ToArray();
-    }
+    internal static IReadOnlyList<StoredNoiseSplit> Read(ParquetTableReader table, IReadOnlyList<double> times) =>
+        QuantityRows.Read(table, RunFiles.Noise, times, ["mean", "intrinsic_variance", "intrinsic_se", "extrinsic_variance", "extrinsic_se"], ["replicates_per_draw"])
+            .Select(q => new StoredNoiseSplit(q.Quantity, q.Labels[0], q.Columns[0], q.Columns[1], q.Columns[2], q.Columns[3], q.Columns[4])).ToArray();
 }
 
 /// <summary>

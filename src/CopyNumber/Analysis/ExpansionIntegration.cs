@@ -14,10 +14,12 @@ namespace CopyNumber.Analysis;
 /// A state-triggered change has no such rule here (its time depends on the fluctuations the expansion
 /// describes): the integration stops at the first one, located on the dense output as for the rate
 /// equations, and the solution says so (<see cref="SystemSizeExpansionSolution.StoppedAt"/>).
+/// With the sources split, every jump map acts on C, C_r and C_p alike and a division's partitioning variance
+/// enters C and C_p only (<see cref="ExpansionSystem"/>).
 /// </summary>
 internal static class ExpansionIntegration
 {
-    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options, bool withMeanCorrection, IReadOnlyList<double>? parameterValues = null)
+    public static SystemSizeExpansionSolution Solve(ReactionNetwork network, TimeGrid grid, SolverOptions options, bool withMeanCorrection, IReadOnlyList<double>? parameterValues = null, bool splitSources = false)
     {
         ArgumentNullException.ThrowIfNull(network);
         ArgumentNullException.ThrowIfNull(grid);
@@ -25,7 +27,7 @@ internal static class ExpansionIntegration
         if (options.Check() is { } problem) throw new ArgumentException(problem, nameof(options));
         ModelSupport.RequireRateEquations(network);
 
-        var system = new ExpansionSystem(network, withMeanCorrection);
+        var system = new ExpansionSystem(network, withMeanCorrection, splitSources);
         if (parameterValues is not null)
         {
             if (parameterValues.Count != network.Parameters.Count)
@@ -41,7 +43,11 @@ internal static class ExpansionIntegration
         var rateEquations = new double[grid.Count, columns.Length];
         var variances = new double[grid.Count, columns.Length];
         var corrected = new double[grid.Count, columns.Length];
+        // Per block (C, then C_r and C_p when split): the variances of species and readouts.
+        var blocks = system.CovarianceBlocks;
+        var blockVariances = blocks.Select(_ => new double[grid.Count, columns.Length]).ToArray();
         var covariance = new double[s, s];
+        var blockCovariance = new double[s, s];
         var phi = new double[s];
         var gradient = new double[s];
 
@@ -57,6 +63,11 @@ internal static class ExpansionIntegration
                 variances[point, i] = covariance[i, i];
                 corrected[point, i] = withMeanCorrection ? phi[i] + state[system.CorrectionOffset + i] : double.NaN;
             }
+            for (var b = 1; b < blocks.Count; b++)
+            {
+                system.UnpackCovariance(state, blockCovariance, blocks[b]);
+                for (var i = 0; i < s; i++) blockVariances[b][point, i] = blockCovariance[i, i];
+            }
             for (var r = 0; r < network.Readouts.Count; r++)
             {
                 var readout = network.Readouts[r];
@@ -64,6 +75,11 @@ internal static class ExpansionIntegration
                 rateEquations[point, column] = readout.OnState(phi, parameters);
                 ReadoutLinearisation.Gradient(readout, phi, parameters, gradient);
                 variances[point, column] = QuadraticForm(gradient, covariance);
+                for (var b = 1; b < blocks.Count; b++)
+                {
+                    system.UnpackCovariance(state, blockCovariance, blocks[b]);
+                    blockVariances[b][point, column] = QuadraticForm(gradient, blockCovariance);
+                }
                 if (!withMeanCorrection) { corrected[point, column] = double.NaN; continue; }
                 var shift = 0.0;
                 for (var i = 0; i < s; i++) shift += gradient[i] * state[system.CorrectionOffset + i];
@@ -80,12 +96,35 @@ internal static class ExpansionIntegration
         {
             if (states[point] is not null) continue;
             states[point] = Enumerable.Repeat(double.NaN, system.Dimension).ToArray();
-            for (var c = 0; c < columns.Length; c++) rateEquations[point, c] = variances[point, c] = corrected[point, c] = double.NaN;
+            for (var c = 0; c < columns.Length; c++)
+            {
+                rateEquations[point, c] = variances[point, c] = corrected[point, c] = double.NaN;
+                for (var b = 1; b < blocks.Count; b++) blockVariances[b][point, c] = double.NaN;
+            }
         }
 
         return new SystemSizeExpansionSolution(grid, columns, s, states, system.CorrectionOffset,
             rateEquations, variances, corrected, withMeanCorrection, run.Statistics)
-        { StoppedAt = stoppedAt, StoppedBy = stoppedBy };
+        {
+            StoppedAt = stoppedAt, StoppedBy = stoppedBy,
+            Sources = splitSources ? new Noise.LnaNoiseSources(blockVariances[1], blockVariances[2], MaximumMismatch(states, system)) : null,
+        };
+    }
+
+    // max |C − C_r − C_p| over the grid and entries, relative to max |C|: linearity makes it rounding (docs/methods-analysis.md §1).
+    private static double MaximumMismatch(double[][] states, ExpansionSystem system)
+    {
+        var (largest, mismatch) = (0.0, 0.0);
+        var size = system.PartitioningOffset - system.ReactionsOffset;
+        foreach (var state in states)
+            for (var p = 0; p < size; p++)
+            {
+                var total = state[system.CovarianceOffset + p];
+                if (double.IsNaN(total)) continue;
+                largest = Math.Max(largest, Math.Abs(total));
+                mismatch = Math.Max(mismatch, Math.Abs(total - state[system.ReactionsOffset + p] - state[system.PartitioningOffset + p]));
+            }
+        return largest > 0 ? mismatch / largest : mismatch;
     }
 
     private static double QuadraticForm(double[] g, double[,] c)
@@ -119,9 +158,12 @@ internal static class ExpansionIntegration
             if (system.Network.Cycle is { } cycle && change.TargetIndex == cycle.BirthSlot)
             {
                 var before = new double[s, s];
-                system.UnpackCovariance(y, before);
-                DivisionVariance.AddBeforeHalving(system.Network, cycle, phi, before);
-                system.PackCovariance(before, y);
+                foreach (var block in system.SplitsSources ? [system.CovarianceOffset, system.PartitioningOffset] : new[] { system.CovarianceOffset })
+                {
+                    system.UnpackCovariance(y, before, block);
+                    DivisionVariance.AddBeforeHalving(system.Network, cycle, phi, before);
+                    system.PackCovariance(before, y, block);
+                }
             }
             system.SetParameter(change.TargetIndex, updated);
             return;
@@ -134,20 +176,23 @@ internal static class ExpansionIntegration
         y[target] = updated;
 
         var covariance = new double[s, s];
-        system.UnpackCovariance(y, covariance);
-        // C ↦ M·C·Mᵀ with M = I except row `target`: only that row and column change.
         var mc = new double[s];
-        for (var j = 0; j < s; j++)
+        foreach (var block in system.CovarianceBlocks)
         {
-            var sum = 0.0;
-            for (var k = 0; k < s; k++) sum += row[k] * covariance[k, j];
-            mc[j] = sum;
+            system.UnpackCovariance(y, covariance, block);
+            // C ↦ M·C·Mᵀ with M = I except row `target`: only that row and column change.
+            for (var j = 0; j < s; j++)
+            {
+                var sum = 0.0;
+                for (var k = 0; k < s; k++) sum += row[k] * covariance[k, j];
+                mc[j] = sum;
+            }
+            var corner = 0.0;
+            for (var k = 0; k < s; k++) corner += mc[k] * row[k];
+            for (var j = 0; j < s; j++) covariance[target, j] = covariance[j, target] = mc[j];
+            covariance[target, target] = corner;
+            system.PackCovariance(covariance, y, block);
         }
-        var corner = 0.0;
-        for (var k = 0; k < s; k++) corner += mc[k] * row[k];
-        for (var j = 0; j < s; j++) covariance[target, j] = covariance[j, target] = mc[j];
-        covariance[target, target] = corner;
-        system.PackCovariance(covariance, y);
 
         if (!system.WithMeanCorrection) return;
         var offset = system.CorrectionOffset;

@@ -12,7 +12,11 @@ namespace CopyNumber.Analysis;
 /// dδ/dt = J_a·δ + N·[(a − v)(φ) + ½·Σ_kl ∂²a/∂x_k∂x_l·C_kl]  (Grima 2010, J. Chem. Phys. 133:035101)
 /// </code>
 /// in copy numbers. The state is φ (species order), then the upper triangle of C row by row
-/// (C_00, C_01, …, C_0,S−1, C_11, …), then δ when the correction is on. Holds its own parameter values
+/// (C_00, C_01, …, C_0,S−1, C_11, …), then δ when the correction is on, then, when the sources are split,
+/// two more packed covariances of the same form: C_r, fed by the reactions' noise N·diag(v)·Nᵀ (and the
+/// bursts'), and C_p, fed by nothing between jumps (the partitioning variance enters it at divisions,
+/// <see cref="ExpansionIntegration"/>). The equation is linear in C and its source, so C = C_r + C_p
+/// whenever C(0) = 0 (docs/methods-analysis.md §1, "Noise by source"). Holds its own parameter values
 /// and constants, so schedule changes affect only this instance; one instance per integration.
 /// </summary>
 internal sealed class ExpansionSystem : IOdeSystem
@@ -21,7 +25,7 @@ internal sealed class ExpansionSystem : IOdeSystem
     private readonly Stoichiometry _n;
     private readonly int _s, _packed;
     private readonly double[] _parameters, _constants, _rates, _phi;
-    private readonly double[,] _dvdx, _jacobian, _covariance;
+    private readonly double[,] _dvdx, _jacobian, _covariance, _block;
     private readonly PropensityExpansion? _expansion;
     private readonly double[] _excess = [], _curvature = [], _shifted = [], _plus = [], _minus = [];
     private readonly double[,] _gradient = new double[0, 0], _meanJacobian = new double[0, 0];
@@ -29,7 +33,7 @@ internal sealed class ExpansionSystem : IOdeSystem
     /// <summary>The network integrated.</summary>
     public ReactionNetwork Network => _network;
 
-    public ExpansionSystem(ReactionNetwork network, bool withMeanCorrection)
+    public ExpansionSystem(ReactionNetwork network, bool withMeanCorrection, bool splitSources = false)
     {
         _network = network;
         _n = network.Stoichiometry;
@@ -43,9 +47,11 @@ internal sealed class ExpansionSystem : IOdeSystem
         _dvdx = new double[m, _s];
         _jacobian = new double[_s, _s];
         _covariance = new double[_s, _s];
+        _block = new double[_s, _s];
         network.Propensities.ComputeConstants(_parameters, _constants);
         WithMeanCorrection = withMeanCorrection;
-        Dimension = _s + _packed + (withMeanCorrection ? _s : 0);
+        SplitsSources = splitSources;
+        Dimension = _s + _packed + (withMeanCorrection ? _s : 0) + (splitSources ? 2 * _packed : 0);
         _shifted = new double[Dimension];
         _plus = new double[Dimension];
         _minus = new double[Dimension];
@@ -65,6 +71,18 @@ internal sealed class ExpansionSystem : IOdeSystem
 
     /// <summary>True when δ is part of the state.</summary>
     public bool WithMeanCorrection { get; }
+
+    /// <summary>True when the covariance fed by the reactions and the one fed by partitioning are integrated beside C.</summary>
+    public bool SplitsSources { get; }
+
+    /// <summary>Offsets of the packed covariances in the state: C, then C_r and C_p when the sources are split.</summary>
+    public IReadOnlyList<int> CovarianceBlocks => SplitsSources ? [CovarianceOffset, ReactionsOffset, PartitioningOffset] : [CovarianceOffset];
+
+    /// <summary>Offset of C_r, the covariance fed by the reactions (meaningful only when the sources are split).</summary>
+    public int ReactionsOffset => _s + _packed + (WithMeanCorrection ? _s : 0);
+
+    /// <summary>Offset of C_p, the covariance fed by partitioning at divisions (meaningful only when the sources are split).</summary>
+    public int PartitioningOffset => ReactionsOffset + _packed;
 
     /// <summary>Number of species S.</summary>
     public int SpeciesCount => _s;
@@ -92,19 +110,19 @@ internal sealed class ExpansionSystem : IOdeSystem
         return _s + i * _s - i * (i - 1) / 2 + (j - i);
     }
 
-    /// <summary>Reads the full symmetric C from a state.</summary>
-    public void UnpackCovariance(ReadOnlySpan<double> y, double[,] covariance)
+    /// <summary>Reads the full symmetric C (or the block at <paramref name="offset"/>) from a state.</summary>
+    public void UnpackCovariance(ReadOnlySpan<double> y, double[,] covariance, int offset = -1)
     {
-        var p = _s;
+        var p = offset < 0 ? _s : offset;
         for (var i = 0; i < _s; i++)
             for (var j = i; j < _s; j++, p++)
                 covariance[i, j] = covariance[j, i] = y[p];
     }
 
-    /// <summary>Writes a symmetric C (upper triangle read) into a state.</summary>
-    public void PackCovariance(double[,] covariance, Span<double> y)
+    /// <summary>Writes a symmetric C (upper triangle read) into a state, at the block <paramref name="offset"/> (C by default).</summary>
+    public void PackCovariance(double[,] covariance, Span<double> y, int offset = -1)
     {
-        var p = _s;
+        var p = offset < 0 ? _s : offset;
         for (var i = 0; i < _s; i++)
             for (var j = i; j < _s; j++, p++)
                 y[p] = covariance[i, j];
@@ -134,14 +152,16 @@ internal sealed class ExpansionSystem : IOdeSystem
                     dydt[Packed(species[e], species[f])] += change[e] * change[f] * noise;
         }
         AddBursts(dydt);
-        var p = _s;
-        for (var i = 0; i < _s; i++)
-            for (var j = i; j < _s; j++, p++)
-            {
-                var sum = 0.0;
-                for (var m = 0; m < _s; m++) sum += _jacobian[i, m] * _covariance[m, j] + _jacobian[j, m] * _covariance[i, m];
-                dydt[p] += sum;
-            }
+        // C_r gets the same noise as C; C_p none between divisions.
+        if (SplitsSources) Array.Copy(dydt, _s, dydt, ReactionsOffset, _packed);
+        AddLinear(_s, dydt);
+        if (SplitsSources)
+        {
+            UnpackCovariance(y, _block, ReactionsOffset);
+            AddLinear(ReactionsOffset, dydt, _block);
+            UnpackCovariance(y, _block, PartitioningOffset);
+            AddLinear(PartitioningOffset, dydt, _block);
+        }
 
         if (!WithMeanCorrection) return;
         _expansion!.Expand(_phi, _rates, _constants, _parameters, _excess, _gradient);
@@ -164,6 +184,20 @@ internal sealed class ExpansionSystem : IOdeSystem
         }
         foreach (var burst in _network.Bursts.All)
             dydt[offset + burst.Species] += (burst.Mean([], _parameters) - 1) * (_excess[burst.Reaction] + _curvature[burst.Reaction]);
+    }
+
+    // J·C + C·Jᵀ added to the packed block at `offset` (C itself unless another block is given).
+    private void AddLinear(int offset, double[] dydt, double[,]? block = null)
+    {
+        var c = block ?? _covariance;
+        var p = offset;
+        for (var i = 0; i < _s; i++)
+            for (var j = i; j < _s; j++, p++)
+            {
+                var sum = 0.0;
+                for (var m = 0; m < _s; m++) sum += _jacobian[i, m] * c[m, j] + _jacobian[j, m] * c[i, m];
+                dydt[p] += sum;
+            }
     }
 
     /// <summary>
@@ -234,19 +268,23 @@ internal sealed class ExpansionSystem : IOdeSystem
         for (var i = 0; i < _s; i++)
             for (var k = 0; k < _s; k++) jacobian[i, k] = _jacobian[i, k];
 
-        // d(dC_ij)/dc_kl for the linear map C ↦ J·C + C·Jᵀ, with c_kl standing for both C_kl and C_lk.
-        for (var i = 0; i < _s; i++)
-            for (var j = i; j < _s; j++)
-            {
-                var row = Packed(i, j);
-                for (var k = 0; k < _s; k++)
-                    for (var l = k; l < _s; l++)
-                    {
-                        var value = Delta(j, l) * _jacobian[i, k] + Delta(i, k) * _jacobian[j, l];
-                        if (k != l) value += Delta(j, k) * _jacobian[i, l] + Delta(i, l) * _jacobian[j, k];
-                        jacobian[row, Packed(k, l)] += value;
-                    }
-            }
+        // d(dC_ij)/dc_kl for the linear map C ↦ J·C + C·Jᵀ, with c_kl standing for both C_kl and C_lk; the same map in every block.
+        foreach (var block in CovarianceBlocks)
+        {
+            var shift = block - _s;
+            for (var i = 0; i < _s; i++)
+                for (var j = i; j < _s; j++)
+                {
+                    var row = Packed(i, j) + shift;
+                    for (var k = 0; k < _s; k++)
+                        for (var l = k; l < _s; l++)
+                        {
+                            var value = Delta(j, l) * _jacobian[i, k] + Delta(i, k) * _jacobian[j, l];
+                            if (k != l) value += Delta(j, k) * _jacobian[i, l] + Delta(i, l) * _jacobian[j, k];
+                            jacobian[row, Packed(k, l) + shift] += value;
+                        }
+                }
+        }
 
         if (!WithMeanCorrection) return;
         var offset = CorrectionOffset;
@@ -276,13 +314,14 @@ internal sealed class ExpansionSystem : IOdeSystem
     {
         var species = _network.Species;
         if (index < _s) return $"species {species[index]}";
-        if (index < CorrectionOffset)
+        if (index < CorrectionOffset || (SplitsSources && index >= ReactionsOffset))
         {
-            var p = index - _s;
+            var part = !SplitsSources || index < ReactionsOffset ? "" : index < PartitioningOffset ? " fed by the reactions" : " fed by partitioning";
+            var p = index - (index < CorrectionOffset ? _s : index < PartitioningOffset ? ReactionsOffset : PartitioningOffset);
             for (var i = 0; i < _s; i++)
             {
                 var rowLength = _s - i;
-                if (p < rowLength) return $"covariance of {species[i]} and {species[i + p]}";
+                if (p < rowLength) return $"covariance of {species[i]} and {species[i + p]}{part}";
                 p -= rowLength;
             }
         }

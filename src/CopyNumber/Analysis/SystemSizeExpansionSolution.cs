@@ -41,6 +41,12 @@ public sealed class SystemSizeExpansionSolution
     /// <summary>The change line that stopped the expansion (<see cref="StoppedAt"/>), or null.</summary>
     public StateTrigger? StoppedBy { get; init; }
 
+    /// <summary>
+    /// The variance split into the part fed by the reactions and the part fed by partitioning at divisions, when it was
+    /// asked for (<see cref="LinearNoiseApproximation.SolveBySource"/>); null otherwise.
+    /// </summary>
+    public Noise.LnaNoiseSources? Sources { get; init; }
+
     /// <summary>The recording times.</summary>
     public TimeGrid Grid { get; }
 

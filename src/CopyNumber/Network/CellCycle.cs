@@ -78,7 +78,15 @@ public sealed class CellCycle
     public double GenePhase { get; }
 
     /// <summary>How the other species are shared at division.</summary>
-    public CellSplit Split { get; }
+    public CellSplit Split { get; private set; }
+
+    /// <summary>The same cycle with another split (the control of the partitioning noise, Ensembles/PartitionControl).</summary>
+    internal CellCycle WithSplit(CellSplit split)
+    {
+        var copy = (CellCycle)MemberwiseClone();
+        copy.Split = split;
+        return copy;
+    }
 
     /// <summary>The parameter slot of <see cref="BirthName"/>.</summary>
     public int BirthSlot { get; }

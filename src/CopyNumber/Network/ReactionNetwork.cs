@@ -61,7 +61,17 @@ public sealed class ReactionNetwork
     }
 
     /// <summary>The cell cycle (growth, gene doubling, division), or null for a cell of fixed size that never divides.</summary>
-    public CellCycle? Cycle { get; }
+    public CellCycle? Cycle { get; private set; }
+
+    /// <summary>The same network with cells that split by <paramref name="split"/> at division; it must have a cycle.</summary>
+    /// <remarks>Everything else is shared: the compiled laws read the cycle only through its hidden parameters.</remarks>
+    public ReactionNetwork WithSplit(CellSplit split)
+    {
+        var cycle = Cycle ?? throw new InvalidOperationException("the network has no cell cycle");
+        var copy = (ReactionNetwork)MemberwiseClone();
+        copy.Cycle = cycle.WithSplit(split);
+        return copy;
+    }
 
     /// <summary>Parameters drawn per replicate group from a named law (none unless a parameter line says <c>varies</c>).</summary>
     public ParameterVariability Variability { get; }

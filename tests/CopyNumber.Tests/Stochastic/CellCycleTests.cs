@@ -26,14 +26,18 @@ public sealed class CellCycleTests
     internal const double K = 1.0, Q = 0.5, V0 = 1.0, T = 40, Phase = 0.5;
     internal const long Start = 50;
 
-    internal static ReactionNetwork Network(string growth = "exponential", string split = "binomial", string length = "40") => ModelLoader.LoadText($"""
+    internal static ReactionNetwork Network(string growth = "exponential", string split = "binomial", string length = "40", string variation = "") =>
+        ModelLoader.LoadText(ModelText(growth, split, length, variation), "cells.cnet").Model!.Network;
+
+    /// <summary>The model as text (shared with Reports/PartitionSectionTests, which runs it through the command line).</summary>
+    internal static string ModelText(string growth = "exponential", string split = "binomial", string length = "40", string variation = "") => $"""
         # a stable protein in a growing, dividing cell; illustrative
         size {V0}
         species
           gene = 1
           P = {Start}
         parameters
-          k = {K}
+          k = {K}{variation}
           q = {Q}
         reactions
           make:   gene -> gene + P  mass k
@@ -43,7 +47,7 @@ public sealed class CellCycleTests
           length {length}
           genes gene double at {Phase}
           split {split}
-        """, "cells.cnet").Model!.Network;
+        """;
 
     // Λ(a): the mean production from birth to age a.
     internal static double Produced(double a, string growth, double length = T)
