@@ -19,6 +19,11 @@ internal static class QuickTiming
             RunEnsemble();
             return;
         }
+        if (args.Length > 1 && args[1] == "lines")
+        {
+            LayoutFootprint.Run(args.Skip(2).Select(int.Parse).DefaultIfEmpty(0).ToArray());
+            return;
+        }
         if (args.Length > 1 && args[1] == "large")
         {
             // `quick large [cr] [M …]`: with `cr`, composition–rejection's layouts only.
@@ -86,9 +91,10 @@ internal static class QuickTiming
             var options = new SimulatorOptions(MaxEvents: LargeNetworkBenchmarks.EventsPerInvocation);
             var simulators = methods.Select(method => (method.ToString(), SimulatorFactory.Create(method, network, options))).ToList();
             // Composition–rejection on the user's numbering and flat arrays (the reference the packed layout must
-            // reproduce to the bit), and the packed layout without its prefetches.
+            // reproduce to the bit), and the packed layout with prefetches and without the renumbering.
             simulators.Add(("CR, reference layout", new DirectMethod<CompositionRejection>(network, options)));
-            simulators.Add(("CR, packed, no prefetch", new Stochastic.Locality.PackedCompositionRejection(network, options, prefetch: false)));
+            simulators.Add(("CR, packed, prefetch", new Stochastic.Locality.PackedCompositionRejection(network, options, prefetch: true)));
+            simulators.Add(("CR, packed, user order", new Stochastic.Locality.PackedCompositionRejection(network, options, renumber: false)));
             foreach (var (name, simulator) in simulators)
             {
                 var (wall, cpu) = Measure(simulator, new TimeGrid(1e9, 1e7), rounds: 5, sameReplicate: true);

@@ -14,7 +14,7 @@ namespace CopyNumber.Stochastic.Locality;
 /// selection entry beside a_j (32 bytes, two to a cache line), and each reaction's count changes and
 /// dependents packed in one run of integers that its entry points to. An event then reads the selected
 /// entry, one contiguous program, the changed counts, and for each dependent one entry and the counts it
-/// reads; the dependents' entries are prefetched as soon as the program is read.
+/// reads. Software prefetching of the dependents' entries is available but off (it did not pay when measured).
 /// </summary>
 /// <remarks>
 /// The renumbering is internal: the state the rest of the engine sees (<see cref="SimulatorState.Counts"/>,
@@ -47,8 +47,13 @@ internal sealed class PackedCompositionRejection : ExactSimulation
 
     /// <param name="network">A network <see cref="RefusalFor"/> accepts.</param>
     /// <param name="options">The simulator's options.</param>
-    /// <param name="prefetch">Prefetch each event's dependent entries (off only for the benchmarks' comparison).</param>
-    public PackedCompositionRejection(ReactionNetwork network, SimulatorOptions options, bool prefetch = true)
+    /// <param name="prefetch">
+    /// Prefetch each event's dependent entries as soon as the program is read. Off by default: measured, it
+    /// paid nowhere from M = 10 to 10⁵ on the synthetic family (10–25% slower up to 10⁴, no gain at 10⁵; the
+    /// out-of-order core already issues those independent loads together; docs/performance.md, row 2).
+    /// </param>
+    /// <param name="renumber">Renumber by <see cref="DependencyOrder"/> (off only for the benchmarks' comparison: packing alone).</param>
+    public PackedCompositionRejection(ReactionNetwork network, SimulatorOptions options, bool prefetch = false, bool renumber = true)
         : base(new SimulatorState(network), options.MaxEvents)
     {
         if (RefusalFor(network) is { } refusal) throw new ArgumentException($"the packed layout does not apply: {refusal}", nameof(network));
@@ -59,9 +64,11 @@ internal sealed class PackedCompositionRejection : ExactSimulation
         var reactions = State.ReactionCount;
         var species = State.SpeciesCount;
         var propensities = network.Propensities;
-        (_rank, _speciesRank) = DependencyOrder.Compute(effects.DependentStart, effects.Dependents,
-            j => propensities.Reactants(j).Select(r => r.Species).Concat(effects.ChangeSpecies[effects.ChangeStart[j]..effects.ChangeStart[j + 1]]),
-            species);
+        (_rank, _speciesRank) = renumber
+            ? DependencyOrder.Compute(effects.DependentStart, effects.Dependents,
+                j => propensities.Reactants(j).Select(r => r.Species).Concat(effects.ChangeSpecies[effects.ChangeStart[j]..effects.ChangeStart[j + 1]]),
+                species)
+            : (Enumerable.Range(0, reactions).ToArray(), Enumerable.Range(0, species).ToArray());
         _reactionOf = Inverse(_rank);
         _speciesOf = Inverse(_speciesRank);
         _counts = new long[species];
@@ -116,6 +123,12 @@ internal sealed class PackedCompositionRejection : ExactSimulation
 
     /// <summary>The reaction order: position of each user reaction index in memory (for the layout's measurements).</summary>
     internal ReadOnlySpan<int> ReactionRank => _rank;
+
+    /// <summary>The species order: position of each user species index in the internal counts.</summary>
+    internal ReadOnlySpan<int> SpeciesRank => _speciesRank;
+
+    /// <summary>Where each internal reaction's program starts in the packed run of integers.</summary>
+    internal ReadOnlySpan<int> ProgramStart => _programStart;
 
     private static int[] Inverse(int[] rank)
     {
