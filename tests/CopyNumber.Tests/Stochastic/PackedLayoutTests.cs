@@ -34,13 +34,27 @@ public class PackedLayoutTests
     public void Random_mass_action_networks_give_the_reference_trajectories(int seed)
     {
         var random = new Random(seed);
-        // 30–60 species and 60–150 reactions: the renumbering is far from the identity, and each species is read
-        // by few enough reactions that every dependents list is stored (no broad reaction, which the layout refuses).
+        // 30–60 species and 60–150 reactions: the renumbering is far from the identity.
         var text = CompiledLoopTests.RandomNetwork(random, minSpecies: 30, maxSpecies: 60, minReactions: 60, maxReactions: 150);
         var network = ModelLoader.LoadText(text, $"random{seed}.cnet").Model?.Network
             ?? throw new InvalidOperationException("the random network did not compile:\n" + text);
         Assert.Null(PackedCompositionRejection.RefusalFor(network));
         AssertSameTrajectories(network, new TimeGrid(10, 0.25), replicates: 10, seed: (ulong)seed, new SimulatorOptions(MaxEvents: 50_000));
+    }
+
+    [Theory]
+    [MemberData(nameof(SameTrajectories.RandomSeeds), MemberType = typeof(SameTrajectories))]
+    public void Random_networks_with_broad_reactions_give_the_reference_trajectories(int seed)
+    {
+        // 2–8 species and 100–300 reactions: species read by dozens of reactions, so some reactions' updates
+        // are gathered at each firing (DependencyGraph.IsBroad) rather than listed.
+        var random = new Random(1000 + seed);
+        var text = CompiledLoopTests.RandomNetwork(random, minSpecies: 2, maxSpecies: 8, minReactions: 100, maxReactions: 300);
+        var network = ModelLoader.LoadText(text, $"broad{seed}.cnet").Model?.Network
+            ?? throw new InvalidOperationException("the random network did not compile:\n" + text);
+        Assert.Contains(Enumerable.Range(0, network.Stoichiometry.ReactionCount), j => network.Dependencies.IsBroad(j));
+        Assert.Null(PackedCompositionRejection.RefusalFor(network));
+        AssertSameTrajectories(network, new TimeGrid(2, 0.1), replicates: 5, seed: (ulong)seed, new SimulatorOptions(MaxEvents: 20_000));
     }
 
     [Fact]

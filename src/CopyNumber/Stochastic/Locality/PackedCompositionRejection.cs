@@ -31,6 +31,7 @@ internal sealed class PackedCompositionRejection : ExactSimulation
 {
     private const int FormBits = 3;
     private const int SwitchFlag = 1 << 30;
+    private const int BroadFlag = 1 << 29;
 
     private readonly FiringProgram _reference;
     private readonly int[] _rank;
@@ -99,9 +100,9 @@ internal sealed class PackedCompositionRejection : ExactSimulation
 
     /// <summary>
     /// Why the packed layout cannot run <paramref name="network"/>, or null when it can: it handles plain
-    /// mass action with at most two reactant molecules, schedules, parameters drawn per cell and two-state
-    /// species; not laws that read time, state-triggered changes, bursts, a cell cycle or reactions whose
-    /// dependents are not listed (broad ones).
+    /// mass action with at most two reactant molecules, schedules, parameters drawn per cell, two-state
+    /// species and broad reactions (their updates gathered at each firing, as the reference does); not laws
+    /// that read time, state-triggered changes, bursts or a cell cycle.
     /// </summary>
     public static string? RefusalFor(ReactionNetwork network)
     {
@@ -114,7 +115,6 @@ internal sealed class PackedCompositionRejection : ExactSimulation
         {
             if (network.Propensities.Form(j) is not (PropensityForm.Constant or PropensityForm.Unimolecular or PropensityForm.Bimolecular or PropensityForm.Homodimer))
                 return "a propensity that is not of mass action with at most two reactant molecules";
-            if (network.Dependencies.IsBroad(j)) return "a reaction whose dependents are not listed";
             foreach (var amount in n.Changes(j))
                 if (amount is > int.MaxValue or < -int.MaxValue) return "a stoichiometric coefficient beyond 2^31";
         }
@@ -168,9 +168,10 @@ internal sealed class PackedCompositionRejection : ExactSimulation
             var j = _reactionOf[r];
             ref var header = ref Unsafe.Add(ref header0, j);
             var p = _programStart[r];
-            _program[p] = (header.ChangeEnd - header.ChangeStart) | (switches.ChangedBy(j) ? SwitchFlag : 0);
-            _program[p + 1] = header.PlainEnd - header.UpdateStart;
-            _program[p + 2] = header.UpdateEnd - header.UpdateStart;
+            _program[p] = (header.ChangeEnd - header.ChangeStart) | (switches.ChangedBy(j) ? SwitchFlag : 0) | (header.Broad ? BroadFlag : 0);
+            // A broad reaction's updates are gathered at each firing (UpdateBroad); its header's range is then scratch.
+            _program[p + 1] = header.Broad ? 0 : header.PlainEnd - header.UpdateStart;
+            _program[p + 2] = header.Broad ? 0 : header.UpdateEnd - header.UpdateStart;
             var c = p + 3;
             for (var e = header.ChangeStart; e < header.ChangeEnd; e++)
             {
@@ -178,6 +179,7 @@ internal sealed class PackedCompositionRejection : ExactSimulation
                 _program[c++] = _speciesRank[change.Species];
                 _program[c++] = (int)change.Amount;
             }
+            if (header.Broad) continue;
             for (var u = header.UpdateStart; u < header.UpdateEnd; u++) _program[c++] = _rank[Unsafe.Add(ref update0, u).Reaction];
         }
         _constantsVersion = State.ConstantsVersion;
@@ -230,7 +232,7 @@ internal sealed class PackedCompositionRejection : ExactSimulation
             var fire = selection.Select(random.NextDouble() * total, ref random);
             var p = Unsafe.Add(ref entry0, fire).FormAndProgram >> FormBits;
             var head = Unsafe.Add(ref program0, p);
-            var changes = head & (SwitchFlag - 1);
+            var changes = head & (BroadFlag - 1);
             var plain = Unsafe.Add(ref program0, p + 1);
             var updates = Unsafe.Add(ref program0, p + 2);
             var c = p + 3;
@@ -264,6 +266,7 @@ internal sealed class PackedCompositionRejection : ExactSimulation
                 if (!PropensityTerm.IsUsable(a)) FailPropensity(k, a, t);
                 change += selection.Replace(k, a);
             }
+            if ((head & BroadFlag) != 0) change += UpdateBroad(fire, ref selection, t);
             selection.AddToTotal(change);
             selection.EndEvent();
             fired++;
@@ -274,6 +277,30 @@ internal sealed class PackedCompositionRejection : ExactSimulation
         time = t;
         StoreCounts();
         return Finish(end, ref time, horizon, recorder, State.Counts);
+    }
+
+    /// <summary>
+    /// The updates of broad reaction <paramref name="fire"/> (internal number): gathered by the reference's
+    /// program in its order, each evaluated and checked as the reference does (none counts as plain there).
+    /// </summary>
+    [MethodImpl(MethodImplOptions.NoInlining)]
+    private double UpdateBroad(int fire, ref CompositionRejection selection, double time)
+    {
+        var j = _reactionOf[fire];
+        ref var header = ref Unsafe.Add(ref _reference.Headers, j);
+        _reference.CollectBroad(ref header, j);
+        ref var update0 = ref _reference.Updates;
+        ref var entry0 = ref selection.Entries;
+        ref var count0 = ref MemoryMarshal.GetArrayDataReference(_counts);
+        var change = 0.0;
+        for (var u = header.UpdateStart; u < header.UpdateEnd; u++)
+        {
+            var k = _rank[Unsafe.Add(ref update0, u).Reaction];
+            var a = Evaluate(ref Unsafe.Add(ref entry0, k), ref count0);
+            if (!PropensityTerm.IsUsable(a)) FailPropensity(k, a, time);
+            change += selection.Replace(k, a);
+        }
+        return change;
     }
 
     /// <summary>a_k from its entry; the same operations in the same order as <see cref="PropensityTerm.Evaluate"/>.</summary>
