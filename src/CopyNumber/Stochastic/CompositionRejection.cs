@@ -192,6 +192,27 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
         if (--_untilResum == 0 || _total < _peak * CancellationFloor) Resum();
     }
 
+    /// <remarks>
+    /// The member lists are the history here: a reaction's slot depends on when it last changed group, and
+    /// the rejection step picks a member by slot. Emptied (allocation kept), the lists are rebuilt by the
+    /// replicate's own updates; an entry's packed-loop half is kept.
+    /// </remarks>
+    public void Restart()
+    {
+        for (var j = 0; j < _entries.Length; j++)
+        {
+            _entries[j].Value = 0.0;
+            _entries[j].Group = -1;
+        }
+        Array.Clear(_groupCount);
+        Array.Clear(_groupSum);
+        _high = -1;
+        _low = Groups;
+        _total = 0.0;
+        _peak = 0.0;
+        _untilResum = _resumEvery;
+    }
+
     public void Resum()
     {
         var total = 0.0;

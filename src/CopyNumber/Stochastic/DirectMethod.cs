@@ -64,7 +64,11 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
         _selection = TSelection.Create(state.ReactionCount);
     }
 
-    protected override void Begin(ref Xoshiro256StarStar rng, double time) => Refresh(time);
+    protected override void Begin(ref Xoshiro256StarStar rng, double time)
+    {
+        _selection.Restart();
+        Refresh(time);
+    }
 
     protected override void AfterSchedule(double time) => Refresh(time);
 

@@ -137,7 +137,11 @@ internal sealed class PackedCompositionRejection : ExactSimulation
         return inverse;
     }
 
-    protected override void Begin(ref Xoshiro256StarStar rng, double time) => Refresh(time);
+    protected override void Begin(ref Xoshiro256StarStar rng, double time)
+    {
+        _selection.Restart();
+        Refresh(time);
+    }
 
     protected override void AfterSchedule(double time) => Refresh(time);
 
