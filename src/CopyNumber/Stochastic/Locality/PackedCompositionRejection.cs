@@ -49,8 +49,8 @@ internal sealed class PackedCompositionRejection : ExactSimulation
     /// <param name="network">A network <see cref="RefusalFor"/> accepts.</param>
     /// <param name="options">The simulator's options.</param>
     /// <param name="prefetch">
-    /// Prefetch each event's dependent entries as soon as the program is read. Off by default: measured, it
-    /// paid nowhere from M = 10 to 10⁵ on the synthetic family (10–25% slower up to 10⁴, no gain at 10⁵; the
+    /// Prefetch each event's dependent entries as soon as the program is read. Off by default: measured on the
+    /// synthetic family it cost up to 10–25% below M = 10⁵ and won only 5 of 9 alternating pairs at 10⁵ (the
     /// out-of-order core already issues those independent loads together; docs/performance.md, row 2).
     /// </param>
     /// <param name="renumber">Renumber by <see cref="DependencyOrder"/> (off only for the benchmarks' comparison: packing alone).</param>
