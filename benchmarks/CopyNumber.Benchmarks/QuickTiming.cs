@@ -19,9 +19,17 @@ internal static class QuickTiming
             RunEnsemble();
             return;
         }
+        if (args.Length > 1 && args[1] == "lines")
+        {
+            LayoutFootprint.Run(args.Skip(2).Select(int.Parse).DefaultIfEmpty(0).ToArray());
+            return;
+        }
         if (args.Length > 1 && args[1] == "large")
         {
-            RunLarge(args.Skip(2).Select(int.Parse).DefaultIfEmpty(0).ToArray());
+            // `quick large [cr] [M …]`: with `cr`, composition–rejection's layouts only.
+            var crOnly = args.Length > 2 && args[2] == "cr";
+            RunLarge(args.Skip(crOnly ? 3 : 2).Select(int.Parse).DefaultIfEmpty(0).ToArray(),
+                crOnly ? [SimulationMethod.CompositionRejection] : [SimulationMethod.Direct, SimulationMethod.NextReaction, SimulationMethod.CompositionRejection]);
             return;
         }
         var scenario = args.Length > 1 ? args[1] : "promoter_switch.cnet";
@@ -73,18 +81,24 @@ internal static class QuickTiming
         }
     }
 
-    private static void RunLarge(int[] sizes)
+    private static void RunLarge(int[] sizes, SimulationMethod[] methods)
     {
         if (sizes is [0]) sizes = [10, 100, 1_000, 10_000, 100_000];
         foreach (var m in sizes)
         {
             var network = SyntheticNetwork.Create(m);
             Console.WriteLine($"M = {m,7}: {DependentsPerEvent(network):F1} propensity updates per event (initial state, propensity-weighted)");
-            foreach (var method in new[] { SimulationMethod.Direct, SimulationMethod.NextReaction, SimulationMethod.CompositionRejection })
+            var options = new SimulatorOptions(MaxEvents: LargeNetworkBenchmarks.EventsPerInvocation);
+            var simulators = methods.Select(method => (method.ToString(), SimulatorFactory.Create(method, network, options))).ToList();
+            // Composition–rejection on the user's numbering and flat arrays (the reference the packed layout must
+            // reproduce to the bit), and the packed layout with prefetches and without the renumbering.
+            simulators.Add(("CR, reference layout", new DirectMethod<CompositionRejection>(network, options)));
+            simulators.Add(("CR, packed, prefetch", new Stochastic.Locality.PackedCompositionRejection(network, options, prefetch: true)));
+            simulators.Add(("CR, packed, user order", new Stochastic.Locality.PackedCompositionRejection(network, options, renumber: false)));
+            foreach (var (name, simulator) in simulators)
             {
-                var simulator = SimulatorFactory.Create(method, network, new SimulatorOptions(MaxEvents: LargeNetworkBenchmarks.EventsPerInvocation));
                 var (wall, cpu) = Measure(simulator, new TimeGrid(1e9, 1e7), rounds: 5, sameReplicate: true);
-                Console.WriteLine($"M = {m,7} {method,-21} {wall / 1e6,7:F2} M events/s (wall) {cpu / 1e6,7:F2} M events per CPU-second  {1e9 / cpu,7:F1} CPU-ns per event");
+                Console.WriteLine($"M = {m,7} {name,-23} {wall / 1e6,7:F2} M events/s (wall) {cpu / 1e6,7:F2} M events per CPU-second  {1e9 / cpu,7:F1} CPU-ns per event");
             }
         }
     }

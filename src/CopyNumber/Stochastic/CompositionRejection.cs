@@ -28,9 +28,12 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
     private const int MinimumResumEvery = 1024;
     private const double CancellationFloor = 1e-6;
 
-    // a_j, its group (−1 while a_j = 0) and its position in the group's member list, side by side so an
-    // update of a large network touches one cache line for them.
+    // a_j and its group (−1 while a_j = 0) side by side, so an update of a large network touches one cache
+    // line for them; the entry's other half carries what the packed loop needs to evaluate a_j
+    // (Locality/PackedCompositionRejection) and is unused otherwise. The position in the group's member
+    // list is needed only when a reaction changes group, and lives apart so an entry stays 32 bytes.
     private Entry[] _entries;
+    private int[] _slots;
     private double[] _groupSum;
     private int[] _groupCount;
     private int[][] _members;
@@ -45,7 +48,9 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
     {
         var selection = new CompositionRejection
         {
-            _entries = new Entry[reactions],
+            // Pinned (on the pinned object heap) so the packed loop may prefetch entries by address.
+            _entries = GC.AllocateArray<Entry>(reactions, pinned: true),
+            _slots = new int[reactions],
             _groupSum = new double[Groups],
             _groupCount = new int[Groups],
             _members = new int[Groups][],
@@ -106,10 +111,10 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
         {
             var members = _members[source];
             var last = --_groupCount[source];
-            var slot = entry.Slot;
+            var slot = _slots[reaction];
             var moved = members[last];
             members[slot] = moved;
-            _entries[moved].Slot = slot;
+            _slots[moved] = slot;
             if (last == 0)
             {
                 _groupSum[source] = 0.0;
@@ -127,7 +132,7 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
             _members[target] = list;
         }
         list[count] = reaction;
-        entry.Slot = count;
+        _slots[reaction] = count;
         _groupCount[target] = count + 1;
         _groupSum[target] += propensity;
         if (target > _high) _high = target;
@@ -187,6 +192,27 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
         if (--_untilResum == 0 || _total < _peak * CancellationFloor) Resum();
     }
 
+    /// <remarks>
+    /// The member lists are the history here: a reaction's slot depends on when it last changed group, and
+    /// the rejection step picks a member by slot. Emptied (allocation kept), the lists are rebuilt by the
+    /// replicate's own updates; an entry's packed-loop half is kept.
+    /// </remarks>
+    public void Restart()
+    {
+        for (var j = 0; j < _entries.Length; j++)
+        {
+            _entries[j].Value = 0.0;
+            _entries[j].Group = -1;
+        }
+        Array.Clear(_groupCount);
+        Array.Clear(_groupSum);
+        _high = -1;
+        _low = Groups;
+        _total = 0.0;
+        _peak = 0.0;
+        _untilResum = _resumEvery;
+    }
+
     public void Resum()
     {
         var total = 0.0;
@@ -203,10 +229,26 @@ internal struct CompositionRejection : IReactionSelection<CompositionRejection>
         _untilResum = _resumEvery;
     }
 
-    private struct Entry
+    /// <summary>Reference to reaction 0's entry, for the packed loop, which keeps its terms in the entries.</summary>
+    internal readonly ref Entry Entries => ref MemoryMarshal.GetArrayDataReference(_entries);
+
+    /// <summary>
+    /// A reaction's propensity and group, and (for the packed loop only) its propensity term and the offset of
+    /// its firing program: what one propensity update reads and writes, in 32 bytes, two to a cache line.
+    /// </summary>
+    [StructLayout(LayoutKind.Sequential)]
+    internal struct Entry
     {
+        /// <summary>a_j, events per unit time.</summary>
         public double Value;
+        /// <summary>c_j (packed loop only).</summary>
+        public double Constant;
+        /// <summary>The first and second reactant species, in the packed loop's numbering (packed loop only).</summary>
+        public int SpeciesA;
+        public int SpeciesB;
+        /// <summary>The group (biased exponent of a_j), −1 while a_j = 0.</summary>
         public int Group;
-        public int Slot;
+        /// <summary>The propensity's form in the low 3 bits, the firing program's offset above them (packed loop only).</summary>
+        public int FormAndProgram;
     }
 }

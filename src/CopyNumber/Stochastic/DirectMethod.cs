@@ -64,7 +64,11 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
         _selection = TSelection.Create(state.ReactionCount);
     }
 
-    protected override void Begin(ref Xoshiro256StarStar rng, double time) => Refresh(time);
+    protected override void Begin(ref Xoshiro256StarStar rng, double time)
+    {
+        _selection.Restart();
+        Refresh(time);
+    }
 
     protected override void AfterSchedule(double time) => Refresh(time);
 
@@ -121,13 +125,8 @@ internal sealed class DirectMethod<TSelection> : ExactSimulation
         while (true)
         {
             var total = selection.Total;
-            double next;
-            if (total > 0.0)
-            {
-                if (total > double.MaxValue) state.ThrowTotalOverflow(t, selection.Propensities);
-                next = t + random.NextExponential() / total;
-            }
-            else next = double.PositiveInfinity;
+            if (total > double.MaxValue) state.ThrowTotalOverflow(t, selection.Propensities);
+            var next = NextEventTime(t, total, ref random);
             if (StopsBefore(next, horizon, fired, maxEvents, out end)) break;
             if (RunawayGuard.Due(fired, maxEvents)) CheckRunaway(ref _guard, state, total, t, horizon, selection.Propensities);
             if (nextGrid < next) nextGrid = recorder.RecordBefore(next, counts);

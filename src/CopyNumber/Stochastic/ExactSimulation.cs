@@ -145,6 +145,14 @@ internal abstract class ExactSimulation : IStochasticSimulator
         return fired >= maxEvents;
     }
 
+    /// <summary>
+    /// The direct method's next event time: <paramref name="time"/> plus an exponential waiting time of rate
+    /// <paramref name="total"/> (a0), or +∞ when no reaction can fire. The caller has stopped the run if a0 overflowed.
+    /// </summary>
+    [MethodImpl(MethodImplOptions.AggressiveInlining)]
+    private protected static double NextEventTime(double time, double total, ref Xoshiro256StarStar random) =>
+        total > 0.0 ? time + random.NextExponential() / total : double.PositiveInfinity;
+
     /// <summary>Ends a segment: at the horizon, time moves to it and the grid points before it are recorded.</summary>
     private protected static SegmentEnd Finish(SegmentEnd end, ref double time, double horizon, GridRecorder recorder, long[] counts)
     {

@@ -44,4 +44,12 @@ internal interface IReactionSelection<TSelf> where TSelf : struct, IReactionSele
 
     /// <summary>Recomputes the total exactly from the stored propensities.</summary>
     void Resum();
+
+    /// <summary>
+    /// Forgets the previous replicate: every propensity 0 and no order left from earlier updates. Called at
+    /// the start of each replicate, before the propensities are set in reaction order, so that a replicate's
+    /// selections depend on its own stream only — not on which replicates the same simulator (thread) ran
+    /// before it, which the ensemble does not fix.
+    /// </summary>
+    void Restart();
 }

@@ -79,6 +79,11 @@ internal struct LinearSelection : IReactionSelection<LinearSelection>
         if (--_untilResum == 0 || _total < _peak * CancellationFloor) Resum();
     }
 
+    /// <remarks>Nothing to forget: every propensity is set again in reaction order and a0 re-summed from them at a replicate's start.</remarks>
+    public readonly void Restart()
+    {
+    }
+
     [MethodImpl(MethodImplOptions.AggressiveInlining)]
     public void Resum()
     {

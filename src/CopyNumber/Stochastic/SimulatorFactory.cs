@@ -1,4 +1,5 @@
 using CopyNumber.Network;
+using CopyNumber.Stochastic.Locality;
 
 namespace CopyNumber.Stochastic;
 
@@ -10,6 +11,13 @@ public static class SimulatorFactory
     /// from a sum tree in O(log M) instead of walking the M propensities.
     /// </summary>
     public const int LinearSelectionLimit = 64;
+
+    /// <summary>
+    /// Composition–rejection runs on the packed, renumbered layout (<see cref="PackedCompositionRejection"/>)
+    /// wherever it applies, unless COPYNUMBER_GENERAL_LOOP is 1: the same diagnostic switch that sends the
+    /// direct method to its general loop, so a whole run can be timed on the reference (the same bits).
+    /// </summary>
+    private static bool PackedLayoutWanted => DirectMethod<LinearSelection>.CompiledLoopWanted;
 
     /// <summary>
     /// A simulator for <paramref name="network"/>, with all its buffers allocated. Use one per thread.
@@ -28,6 +36,9 @@ public static class SimulatorFactory
             SimulationMethod.Direct when large => new DirectMethod<SumTreeSelection>(network, options),
             SimulationMethod.Direct => new DirectMethod<LinearSelection>(network, options),
             SimulationMethod.NextReaction => new NextReactionMethod(network, options),
+            // The packed layout does not follow modes at the events (switching statistics): with cores, the reference runs.
+            SimulationMethod.CompositionRejection when PackedLayoutWanted && options.Modes.Count == 0 && PackedCompositionRejection.RefusalFor(network) is null =>
+                new PackedCompositionRejection(network, options),
             SimulationMethod.CompositionRejection => new DirectMethod<CompositionRejection>(network, options),
             SimulationMethod.TauLeap when large => new TauLeaping<SumTreeSelection>(network, options),
             SimulationMethod.TauLeap => new TauLeaping<LinearSelection>(network, options),

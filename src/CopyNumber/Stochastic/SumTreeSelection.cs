@@ -83,6 +83,11 @@ internal struct SumTreeSelection : IReactionSelection<SumTreeSelection>
     {
     }
 
+    /// <remarks>Nothing to forget: every propensity is set again in reaction order and a0 re-summed from them at a replicate's start.</remarks>
+    public readonly void Restart()
+    {
+    }
+
     public readonly void Resum()
     {
         for (var i = _leaves - 1; i >= 1; i--) _nodes[i] = _nodes[2 * i] + _nodes[2 * i + 1];

@@ -1,10 +1,8 @@
 using System.Globalization;
 using System.Text;
 using CopyNumber.Network;
-using CopyNumber.Randomness;
 using CopyNumber.Stochastic;
 using CopyNumber.Stochastic.Compiled;
-using CopyNumber.Tests.Language;
 
 namespace CopyNumber.Tests.Stochastic;
 
@@ -19,28 +17,16 @@ public class CompiledLoopTests
     [Fact]
     public void Every_bundled_scenario_it_accepts_gives_the_general_loops_trajectories()
     {
-        var accepted = new List<string>();
-        foreach (var file in Directory.GetFiles(LanguageTestSupport.ScenariosFolder(), "*.cnet").Order())
-        {
-            var network = ModelLoader.Load(file).Model!.Network;
-            if (CompiledDirectLoop.RefusalFor(network) is not null || network.Stoichiometry.ReactionCount > SimulatorFactory.LinearSelectionLimit) continue;
-            accepted.Add(Path.GetFileName(file));
-            AssertSameTrajectories(network, new TimeGrid(200, 2), replicates: 20, seed: 11, new SimulatorOptions());
-        }
+        var accepted = SameTrajectories.CheckBundledScenarios(
+            network => CompiledDirectLoop.RefusalFor(network) is null && network.Stoichiometry.ReactionCount <= SimulatorFactory.LinearSelectionLimit,
+            (network, grid, replicates, seed) => AssertSameTrajectories(network, grid, replicates, seed, new SimulatorOptions()));
         // The promoter and the repressor-dimer scenarios are plain mass action; without them the test would check nothing.
         Assert.Contains("promoter_switch.cnet", accepted);
         Assert.Contains("repressor_dimer.cnet", accepted);
     }
 
     [Theory]
-    [InlineData(1)]
-    [InlineData(2)]
-    [InlineData(3)]
-    [InlineData(4)]
-    [InlineData(5)]
-    [InlineData(6)]
-    [InlineData(7)]
-    [InlineData(8)]
+    [MemberData(nameof(SameTrajectories.RandomSeeds), MemberType = typeof(SameTrajectories))]
     public void Random_mass_action_networks_give_the_general_loops_trajectories(int seed)
     {
         var random = new Random(seed);
@@ -69,32 +55,22 @@ public class CompiledLoopTests
     {
         var general = new DirectMethod<LinearSelection>(network, options, compiled: false);
         var compiled = new DirectMethod<LinearSelection>(network, options, compiled: true);
-        var rngGeneral = new Xoshiro256StarStar(seed);
-        var rngCompiled = new Xoshiro256StarStar(seed);
-        for (var r = 0; r < replicates; r++)
+        SameTrajectories.Check(general, compiled, grid, replicates, seed, () =>
         {
-            var expected = new Recording();
-            var actual = new Recording();
-            var expectedResult = general.Run(ref rngGeneral, grid, expected);
-            var actualResult = compiled.Run(ref rngCompiled, grid, actual);
             Assert.True(compiled.RunsCompiledLoop, $"{network.Name}: the generated loop did not run");
             Assert.False(general.RunsCompiledLoop);
-            Assert.Equal(expectedResult.Events, actualResult.Events);
-            Assert.Equal(expectedResult.HitEventLimit, actualResult.HitEventLimit);
-            Assert.Equal(expected.Rows.Count, actual.Rows.Count);
-            for (var i = 0; i < expected.Rows.Count; i++) Assert.Equal(expected.Rows[i], actual.Rows[i]);
-            Assert.Equal(rngGeneral.NextUInt64(), rngCompiled.NextUInt64());
-        }
+        });
     }
 
     /// <summary>
-    /// A random mass-action network: 2–8 species, 2–24 reactions of every form the generated loop handles
-    /// (0 →, X →, X + Y →, 2 X →, to 0, 1 or 2 product molecules), sometimes a scheduled change of a count.
+    /// A random mass-action network: <paramref name="minSpecies"/>–<paramref name="maxSpecies"/> species,
+    /// <paramref name="minReactions"/>–<paramref name="maxReactions"/> reactions of every form the generated loop handles (0 →, X →, X + Y →, 2 X →, to 0, 1 or 2 product
+    /// molecules), sometimes a scheduled change of a count.
     /// </summary>
-    private static string RandomNetwork(Random random)
+    internal static string RandomNetwork(Random random, int minSpecies = 2, int maxSpecies = 8, int minReactions = 2, int maxReactions = 24)
     {
-        var species = random.Next(2, 9);
-        var reactions = random.Next(2, 25);
+        var species = random.Next(minSpecies, maxSpecies + 1);
+        var reactions = random.Next(minReactions, maxReactions + 1);
         var text = new StringBuilder("species\n");
         for (var i = 0; i < species; i++) text.Append(CultureInfo.InvariantCulture, $"  S{i} = {random.Next(0, 40)}\n");
         text.Append("reactions\n");
@@ -121,13 +97,5 @@ public class CompiledLoopTests
         }
         if (random.Next(2) == 0) text.Append(CultureInfo.InvariantCulture, $"changes\n  S0 = S0 + {random.Next(1, 20)} at time 3.3\n");
         return text.ToString();
-    }
-
-    private sealed class Recording : ITrajectoryObserver
-    {
-        public List<string> Rows { get; } = [];
-
-        public void Record(int gridIndex, double time, long[] counts, double[] parameters) =>
-            Rows.Add($"{gridIndex} {time:R} {string.Join(' ', counts)}");
     }
 }
