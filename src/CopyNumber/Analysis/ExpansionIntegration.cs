@@ -158,10 +158,13 @@ internal static class ExpansionIntegration
             if (system.Network.Cycle is { } cycle && change.TargetIndex == cycle.BirthSlot)
             {
                 var before = new double[s, s];
-                foreach (var block in system.SplitsSources ? [system.CovarianceOffset, system.PartitioningOffset] : new[] { system.CovarianceOffset })
+                // The sharing of gene copies is partly a linear map of the covariance (every source's part) and partly an
+                // injection (the whole and the partitioning's part only); DivisionVariance says why.
+                foreach (var block in system.SplitsSources ? [system.CovarianceOffset, system.ReactionsOffset, system.PartitioningOffset] : new[] { system.CovarianceOffset })
                 {
                     system.UnpackCovariance(y, before, block);
-                    DivisionVariance.AddBeforeHalving(system.Network, cycle, phi, before);
+                    DivisionVariance.ShareGeneCopies(cycle, phi, before);
+                    if (block != system.ReactionsOffset) DivisionVariance.AddBeforeHalving(system.Network, cycle, phi, before);
                     system.PackCovariance(before, y, block);
                 }
             }

@@ -134,6 +134,42 @@ public sealed class CellCycleModelTests
     }
 
     [Fact]
+    public void AOnePromoterThatSwitchesKeepsTheVarianceOfItsStateAcrossDivisions()
+    {
+        // One promoter copy switching on and off (first order: the LNA is exact for its mean and covariance between
+        // divisions), copied at phase 0.4 and shared at division. With one copy, g_on is 0 or 1, so its variance is
+        // m(1 − m) whatever happened before (a Bernoulli law; common practice); with two copies of independent state it is
+        // the sum of two such. Evaluated at the mean counts alone, the sharing's variance came out C/4 too large: at a
+        // division with two copies of equal mean ½ the LNA said 0.375 where a 0/1 count has at most ¼.
+        var network = ModelLoader.LoadText("""
+            species
+              g_off = 1
+              g_on = 0
+            parameters
+              k_on = 0.02
+              k_off = 0.03
+            reactions
+              activate: g_off -> g_on  mass k_on
+              deactivate: g_on -> g_off  mass k_off
+            cycle
+              length 10
+              genes g_off g_on double at 0.4
+            """, "promoter.cnet").Model!.Network;
+        var grid = new TimeGrid(until: 40, every: 1);
+        var lna = LinearNoiseApproximation.Solve(network, grid, new SolverOptions(RelativeTolerance: 1e-10, AbsoluteTolerance: 1e-12));
+        var on = lna.ColumnIndex("g_on");
+        for (var point = 0; point < grid.Count; point++)
+        {
+            var phase = grid[point] / 10 - Math.Floor(grid[point] / 10 + 1e-9);
+            if (phase >= 0.4 - 1e-9) continue; // two copies: checked below through the daughters
+            var m = lna.RateEquationValue(point, on);
+            Assert.Equal(m * (1 - m), lna.Variance(point, on), 8);
+            Assert.Equal(-m * (1 - m), lna.Covariance(point)[0, 1], 8);
+        }
+        Assert.True(lna.RateEquationValue(10, on) > 0.1, "the promoter must have switched on by the first division, or the check is empty");
+    }
+
+    [Fact]
     public void MethodsThatCannotCarryACycleRefuseItAtItsLine()
     {
         var network = Load("  make: gene -> gene + P  mass k\n  import: 0 -> P  mass q");
