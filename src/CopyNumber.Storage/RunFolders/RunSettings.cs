@@ -22,8 +22,8 @@ public sealed record RunSettings(string ModelSha256, IReadOnlyDictionary<string,
 
     /// <summary>
     /// Each way <paramref name="other"/> differs from these settings, as a line for the user, e.g.
-    /// "--seed: 8 in B, 7 in A"; empty when they agree. The command that wrote a folder never matters;
-    /// the shard matters only when <paramref name="includeShard"/> is set.
+    /// "--seed: 8 in B, 7 in A"; empty when they agree. The command that wrote a folder and where its switching cores
+    /// came from never matter; the shard matters only when <paramref name="includeShard"/> is set.
     /// </summary>
     public IReadOnlyList<string> Differences(RunSettings other, string thisName, string otherName, bool includeShard)
     {
@@ -33,7 +33,8 @@ public sealed record RunSettings(string ModelSha256, IReadOnlyDictionary<string,
             lines.Add($"the model: {otherName} ran a model with SHA-256 {Short(other.ModelSha256)}, {thisName} one with {Short(ModelSha256)} (the model text differs)");
         foreach (var key in Arguments.Keys.Union(other.Arguments.Keys).Order(StringComparer.Ordinal))
         {
-            if (key == ManifestFields.CommandArgument || (!includeShard && key == ManifestFields.ShardArgument)) continue;
+            // Where the switching cores came from is provenance: the same cores, given or taken from the steady states, make the same run.
+            if (key == ManifestFields.CommandArgument || key == ManifestFields.SwitchingSourceArgument || (!includeShard && key == ManifestFields.ShardArgument)) continue;
             var mine = Arguments.TryGetValue(key, out var a) ? a : "(not recorded)";
             var theirs = other.Arguments.TryGetValue(key, out var b) ? b : "(not recorded)";
             if (mine != theirs) lines.Add($"--{key.Replace('_', '-')}: {theirs} in {otherName}, {mine} in {thisName}");

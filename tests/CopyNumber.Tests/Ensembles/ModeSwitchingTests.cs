@@ -211,6 +211,33 @@ public sealed class ModeSwitchingTests
     }
 
     [Fact]
+    public void Shards_with_the_same_cores_merge_whether_the_cores_were_given_or_taken_from_the_steady_states()
+    {
+        // The toggle's default cores come from its stable steady states (U=9..21,V=9..21); a shard given the same cores by
+        // option ran the same replicates the same way, so the merge must accept it and carry the counts of one run.
+        using var scratch = new ScratchFolder();
+        var model = CliRun.Scenario("toggle_pair.cnet");
+        string[] Simulate(string folder, params string[] extra) =>
+            ["simulate", model, "--until", "20", "--every", "5", "--replicates", "256", "--seed", "4", "--method", "direct",
+                "--no-contrast", "--check-exact", "false", "--out", folder, .. extra];
+        var whole = scratch.File("whole");
+        Assert.Equal(0, CliRun.Of(Simulate(whole)).ExitCode);
+        var first = scratch.File("first");
+        Assert.Equal(0, CliRun.Of(Simulate(first, "--shard", "1/2")).ExitCode);
+        var second = scratch.File("second");
+        Assert.Equal(0, CliRun.Of(Simulate(second, "--shard", "2/2", "--switching", "U=9..21,V=9..21")).ExitCode);
+        var merged = scratch.File("merged");
+        var merge = CliRun.Of(["merge", first, second, "--out", merged]);
+        Assert.True(merge.ExitCode == 0, merge.Error);
+        string Field(string folder)
+        {
+            using var manifest = JsonDocument.Parse(File.ReadAllText(Path.Combine(folder, RunFiles.Manifest)));
+            return manifest.RootElement.GetProperty(ManifestFields.ModeSwitching).GetRawText();
+        }
+        Assert.Equal(Field(whole), Field(merged));
+    }
+
+    [Fact]
     public void Shards_merged_on_the_command_line_carry_the_counts_of_one_run()
     {
         using var scratch = new ScratchFolder();
