@@ -220,20 +220,8 @@ public static class RunContrast
     }
 
     /// <summary>The switching statistics the run's manifest records for the cores it followed; empty when it followed none.</summary>
-    private static IReadOnlyList<ModeSwitching> ModeSwitchingOf(RunFolder run, ReactionNetwork network, double until)
-    {
-        if (!run.Manifest.Arguments.TryGetValue(ManifestFields.SwitchingArgument, out var text)) return [];
-        IReadOnlyList<ModeCore> cores;
-        try
-        {
-            cores = ModeCore.Parse(text, network);
-        }
-        catch (ArgumentException e)
-        {
-            throw new RunFolderException($"'{run.Path}/manifest.json' records the switching cores '{text}', which do not read: {e.Message}", run.Path);
-        }
-        return ModeSwitchingJson.Read(run.Manifest, cores, until);
-    }
+    private static IReadOnlyList<ModeSwitching> ModeSwitchingOf(RunFolder run, ReactionNetwork network, double until) =>
+        ModeSwitchingJson.Read(run.Manifest, ModeSwitchingJson.Cores(run.Manifest, network, run.Path), until);
 
     // A multimodal species not followed gets the option with cores from its two outermost modes at the last grid time
     // that had two or more; a multimodal readout, the pointer to the option (switching is followed for species).

@@ -46,6 +46,25 @@ public static class ModeSwitchingJson
     }
 
     /// <summary>
+    /// The cores whose modes the run in <paramref name="folder"/> followed, as its manifest records them under
+    /// <see cref="ManifestFields.SwitchingArgument"/>; none when it records none.
+    /// </summary>
+    /// <exception cref="RunFolderException">The recorded cores do not read against the run's model.</exception>
+    public static IReadOnlyList<ModeCore> Cores(RunManifest manifest, ReactionNetwork network, string folder)
+    {
+        ArgumentNullException.ThrowIfNull(manifest);
+        if (!manifest.Arguments.TryGetValue(ManifestFields.SwitchingArgument, out var text)) return [];
+        try
+        {
+            return ModeCore.Parse(text, network);
+        }
+        catch (ArgumentException e)
+        {
+            throw new RunFolderException($"'{folder}/manifest.json' records the switching cores '{text}', which do not read: {e.Message}", folder);
+        }
+    }
+
+    /// <summary>
     /// The statistics stored in <paramref name="manifest"/> for <paramref name="cores"/> (the run's own); empty
     /// when the field is absent or does not match them, so that a combination then reports none rather than a
     /// partial sum.

@@ -47,12 +47,13 @@ public static class RunFiles
     /// </summary>
     public static readonly IReadOnlyList<string> AddedAfterRun = [Snapshot, SnapshotMoments];
 
-    /// <summary>True when <paramref name="name"/>, one of <see cref="AddedAfterRun"/>, is recorded among the checksums of the manifest in <paramref name="folder"/>.</summary>
-    public static bool RecordedAddOn(string folder, string name)
+    /// <summary>True when every one of <paramref name="names"/> (of <see cref="AddedAfterRun"/>) is recorded among the checksums of the manifest in <paramref name="folder"/>.</summary>
+    public static bool RecordedAddOns(string folder, params string[] names)
     {
         var manifest = Path.Combine(folder, Manifest);
         if (!File.Exists(manifest)) return false;
-        return FileChecksums.Recorded(RunManifest.Read(manifest), ManifestFields.Files, folder)?.ContainsKey(name) ?? false;
+        var recorded = FileChecksums.Recorded(RunManifest.Read(manifest), ManifestFields.Files, folder);
+        return recorded is not null && names.All(recorded.ContainsKey);
     }
 
     /// <summary>The tables a run folder's manifest lists with their checksums (<see cref="ManifestFields.Files"/>) when they were written.</summary>

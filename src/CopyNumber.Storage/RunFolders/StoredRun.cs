@@ -278,19 +278,7 @@ public sealed class StoredRun
     /// none when it records none.
     /// </summary>
     /// <exception cref="RunFolderException">The recorded cores do not read against the run's model.</exception>
-    public IReadOnlyList<ModeCore> SwitchingCores(ReactionNetwork network)
-    {
-        ArgumentNullException.ThrowIfNull(network);
-        if (!Manifest.Arguments.TryGetValue(ManifestFields.SwitchingArgument, out var text)) return [];
-        try
-        {
-            return ModeCore.Parse(text, network);
-        }
-        catch (ArgumentException e)
-        {
-            throw new RunFolderException($"'{Folder}/manifest.json' records the switching cores '{text}', which do not read: {e.Message}", Folder);
-        }
-    }
+    public IReadOnlyList<ModeCore> SwitchingCores(ReactionNetwork network) => ModeSwitchingJson.Cores(Manifest, network, Folder);
 
     /// <summary>
     /// The species pairs the run accumulated: those its manifest records under <see cref="ManifestFields.CovariancePairsArgument"/>,

@@ -85,7 +85,7 @@ public static class SnapshotTable
         var momentsPath = Path.Combine(folder, RunFiles.SnapshotMoments);
         if (!File.Exists(lawsPath) || !File.Exists(momentsPath)) return null;
         // Tables the manifest does not record were cut off before it recorded them (a kill between the two writes): not used.
-        if (!RunFiles.RecordedAddOn(folder, RunFiles.Snapshot) || !RunFiles.RecordedAddOn(folder, RunFiles.SnapshotMoments)) return null;
+        if (!RunFiles.RecordedAddOns(folder, RunFiles.Snapshot, RunFiles.SnapshotMoments)) return null;
         var rows = new List<StoredSnapshotMoments>();
         int burnIn, cycles, ages;
         long replicates;

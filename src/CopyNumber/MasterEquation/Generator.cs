@@ -70,7 +70,7 @@ public sealed class Generator
         var n = space.Count;
         var m = network.Reactions.Count;
         var rows = new Rows(new int[(long)n * m], new double[(long)n * m], new double[n], new double[n], new int[n]);
-        Derive(space, network, constants, parameters, parallel, rows, 0, n, _ => true);
+        Derive(space, network, constants, parameters, parallel, rows, _ => true);
         return Assemble(n, m, rows);
     }
 
@@ -97,25 +97,25 @@ public sealed class Generator
         Array.Copy(LeakReactions, rows.LeakReactions, States);
         var oldStates = States;
         var oldLeak = Leak;
-        Derive(space, network, constants, parameters, parallel, rows, 0, n, i => i >= oldStates || oldLeak[i] > 0);
+        Derive(space, network, constants, parameters, parallel, rows, i => i >= oldStates || oldLeak[i] > 0);
         return Assemble(n, m, rows);
     }
 
     /// <summary>Per state, its m outgoing slots, total exit rate, rate and reactions of leaving.</summary>
     private sealed record Rows(int[] Targets, double[] Rates, double[] Exit, double[] Leak, int[] LeakReactions);
 
-    /// <summary>Derives the rows of the states in [from, to) that <paramref name="derive"/> selects.</summary>
-    private static void Derive(StateSpace space, ReactionNetwork network, double[] constants, double[] parameters, ParallelOptions parallel, Rows rows, int from, int to, Func<int, bool> derive)
+    /// <summary>Derives the rows of the states that <paramref name="derive"/> selects.</summary>
+    private static void Derive(StateSpace space, ReactionNetwork network, double[] constants, double[] parameters, ParallelOptions parallel, Rows rows, Func<int, bool> derive)
     {
         var m = network.Reactions.Count;
         var (targets, rates, exit, leak, leakReactions) = (rows.Targets, rows.Rates, rows.Exit, rows.Leak, rows.LeakReactions);
         string? failure = null;
-        var n = to - from;
+        var n = space.Count;
         Parallel.For(0, Chunks(n), parallel, () => (new long[network.Species.Count], new int[space.Dimension]), (chunk, _, scratch) =>
         {
             var (counts, key) = scratch;
             var (first, end) = ChunkRange(chunk, n);
-            for (var i = from + first; i < from + end; i++)
+            for (var i = first; i < end; i++)
             {
                 if (!derive(i)) continue;
                 space.Counts(i, counts);
